@@ -1,0 +1,41 @@
+export default defineNuxtConfig({
+  compatibilityDate: '2026-11-01',
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
+  devtools: { enabled: false },
+  telemetry: false,
+  css: ['~/assets/css/main.css'],
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Mantissa',
+      meta: [{ name: 'viewport', content: 'width=device-width, initial-scale=1' }],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/mark.svg' }],
+    },
+  },
+  runtimeConfig: {
+    // Every value here is overridden by NUXT_* environment variables (README: production settings).
+    databaseUrl: '',
+    smtpUrl: '',
+    mailFrom: 'Mantissa <desk@mantissa.invalid>',
+    mailSink: { enabled: false, port: 2525 },
+    publicUrl: 'http://localhost:3000',
+    demoSeed: false,
+    uploadLimitBytes: 200 * 1024 * 1024,
+    storage: { driver: 'fs', base: '.data/files' },
+    session: {
+      maxAge: 60 * 60 * 12,
+      cookie: { sameSite: 'lax', httpOnly: true },
+    },
+  },
+  eslint: {
+    config: { stylistic: true },
+  },
+  vite: {
+    optimizeDeps: {
+      include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', 'vega-embed', 'vega-lite', 'vega', 'arquero', 'papaparse'],
+    },
+  },
+  typescript: {
+    strict: true,
+  },
+})

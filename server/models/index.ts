@@ -1,0 +1,19 @@
+import type { Sequelize } from 'sequelize'
+import { Newsroom } from './Newsroom'
+import { User } from './User'
+import { Membership } from './Membership'
+import { Invitation } from './Invitation'
+import { AuditEvent } from './AuditEvent'
+import { SignInAttempt } from './SignInAttempt'
+
+export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt }
+
+/** Registers every model on `sequelize` and wires their associations. */
+export function setupModels(sequelize: Sequelize) {
+  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt]) model.setup(sequelize)
+  Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
+  Membership.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
+  User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
+  Invitation.belongsTo(User, { foreignKey: 'invitedBy', as: 'inviter' })
+  Invitation.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
+}
