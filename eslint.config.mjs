@@ -1,6 +1,13 @@
 // @ts-check
 import withNuxt from './.nuxt/eslint.config.mjs'
 
-export default withNuxt(
-  // Your custom configs here
-)
+export default withNuxt({
+  rules: {
+    // Long attribute lists read better on one line in small templates.
+    'vue/max-attributes-per-line': 'off',
+    'vue/singleline-html-element-content-newline': 'off',
+    'vue/multiline-html-element-content-newline': 'off',
+  },
+}, {
+  ignores: ['.data/**', 'tests/.artifacts/**', 'bench/.out/**'],
+})

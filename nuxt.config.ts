@@ -1,9 +1,6 @@
 export default defineNuxtConfig({
-  compatibilityDate: '2026-11-01',
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
   devtools: { enabled: false },
-  telemetry: false,
-  css: ['~/assets/css/main.css'],
   app: {
     head: {
       htmlAttrs: { lang: 'en' },
@@ -12,6 +9,7 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/mark.svg' }],
     },
   },
+  css: ['~/assets/css/main.css'],
   runtimeConfig: {
     // Every value here is overridden by NUXT_* environment variables (README: production settings).
     databaseUrl: '',
@@ -27,9 +25,9 @@ export default defineNuxtConfig({
       cookie: { sameSite: 'lax', httpOnly: true },
     },
   },
-  eslint: {
-    config: { stylistic: true },
-  },
+  // Static files live with the app, keeping the repository's top level to its fixed folders.
+  dir: { public: 'app/public' },
+  compatibilityDate: '2026-11-01',
   vite: {
     optimizeDeps: {
       include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', 'vega-embed', 'vega-lite', 'vega', 'arquero', 'papaparse'],
@@ -38,4 +36,9 @@ export default defineNuxtConfig({
   typescript: {
     strict: true,
   },
+  telemetry: false,
+  eslint: {
+    config: { stylistic: true },
+  },
+  tailwindcss: { cssPath: false },
 })

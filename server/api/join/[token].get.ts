@@ -1,0 +1,7 @@
+import { tokenParamsSchema } from '#shared/schemas/auth'
+import { peekInvitation } from '../../services/invitations'
+
+export default defineEventHandler(async (event) => {
+  const { token } = readParams(event, tokenParamsSchema)
+  return peekInvitation(token)
+})

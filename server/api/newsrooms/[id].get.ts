@@ -1,0 +1,8 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { describeNewsroom } from '../../services/members'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const actor = await requirePermission(event, 'newsroom.read', { newsroomId: id })
+  return describeNewsroom(id, actor.role)
+})

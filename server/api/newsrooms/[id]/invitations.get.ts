@@ -1,0 +1,8 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { listPendingInvitations } from '../../../services/invitations'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  await requirePermission(event, 'member.invite', { newsroomId: id })
+  return listPendingInvitations(id)
+})

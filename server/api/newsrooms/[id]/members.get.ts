@@ -1,0 +1,8 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { listMembers } from '../../../services/members'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  await requirePermission(event, 'newsroom.read', { newsroomId: id })
+  return listMembers(id)
+})

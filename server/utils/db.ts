@@ -1,0 +1,30 @@
+import pg from 'pg'
+import { Sequelize } from 'sequelize'
+import * as models from '../models'
+
+export interface Db {
+  sequelize: Sequelize
+  models: Omit<typeof models, 'setupModels'>
+}
+
+let db: Db | undefined
+
+/**
+ * The one database handle of the process, created on first use. The URL comes from
+ * runtime config (NUXT_DATABASE_URL); `pg` is passed explicitly because Nitro's file
+ * tracer misses Sequelize's dynamic require of it.
+ */
+export function useDb(): Db {
+  if (db) return db
+  const url = useRuntimeConfig().databaseUrl
+  if (!url) throw new Error('NUXT_DATABASE_URL is not set')
+  const sequelize = new Sequelize(url, {
+    dialect: 'postgres',
+    dialectModule: pg,
+    logging: false,
+    pool: { max: 20, min: 0, idle: 10_000, acquire: 30_000 },
+  })
+  models.setupModels(sequelize)
+  db = { sequelize, models }
+  return db
+}
