@@ -1,0 +1,57 @@
+// A small HTTP client for server tests: keeps the session cookie like a browser would.
+export const baseUrl = process.env.MANTISSA_TEST_URL ?? 'http://localhost:3101'
+
+export interface Reply<T = any> {
+  status: number
+  body: T
+  headers: Headers
+}
+
+export class Client {
+  cookie = ''
+
+  async request<T = any>(method: string, path: string, body?: unknown): Promise<Reply<T>> {
+    const headers: Record<string, string> = { accept: 'application/json' }
+    if (this.cookie) headers.cookie = this.cookie
+    let payload: BodyInit | undefined
+    if (body instanceof FormData) payload = body
+    else if (body !== undefined) {
+      headers['content-type'] = 'application/json'
+      payload = JSON.stringify(body)
+    }
+    const response = await fetch(`${baseUrl}${path}`, { method, headers, body: payload, redirect: 'manual' })
+    const setCookie = response.headers.getSetCookie()
+    if (setCookie.length) this.cookie = setCookie.map(c => c.split(';')[0]).join('; ')
+    const text = await response.text()
+    let parsed: unknown = text
+    try {
+      parsed = text ? JSON.parse(text) : null
+    }
+    catch { /* not JSON */ }
+    return { status: response.status, body: parsed as T, headers: response.headers }
+  }
+
+  get<T = any>(path: string) {
+    return this.request<T>('GET', path)
+  }
+
+  post<T = any>(path: string, body?: unknown) {
+    return this.request<T>('POST', path, body ?? {})
+  }
+
+  patch<T = any>(path: string, body?: unknown) {
+    return this.request<T>('PATCH', path, body ?? {})
+  }
+
+  delete<T = any>(path: string) {
+    return this.request<T>('DELETE', path)
+  }
+}
+
+/** A client signed in with e-mail and password; fails the test when sign-in does not answer 200. */
+export async function signedIn(email: string, password: string): Promise<Client> {
+  const client = new Client()
+  const reply = await client.post('/api/auth/login', { email, password })
+  if (reply.status !== 200) throw new Error(`sign-in as ${email} answered ${reply.status}: ${JSON.stringify(reply.body)}`)
+  return client
+}

@@ -1,0 +1,27 @@
+import { mkdirSync } from 'node:fs'
+import { join } from 'node:path'
+import { chromium } from 'playwright-core'
+import type { Browser, Page } from 'playwright-core'
+import { baseUrl } from './api'
+
+// Flags that keep Debian's Chromium quiet on a closed network (../shared/STACK.md).
+const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
+
+export const artifacts = join(process.cwd(), 'tests', '.artifacts')
+
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({ executablePath: '/usr/bin/chromium', args: ARGS, headless: true })
+}
+
+/** Signs in through the page, as a person would. */
+export async function signInThroughPage(page: Page, email: string, password: string) {
+  await page.goto(`${baseUrl}/login`)
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+export async function screenshot(page: Page, name: string) {
+  mkdirSync(artifacts, { recursive: true })
+  await page.screenshot({ path: join(artifacts, `${name}.png`), fullPage: true })
+}
