@@ -5,15 +5,19 @@ import { Membership } from './Membership'
 import { Invitation } from './Invitation'
 import { AuditEvent } from './AuditEvent'
 import { SignInAttempt } from './SignInAttempt'
+import { Dataset } from './Dataset'
+import { DatasetColumn } from './DatasetColumn'
 
-export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt }
+export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn }
 
 /** Registers every model on `sequelize` and wires their associations. */
 export function setupModels(sequelize: Sequelize) {
-  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt]) model.setup(sequelize)
+  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn]) model.setup(sequelize)
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
   Invitation.belongsTo(User, { foreignKey: 'invitedBy', as: 'inviter' })
   Invitation.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
+  Dataset.hasMany(DatasetColumn, { foreignKey: 'datasetId', as: 'columns' })
+  Dataset.belongsTo(User, { foreignKey: 'createdBy', as: 'creator' })
 }

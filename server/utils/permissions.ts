@@ -34,3 +34,12 @@ export async function requirePermission(
   if (!can(membership.role, action, resource.ownerId === user.id)) throw fail(403)
   return { userId: user.id, name: user.name, email: user.email, newsroomId: resource.newsroomId, role: membership.role }
 }
+
+/** The newsroom of a member who belongs to exactly one; others must name it (400). */
+export async function onlyNewsroomOf(userId: string): Promise<string> {
+  const memberships = await useDb().models.Membership.findAll({ where: { userId }, attributes: ['newsroomId'] })
+  if (memberships.length !== 1) {
+    throw fail(400, [{ path: 'newsroomId', message: 'You belong to several newsrooms (or none): add ?newsroomId= to say which.' }])
+  }
+  return memberships[0]!.newsroomId as string
+}

@@ -1,0 +1,12 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { digitTestRequestSchema } from '#shared/schemas/dataset'
+import { findDataset } from '../../../services/datasets/catalog'
+import { runDatasetTest } from '../../../services/datasets/digit-tests'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const body = await readInput(event, digitTestRequestSchema)
+  const dataset = await findDataset(id)
+  await requirePermission(event, 'dataset.read', { newsroomId: dataset.newsroomId })
+  return runDatasetTest(dataset, body)
+})

@@ -1,0 +1,10 @@
+import { z } from 'zod'
+import { listDatasets } from '../../services/datasets/catalog'
+
+const querySchema = z.object({ newsroomId: z.string().uuid() })
+
+export default defineEventHandler(async (event) => {
+  const { newsroomId } = readQuery(event, querySchema)
+  await requirePermission(event, 'dataset.read', { newsroomId })
+  return listDatasets(newsroomId)
+})

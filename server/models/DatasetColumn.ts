@@ -1,0 +1,38 @@
+import { Model, DataTypes } from 'sequelize'
+import type { InferAttributes, InferCreationAttributes, Sequelize } from 'sequelize'
+
+export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCreationAttributes<DatasetColumn>> {
+  declare datasetId: string
+  declare position: number
+  declare name: string
+  declare kind: string
+  declare decimalMark: string | null
+  declare parsed: number
+  declare blank: number
+  declare unreadable: number
+  declare zero: number
+  declare negative: number
+  declare min: string | null
+  declare max: string | null
+  declare magnitudeSpan: number | null
+  declare samples: string[]
+
+  static setup(sequelize: Sequelize) {
+    DatasetColumn.init({
+      datasetId: { type: DataTypes.UUID, primaryKey: true },
+      position: { type: DataTypes.SMALLINT, primaryKey: true },
+      name: { type: DataTypes.TEXT, allowNull: false },
+      kind: { type: DataTypes.TEXT, allowNull: false },
+      decimalMark: DataTypes.CHAR(1),
+      parsed: DataTypes.INTEGER,
+      blank: DataTypes.INTEGER,
+      unreadable: DataTypes.INTEGER,
+      zero: DataTypes.INTEGER,
+      negative: DataTypes.INTEGER,
+      min: DataTypes.DECIMAL,
+      max: DataTypes.DECIMAL,
+      magnitudeSpan: DataTypes.REAL,
+      samples: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
+    }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })
+  }
+}

@@ -1,0 +1,67 @@
+import { once } from 'node:events'
+import type { PoolClient } from 'pg'
+import { from as copyFrom } from 'pg-copy-streams'
+import type { DigitRecord } from '#shared/digits'
+
+const FLUSH_AT = 1 << 20
+export const STATUS_CODES = { blank: 0, unreadable: 1, zero: 2, number: 3 } as const
+
+function quoted(text: string) {
+  return `"${text.replaceAll('"', '""')}"`
+}
+
+/** A PostgreSQL text[] literal; NUL cannot be stored in text and is dropped. */
+function arrayLiteral(cells: readonly string[]) {
+  return `{${cells.map(c => `"${c.replaceAll('\0', '').replaceAll('\\', '\\\\').replaceAll('"', '\\"')}"`).join(',')}}`
+}
+
+function field(value: number | string | null) {
+  return value === null ? '' : String(value)
+}
+
+/** COPY … FROM STDIN in CSV form, written in ~1 MB pieces with backpressure. */
+export class CopyWriter {
+  private buffer = ''
+  private readonly stream
+
+  constructor(client: PoolClient, table: string, columns: string[]) {
+    this.stream = client.query(copyFrom(`COPY ${table} (${columns.join(', ')}) FROM STDIN WITH (FORMAT csv)`))
+  }
+
+  async line(text: string) {
+    this.buffer += text
+    if (this.buffer.length >= FLUSH_AT) await this.flush()
+  }
+
+  private async flush() {
+    if (!this.buffer) return
+    const ok = this.stream.write(this.buffer)
+    this.buffer = ''
+    if (!ok) await once(this.stream, 'drain')
+  }
+
+  async end() {
+    await this.flush()
+    const finished = once(this.stream, 'finish')
+    this.stream.end()
+    await finished
+  }
+
+  destroy() {
+    this.stream.destroy()
+  }
+}
+
+export const ROW_COLUMNS = ['dataset_id', 'row_no', 'cells']
+export const DIGIT_COLUMNS = [
+  'dataset_id', 'column_pos', 'row_no', 'status', 'sign', 'value', 'first_digit', 'second_digit', 'first_two',
+  'first_three', 'last_two', 'integer_digits', 'trailing_zeros', 'fraction_digits', 'mantissa',
+]
+
+export function rowLine(datasetId: string, rowNo: number, cells: readonly string[]) {
+  return `${datasetId},${rowNo},${quoted(arrayLiteral(cells))}\n`
+}
+
+export function digitLine(datasetId: string, columnPos: number, rowNo: number, r: DigitRecord) {
+  return `${datasetId},${columnPos},${rowNo},${STATUS_CODES[r.status]},${r.sign},${field(r.value)},${field(r.firstDigit)},${field(r.secondDigit)},${field(r.firstTwo)},${field(r.firstThree)},${field(r.lastTwo)},${r.integerDigits},${r.trailingZeros},${r.fractionDigits},${field(r.mantissa)}\n`
+}

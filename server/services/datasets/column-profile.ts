@@ -1,0 +1,102 @@
+import type { DigitRecord } from '#shared/digits'
+
+export const COLUMN_KINDS = ['amount', 'count', 'date', 'text', 'identifier'] as const
+export type ColumnKind = typeof COLUMN_KINDS[number]
+
+const SAMPLES = 5
+const ID_NAME = /(^|[\s_-])(id|code|zip|postcode|phone|account|iban|ref|reference|no|nr|number)($|[\s_.-])/i
+const DATE_TEXT = /^(\d{4}-\d{1,2}-\d{1,2}([T ][\d:.]+Z?)?|\d{1,2}[./-]\d{1,2}[./-]\d{2,4}|\d{4}\/\d{1,2}\/\d{1,2})$/
+const CODE_TEXT = /^[A-Za-z]{0,6}[-_/ ]?\d{3,}[A-Za-z]?$/
+
+/** What an import learns about one column while the rows stream past. */
+export class ColumnProfile {
+  blank = 0
+  parsed = 0
+  unreadable = 0
+  zero = 0
+  negative = 0
+  whole = 0
+  dateLike = 0
+  codeLike = 0
+  min: { n: number, text: string } | null = null
+  max: { n: number, text: string } | null = null
+  minAbs = Infinity
+  maxAbs = 0
+  /** Non-blank cells of a column read as text. */
+  textOnly = 0
+  readonly lengths = new Map<number, number>()
+  readonly samples: string[] = []
+
+  constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null) {}
+
+  private sample(cell: string) {
+    if (this.samples.length < SAMPLES && !this.samples.includes(cell)) this.samples.push(cell.slice(0, 200))
+  }
+
+  addText(cell: string) {
+    const text = cell.trim()
+    if (!text) {
+      this.blank++
+      return
+    }
+    this.textOnly++
+    this.sample(text)
+    if (DATE_TEXT.test(text)) this.dateLike++
+    if (CODE_TEXT.test(text)) this.codeLike++
+  }
+
+  addNumber(cell: string, record: DigitRecord) {
+    if (record.status === 'blank') {
+      this.blank++
+      return
+    }
+    this.sample(cell.trim())
+    if (record.status === 'unreadable') {
+      this.unreadable++
+      if (DATE_TEXT.test(cell.trim())) this.dateLike++
+      return
+    }
+    this.parsed++
+    if (record.status === 'zero') {
+      this.zero++
+      this.whole++
+      this.track(0, '0')
+      return
+    }
+    if (record.sign < 0) this.negative++
+    if (record.fractionDigits === 0) this.whole++
+    this.lengths.set(record.integerDigits, (this.lengths.get(record.integerDigits) ?? 0) + 1)
+    const n = Number(record.value)
+    this.track(n, record.value!)
+    const abs = Math.abs(n)
+    if (abs < this.minAbs) this.minAbs = abs
+    if (abs > this.maxAbs) this.maxAbs = abs
+  }
+
+  private track(n: number, text: string) {
+    if (!this.min || n < this.min.n) this.min = { n, text }
+    if (!this.max || n > this.max.n) this.max = { n, text }
+  }
+
+  /** Orders of magnitude between the smallest and largest non-zero absolute value. */
+  get magnitudeSpan(): number | null {
+    return this.maxAbs > 0 && Number.isFinite(this.minAbs) ? Math.log10(this.maxAbs) - Math.log10(this.minAbs) : null
+  }
+
+  get kind(): ColumnKind {
+    const nonBlank = this.parsed + this.unreadable + this.textOnly
+    const mostlyNumbers = this.numeric && this.parsed >= Math.max(1, 0.5 * nonBlank)
+    if (!mostlyNumbers) {
+      if (nonBlank && this.dateLike >= 0.8 * nonBlank) return 'date'
+      if (nonBlank && this.codeLike >= 0.9 * nonBlank && ID_NAME.test(this.name)) return 'identifier'
+      return 'text'
+    }
+    const numbers = this.parsed - this.zero
+    const commonLength = Math.max(0, ...this.lengths.values())
+    const allWhole = this.whole === this.parsed
+    // Assigned numbers (ids, codes) have no fractional part and mostly one length, or say so in their name.
+    if (allWhole && (ID_NAME.test(this.name) || (numbers > 20 && commonLength >= 0.95 * numbers && this.minAbs >= 1000))) return 'identifier'
+    if (allWhole && this.negative === 0) return 'count'
+    return 'amount'
+  }
+}

@@ -1,0 +1,158 @@
+import { DISTRIBUTIONS, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
+import type {
+  ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
+  SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
+} from '#shared/digits'
+import type { DigitTestRequestBody } from '#shared/schemas/dataset'
+import type { Dataset } from '../../models'
+import { datasetColumns } from './catalog'
+import { buildDigitQuery, columnByName, rawSelect, selectRows, signCode } from './digit-query'
+import type { DigitQuery } from './digit-query'
+
+const SNAKE: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
+const STATUS_NAMES = ['blank', 'unreadable', 'zero'] as const
+const NUMBER = 3
+
+type Grouped<T> = Map<string | null, T>
+
+function bucketOf<T>(map: Grouped<T>, key: string | null, make: () => T): T {
+  let entry = map.get(key)
+  if (!entry) map.set(key, entry = make())
+  return entry
+}
+
+const emptyStatus = (): StatusCounts => ({ blank: 0, unreadable: 0, zero: 0, positive: 0, negative: 0 })
+
+async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Grouped<StatusCounts>> {
+  const rows = await selectRows<{ grp?: string, status: number, sign: number, count: number }>(query, {
+    select: 'd.status, d.sign, count(*)::int AS count', groupBy: 'd.status, d.sign', grouped,
+  })
+  const byGroup: Grouped<StatusCounts> = new Map()
+  for (const row of rows) {
+    const status = bucketOf(byGroup, row.grp ?? null, emptyStatus)
+    if (row.status === NUMBER) status[row.sign > 0 ? 'positive' : 'negative'] += row.count
+    else status[STATUS_NAMES[row.status]!] += row.count
+  }
+  return byGroup
+}
+
+const ofSign = (sign: SignFilter) => `d.status = ${NUMBER} AND d.sign = ${signCode(sign)}`
+
+async function distributionCounts(test: DistributionTest, query: DigitQuery, sign: SignFilter, grouped: boolean) {
+  const field = `d.${SNAKE[DISTRIBUTIONS[test].field]}`
+  const rows = await selectRows<{ grp?: string, key: number | null, count: number, cos: number | null, sin: number | null }>(query, {
+    select: `${field} AS key, count(*)::int AS count, sum(cos(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS cos, sum(sin(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS sin`,
+    extra: ofSign(sign), groupBy: field, grouped,
+  })
+  const byGroup: Grouped<Omit<DistributionCounts, 'status'> & { arc: { cos: number, sin: number } }> = new Map()
+  for (const row of rows) {
+    const entry = bucketOf(byGroup, row.grp ?? null, () => ({ keys: [], arc: { cos: 0, sin: 0 } }))
+    entry.keys.push({ key: row.key, count: row.count })
+    entry.arc.cos += Number(row.cos ?? 0)
+    entry.arc.sin += Number(row.sin ?? 0)
+  }
+  return byGroup
+}
+
+async function summationCounts(query: DigitQuery, sign: SignFilter, grouped: boolean) {
+  const rows = await selectRows<{ grp?: string, key: number | null, count: number, amount: string }>(query, {
+    select: 'd.first_two AS key, count(*)::int AS count, sum(abs(d.value))::text AS amount', extra: ofSign(sign), groupBy: 'd.first_two', grouped,
+  })
+  const byGroup: Grouped<Omit<SummationCounts, 'status'>> = new Map()
+  for (const row of rows) bucketOf(byGroup, row.grp ?? null, () => ({ keys: [] })).keys.push({ key: row.key, count: row.count, amount: row.amount })
+  return byGroup
+}
+
+async function duplicateCounts(query: DigitQuery, sign: SignFilter): Promise<Omit<DuplicateCounts, 'status'>> {
+  const top = await selectRows<{ value: string, count: number }>(query, {
+    select: 'd.value::text AS value, count(*)::int AS count', extra: ofSign(sign), groupBy: 'd.value',
+    tail: 'HAVING count(*) > 1 ORDER BY count(*) DESC, d.value LIMIT 50',
+  })
+  const [totals = { distinct: 0, values: 0, rows: 0 }] = await rawSelect<{ distinct: number, values: number, rows: number }>(
+    `SELECT count(*)::int AS distinct, (count(*) FILTER (WHERE c > 1))::int AS values, coalesce(sum(c) FILTER (WHERE c > 1), 0)::int AS rows
+     FROM (SELECT count(*) AS c FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)} GROUP BY d.value) g`,
+    query.replacements,
+  )
+  return { distinct: totals.distinct, repeated: { values: totals.values, rows: totals.rows }, top }
+}
+
+async function roundCounts(query: DigitQuery, sign: SignFilter): Promise<Omit<RoundCounts, 'status'>> {
+  const cells = await selectRows<RoundCounts['cells'][number]>(query, {
+    select: 'd.integer_digits AS "integerDigits", d.trailing_zeros AS "trailingZeros", d.fraction_digits AS "fractionDigits", count(*)::int AS count',
+    extra: ofSign(sign), groupBy: 'd.integer_digits, d.trailing_zeros, d.fraction_digits',
+  })
+  return { cells }
+}
+
+async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: number): Promise<Omit<ThresholdCounts, 'status'>> {
+  const band = thresholdBand({ limit })
+  const buckets = await selectRows<{ bucket: number, count: number }>(query, {
+    select: 'floor((abs(d.value) - CAST(:low AS numeric)) / CAST(:width AS numeric))::int AS bucket, count(*)::int AS count',
+    extra: `${ofSign(sign)} AND abs(d.value) >= CAST(:low AS numeric) AND abs(d.value) < CAST(:high AS numeric)`, groupBy: '1',
+  }, { low: decimalToText(band.low), width: decimalToText(band.width), high: decimalToText(band.high) })
+  return { buckets }
+}
+
+/** The column facts the suitability check reads, in one pass (see ColumnProfile in the engine). */
+async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<CountedProfile | null> {
+  const [row] = await rawSelect<CountedProfile>(`
+    WITH v AS MATERIALIZED (SELECT abs(d.value) AS a, d.value, d.integer_digits, d.fraction_digits, d.trailing_zeros FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)})
+    SELECT (SELECT count(*) FROM v)::int AS n, (SELECT min(a) FROM v)::text AS min, (SELECT max(a) FROM v)::text AS max,
+      (SELECT count(*) FROM v WHERE a = (SELECT min(a) FROM v))::int AS "atMin",
+      (SELECT count(*) FROM v WHERE a = (SELECT max(a) FROM v))::int AS "atMax",
+      (SELECT count(*) FROM v WHERE fraction_digits = 0)::int AS whole,
+      (SELECT count(*) FROM v WHERE fraction_digits = 0 AND trailing_zeros >= 2)::int AS "roundHundreds",
+      coalesce((SELECT max(c) FROM (SELECT count(*) AS c FROM v GROUP BY integer_digits) l), 0)::int AS "commonLength",
+      coalesce((SELECT max(c) FROM (SELECT count(*) AS c FROM v GROUP BY value) t), 0)::int AS "topValue"
+  `, query.replacements)
+  return row && row.n > 0 ? row : null
+}
+
+const GROUPABLE = new Set<TestName>(['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'])
+
+async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number): Promise<Grouped<object>> {
+  if (test === 'summation') return summationCounts(query, sign, grouped)
+  if (test === 'duplicates') return new Map([[null, await duplicateCounts(query, sign)]])
+  if (test === 'round-numbers') return new Map([[null, await roundCounts(query, sign)]])
+  if (test === 'threshold') return new Map([[null, await thresholdCounts(query, sign, threshold!)]])
+  return distributionCounts(test, query, sign, grouped)
+}
+
+/**
+ * Runs one digit test on a stored dataset: PostgreSQL counts the stored digit records
+ * (filtered, optionally per group), the engine turns the counts into statistics.
+ */
+export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBody): Promise<TestResult> {
+  if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
+  const columns = await datasetColumns(dataset.id)
+  const tested = columnByName(columns, body.column, 'column')
+  if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers. Choose an amount or count column.` }])
+  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: 'Groups can be ranked for the digit tests and the summation test only.' }])
+  const sign = body.sign ?? 'positive'
+  const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
+
+  const [status, counts, profile] = await Promise.all([
+    statusCounts(whole, false),
+    testCounts(body.test, whole, sign, false, body.threshold),
+    profileCounts(whole, sign),
+  ])
+  const input = { counts: { status: status.get(null) ?? emptyStatus(), ...counts.get(null) } as TestCountsMap[TestName], profile }
+  let groups: Parameters<typeof runDigitTest>[0]['groups']
+  if (body.groupBy) {
+    const query = buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy)
+    const [groupStatus, groupCounts] = await Promise.all([statusCounts(query, true), testCounts(body.test, query, sign, true)])
+    groups = {
+      items: [...groupStatus].map(([key, s]) => ({
+        key: key ?? '',
+        input: { counts: { status: s, ...(groupCounts.get(key) ?? { keys: [], arc: { cos: 0, sin: 0 } }) } as TestCountsMap[TestName] },
+      })),
+    }
+  }
+  try {
+    return runDigitTest({ test: body.test, input, column: tested.name, sign, threshold: body.threshold ? { limit: body.threshold } : undefined, groups })
+  }
+  catch (error) {
+    if (error instanceof RangeError) throw fail(400, [{ path: 'threshold', message: error.message }])
+    throw error
+  }
+}

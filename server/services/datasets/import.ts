@@ -1,0 +1,186 @@
+import { open } from 'node:fs/promises'
+import type { PoolClient } from 'pg'
+import { detectNumberStyle, recordOf, readNumber } from '#shared/digits'
+import type { NumberStyle } from '#shared/digits'
+import { ColumnProfile } from './column-profile'
+import { CopyWriter, DIGIT_COLUMNS, ROW_COLUMNS, digitLine, rowLine } from './bulk-copy'
+import { openRows } from './readers'
+import { UnreadableFile, detectEncoding } from './sniff'
+import type { DatasetFormat } from './sniff'
+import { partitionNames } from './partitions'
+
+export const MAX_COLUMNS = 2000
+const SAMPLE_ROWS = 1000
+const PROGRESS_EVERY_MS = 500
+
+function headerNames(raw: string[]): string[] {
+  const seen = new Map<string, number>()
+  return raw.map((cell, i) => {
+    const base = cell.replace(/\s+/g, ' ').trim().slice(0, 200) || `Column ${i + 1}`
+    const count = (seen.get(base) ?? 0) + 1
+    seen.set(base, count)
+    return count === 1 ? base : `${base} (${count})`
+  })
+}
+
+/** A column is tested as numbers when most of its sampled non-blank cells read as numbers. */
+function planColumns(names: string[], sample: string[][]) {
+  return names.map((name, position) => {
+    const cells = sample.map(row => row[position] ?? '')
+    const style: NumberStyle = { decimalMark: detectNumberStyle(cells).decimalMark }
+    let filled = 0
+    let numbers = 0
+    for (const cell of cells) {
+      const status = readNumber(cell, style).status
+      if (status === 'blank') continue
+      filled++
+      if (status === 'number' || status === 'zero') numbers++
+    }
+    const numeric = filled > 0 && numbers >= 0.6 * filled
+    return { style, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null) }
+  })
+}
+
+interface Connections {
+  rows: PoolClient
+  digits: PoolClient
+}
+
+async function withConnections<T>(work: (c: Connections) => Promise<T>): Promise<T> {
+  const manager = useDb().sequelize.connectionManager
+  const rows = await manager.getConnection({ type: 'write' }) as PoolClient
+  const digits = await manager.getConnection({ type: 'write' }) as PoolClient
+  try {
+    return await work({ rows, digits })
+  }
+  finally {
+    manager.releaseConnection(rows)
+    manager.releaseConnection(digits)
+  }
+}
+
+/**
+ * Reads a stored upload into standalone tables, then attaches them as the dataset's partitions
+ * in one transaction with its columns and its "ready" status: a reader sees all of it or nothing.
+ * Throws UnreadableFile with a reporter-facing reason when the file cannot be used.
+ */
+export async function importDataset(datasetId: string): Promise<void> {
+  const { sequelize, models } = useDb()
+  const dataset = await models.Dataset.findByPk(datasetId)
+  if (!dataset || dataset.status !== 'importing') return
+  const path = useFileStore().pathOf(dataset.storageKey)
+  const handle = await open(path)
+  const head = Buffer.alloc(64 * 1024)
+  const { bytesRead } = await handle.read(head, 0, head.length, 0)
+  await handle.close()
+  const { encoding, bomLength } = detectEncoding(head.subarray(0, bytesRead))
+  const names = partitionNames(datasetId)
+
+  await withConnections(async (db) => {
+    await db.rows.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};
+      CREATE TABLE ${names.rows} (LIKE dataset_rows); CREATE TABLE ${names.digits} (LIKE digit_records);`)
+    const rowsOut = new CopyWriter(db.rows, names.rows, ROW_COLUMNS)
+    const digitsOut = new CopyWriter(db.digits, names.digits, DIGIT_COLUMNS)
+    const source = openRows(dataset.format as DatasetFormat, path, encoding, bomLength)
+    let header: string[] | null = null
+    let plan: ReturnType<typeof planColumns> | null = null
+    const sample: string[][] = []
+    let rowNo = 0
+    let ragged = 0
+    let lastProgress = Date.now()
+
+    const write = async (raw: string[]) => {
+      const width = header!.length
+      if (raw.length !== width) ragged++
+      const cells = raw.length === width ? raw : Array.from({ length: width }, (_, i) => raw[i] ?? '')
+      rowNo++
+      await rowsOut.line(rowLine(datasetId, rowNo, cells))
+      for (let c = 0; c < width; c++) {
+        const column = plan![c]!
+        const cell = cells[c]!
+        if (!column.profile.numeric) {
+          column.profile.addText(cell)
+          continue
+        }
+        const record = recordOf(readNumber(cell, column.style))
+        column.profile.addNumber(cell, record)
+        await digitsOut.line(digitLine(datasetId, c, rowNo, record))
+      }
+      if (Date.now() - lastProgress > PROGRESS_EVERY_MS) {
+        lastProgress = Date.now()
+        await models.Dataset.update({ progress: Math.min(0.99, source.bytesRead() / Number(dataset.byteSize)) }, { where: { id: datasetId } })
+      }
+    }
+
+    try {
+      for await (const raw of source.rows) {
+        if (!header) {
+          if (raw.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${raw.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
+          header = headerNames(raw)
+          continue
+        }
+        if (!plan) {
+          sample.push(raw)
+          if (sample.length < SAMPLE_ROWS) continue
+          plan = planColumns(header, sample)
+          for (const row of sample.splice(0)) await write(row)
+          continue
+        }
+        await write(raw)
+      }
+      if (!header) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
+      if (!plan) {
+        plan = planColumns(header, sample)
+        for (const row of sample.splice(0)) await write(row)
+      }
+      if (rowNo === 0) throw new UnreadableFile('The file has a header but no rows of data.')
+      await rowsOut.end()
+      await digitsOut.end()
+    }
+    catch (error) {
+      rowsOut.destroy()
+      digitsOut.destroy()
+      await db.rows.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};`).catch(() => {})
+      throw error
+    }
+
+    const columns = plan!
+    await sequelize.transaction(async (transaction) => {
+      // The CHECK lets ATTACH skip its validation scan; the indexes serve drill-down and counting.
+      await sequelize.query(`
+        ALTER TABLE ${names.rows} ADD CONSTRAINT ${names.rows}_one CHECK (dataset_id = '${datasetId}');
+        ALTER TABLE ${names.digits} ADD CONSTRAINT ${names.digits}_one CHECK (dataset_id = '${datasetId}');
+        CREATE INDEX ON ${names.rows} (row_no);
+        CREATE INDEX ON ${names.digits} (column_pos, row_no);
+        ALTER TABLE dataset_rows ATTACH PARTITION ${names.rows} FOR VALUES IN ('${datasetId}');
+        ALTER TABLE digit_records ATTACH PARTITION ${names.digits} FOR VALUES IN ('${datasetId}');
+        ANALYZE ${names.rows}; ANALYZE ${names.digits};
+      `, { transaction })
+      await models.DatasetColumn.bulkCreate(columns.map(({ profile }, position) => ({
+        datasetId,
+        position,
+        name: profile.name,
+        kind: profile.kind,
+        decimalMark: profile.decimalMark,
+        parsed: profile.parsed,
+        blank: profile.blank,
+        unreadable: profile.unreadable,
+        zero: profile.zero,
+        negative: profile.negative,
+        min: profile.min?.text ?? null,
+        max: profile.max?.text ?? null,
+        magnitudeSpan: profile.magnitudeSpan,
+        samples: profile.samples,
+      })), { transaction })
+      await dataset.update({
+        status: 'ready', progress: 1, rowCount: rowNo, raggedRows: ragged + source.meta.extraFields,
+        encoding, delimiter: source.meta.delimiter, readyAt: new Date(),
+      }, { transaction })
+      await recordAudit({
+        newsroomId: dataset.newsroomId, actorId: dataset.createdBy, action: 'dataset.imported',
+        subjectType: 'dataset', subjectId: datasetId,
+        detail: { title: dataset.title, sha256: dataset.sha256, rows: rowNo, columns: columns.length, ragged },
+      }, transaction)
+    })
+  })
+}

@@ -1,0 +1,184 @@
+import { createReadStream } from 'node:fs'
+import { Transform } from 'node:stream'
+import type { Readable } from 'node:stream'
+import Papa from 'papaparse'
+import ExcelJS from 'exceljs'
+import StreamArray from 'stream-json/streamers/StreamArray.js'
+import { decimalText, readNumber } from '#shared/digits'
+import { UnreadableFile } from './sniff'
+import type { DatasetFormat, TextEncoding } from './sniff'
+
+/** Rows of a file as text cells, header first; streams, never holds the file. */
+export interface RowSource {
+  rows: AsyncIterable<string[]>
+  /** Known once the first rows were read. */
+  meta: { delimiter: string | null, extraFields: number }
+  /** How far into the file reading has come. */
+  bytesRead: () => number
+}
+
+const PAUSE_AT = 2000
+const JSON_HEADER_SAMPLE = 1000
+
+function decoding(encoding: TextEncoding) {
+  const decoder = new TextDecoder(encoding)
+  // Emits strings, so a character split between two chunks is never cut in half.
+  return new Transform({
+    readableObjectMode: true,
+    transform(chunk: Buffer, _encoding, done) {
+      done(null, decoder.decode(chunk, { stream: true }))
+    },
+    flush(done) {
+      done(null, decoder.decode())
+    },
+  })
+}
+
+async function* delimitedRows(input: Readable, format: 'csv' | 'tsv', meta: RowSource['meta']) {
+  const queue: string[][] = []
+  let finished = false
+  let failure: Error | null = null
+  let wake: (() => void) | null = null
+  let parser: Papa.Parser | null = null
+  let paused = false
+  const notify = () => wake?.()
+
+  Papa.parse<string[]>(input as unknown as File, {
+    delimiter: format === 'tsv' ? '\t' : '',
+    skipEmptyLines: true,
+    step(result, handle) {
+      parser = handle
+      meta.delimiter ??= result.meta.delimiter
+      const quoteError = result.errors.find(e => e.code === 'MissingQuotes')
+      if (quoteError) {
+        failure = new UnreadableFile(`The file ends inside a quoted cell that is never closed (row ${quoteError.row ?? queue.length + 1}). It may have been cut off during download or export.`)
+        handle.abort()
+      }
+      else queue.push(result.data)
+      if (queue.length >= PAUSE_AT && !paused) {
+        paused = true
+        handle.pause()
+      }
+      notify()
+    },
+    complete() {
+      finished = true
+      notify()
+    },
+    error(error) {
+      failure = error
+      notify()
+    },
+  })
+
+  while (true) {
+    if (queue.length) {
+      const batch = queue.splice(0)
+      if (paused) {
+        paused = false
+        ;(parser as Papa.Parser | null)?.resume()
+      }
+      yield* batch
+      continue
+    }
+    if (failure) throw failure
+    if (finished) return
+    await new Promise<void>((resolve) => {
+      wake = resolve
+    })
+    wake = null
+  }
+}
+
+/** A number's plain decimal text: String(1e21) would give "1e+21". */
+function numberText(value: number): string {
+  const read = readNumber(value)
+  return read.status === 'number' || read.status === 'zero' ? decimalText(read) : String(value)
+}
+
+function excelCellText(value: ExcelJS.CellValue): string {
+  if (value === null || value === undefined) return ''
+  if (typeof value === 'number') return numberText(value)
+  if (typeof value === 'string') return value
+  if (typeof value === 'boolean') return value ? 'TRUE' : 'FALSE'
+  if (value instanceof Date) return value.toISOString().replace(/T00:00:00\.000Z$/, '')
+  if ('richText' in value) return value.richText.map(part => part.text).join('')
+  if ('result' in value) return excelCellText(value.result as ExcelJS.CellValue)
+  if ('text' in value) return String(value.text)
+  if ('error' in value) return String(value.error)
+  return ''
+}
+
+async function* workbookRows(input: Readable) {
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(input, { sharedStrings: 'cache', hyperlinks: 'ignore', styles: 'cache', worksheets: 'emit' })
+  // The first worksheet holds the data; a workbook with several sheets is read from its first one.
+  for await (const worksheet of reader) {
+    for await (const row of worksheet as AsyncIterable<ExcelJS.Row>) {
+      const values = row.values as ExcelJS.CellValue[]
+      const cells: string[] = []
+      for (let i = 1; i < values.length; i++) cells.push(excelCellText(values[i]))
+      yield cells
+    }
+    return
+  }
+}
+
+function jsonCellText(value: unknown): string {
+  if (value === null || value === undefined) return ''
+  if (typeof value === 'string') return value
+  if (typeof value === 'number') return numberText(value)
+  if (typeof value === 'boolean') return String(value)
+  return JSON.stringify(value)
+}
+
+async function* jsonRows(input: Readable, meta: RowSource['meta']) {
+  const records = input.pipe(StreamArray.withParser())
+  const sample: Record<string, unknown>[] = []
+  let header: string[] | null = null
+  let index: Map<string, number> = new Map()
+  const toCells = (record: Record<string, unknown>) => {
+    const cells = Array.from({ length: header!.length }, () => '')
+    for (const [key, value] of Object.entries(record)) {
+      const at = index.get(key)
+      if (at === undefined) meta.extraFields++
+      else cells[at] = jsonCellText(value)
+    }
+    return cells
+  }
+  const start = function* () {
+    const keys = new Set<string>()
+    for (const record of sample) for (const key of Object.keys(record)) keys.add(key)
+    header = [...keys]
+    index = new Map(header.map((key, i) => [key, i]))
+    yield header
+    for (const record of sample) yield toCells(record)
+  }
+  try {
+    for await (const { value } of records as AsyncIterable<{ value: unknown }>) {
+      if (!value || typeof value !== 'object' || Array.isArray(value)) {
+        throw new UnreadableFile('A JSON dataset must be an array of records, like [{"vendor": "…", "amount": 120.5}, …].')
+      }
+      if (header) yield toCells(value as Record<string, unknown>)
+      else {
+        sample.push(value as Record<string, unknown>)
+        if (sample.length === JSON_HEADER_SAMPLE) yield* start()
+      }
+    }
+  }
+  catch (error) {
+    if (error instanceof UnreadableFile) throw error
+    throw new UnreadableFile(`This JSON file cannot be read: ${(error as Error).message.split('\n')[0]}. A JSON dataset must be one complete array of records.`)
+  }
+  if (!header) yield* start()
+}
+
+/** Opens a stored file as rows of text cells, whatever its format. */
+export function openRows(format: DatasetFormat, path: string, encoding: TextEncoding, bomLength: number): RowSource {
+  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0 }
+  const file = createReadStream(path, { start: format === 'xlsx' ? 0 : bomLength, highWaterMark: 1 << 20 })
+  const text = () => file.pipe(decoding(encoding))
+  const rows = format === 'xlsx'
+    ? workbookRows(file)
+    : format === 'json' ? jsonRows(text(), meta) : delimitedRows(text(), format, meta)
+  return { rows, meta, bytesRead: () => file.bytesRead }
+}

@@ -1,0 +1,91 @@
+import { DISTRIBUTIONS, decimalToText, thresholdBand } from '#shared/digits'
+import type { DistributionTest, TestName } from '#shared/digits'
+import type { DatasetFilter } from '#shared/schemas/dataset'
+import type { PageDTO, RowDTO } from '#shared/types/dataset'
+import type { Dataset } from '../../models'
+import { datasetColumns } from './catalog'
+import { buildDigitQuery, columnByName, rawSelect, signCode } from './digit-query'
+
+export const PAGE_SIZE = 50
+
+const FIELDS: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
+
+function readyOrConflict(dataset: Dataset) {
+  if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
+}
+
+/** The rows of the dataset, a page at a time, in file order or sorted by one column. */
+export async function previewRows(dataset: Dataset, page: number, sort?: string, dir: 'asc' | 'desc' = 'asc'): Promise<PageDTO<RowDTO>> {
+  readyOrConflict(dataset)
+  const columns = await datasetColumns(dataset.id)
+  let join = ''
+  let order = 'r.row_no'
+  if (sort) {
+    const column = columnByName(columns, sort, 'sort')
+    if (column.numeric) {
+      join = `LEFT JOIN digit_records s ON s.dataset_id = :datasetId AND s.row_no = r.row_no AND s.column_pos = ${column.position}`
+      order = `s.value ${dir} NULLS LAST, r.row_no`
+    }
+    else order = `r.cells[${column.position + 1}] ${dir}, r.row_no`
+  }
+  const items = await rawSelect<RowDTO>(
+    `SELECT r.row_no AS "rowNo", r.cells FROM dataset_rows r ${join} WHERE r.dataset_id = :datasetId ORDER BY ${order} LIMIT ${PAGE_SIZE} OFFSET :offset`,
+    { datasetId: dataset.id, offset: (page - 1) * PAGE_SIZE },
+  )
+  return { page, pageSize: PAGE_SIZE, total: dataset.rowCount ?? 0, items }
+}
+
+export interface DrillDown {
+  test: TestName
+  column: string
+  key: string
+  page: number
+  sign?: 'positive' | 'negative'
+  threshold?: number
+  filters?: DatasetFilter[]
+  groupBy?: string
+  group?: string
+}
+
+/** The condition that picks a bin's values; keys are validated here, never written into SQL. */
+function binCondition(test: TestName, key: string, threshold?: number): { sql: string, values: Record<string, unknown> } {
+  const bad = () => fail(400, [{ path: 'key', message: `"${key}" is not a bin of the ${test} test.` }])
+  if (test === 'duplicates') {
+    if (!/^-?\d+(\.\d+)?$/.test(key)) throw bad()
+    return { sql: 'd.value = CAST(:key AS numeric)', values: { key } }
+  }
+  if (test === 'round-numbers') {
+    if (!/^0{1,3}$/.test(key)) throw bad()
+    return { sql: `d.integer_digits >= 2 AND d.fraction_digits = 0 AND d.trailing_zeros >= ${key.length}`, values: {} }
+  }
+  if (test === 'threshold') {
+    if (!threshold || !/^\d+(\.\d+)?$/.test(key)) throw bad()
+    const width = decimalToText(thresholdBand({ limit: threshold }).width)
+    return { sql: 'abs(d.value) >= CAST(:key AS numeric) AND abs(d.value) < CAST(:key AS numeric) + CAST(:width AS numeric)', values: { key, width } }
+  }
+  const definition = DISTRIBUTIONS[test === 'summation' ? 'first-two-digits' : test as DistributionTest]
+  if (!definition.keys.includes(key)) throw bad()
+  return { sql: `d.${FIELDS[definition.field]} = :key`, values: { key: Number(key) } }
+}
+
+/** The rows behind one bin of a test (and one group), a page at a time. */
+export async function binRows(dataset: Dataset, request: DrillDown): Promise<PageDTO<RowDTO> & { column: string, key: string }> {
+  readyOrConflict(dataset)
+  const columns = await datasetColumns(dataset.id)
+  const tested = columnByName(columns, request.column, 'column')
+  if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers.` }])
+  const query = buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy)
+  const bin = binCondition(request.test, request.key, request.threshold)
+  let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
+  const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
+  if (query.group && request.group !== undefined) {
+    where += ` AND ${query.group} = btrim(:group)`
+    replacements.group = request.group
+  }
+  const from = query.from.includes('dataset_rows r') ? query.from : `${query.from} JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = d.row_no`
+  const [items, [total]] = await Promise.all([
+    rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells FROM ${from} WHERE ${where} ORDER BY r.row_no LIMIT ${PAGE_SIZE} OFFSET :offset`, replacements),
+    rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${from} WHERE ${where}`, replacements),
+  ])
+  return { page: request.page, pageSize: PAGE_SIZE, total: total?.total ?? 0, items, column: tested.name, key: request.key }
+}

@@ -1,0 +1,111 @@
+import busboy from 'busboy'
+import type { H3Event } from 'h3'
+import { datasetUploadSchema } from '#shared/schemas/dataset'
+import type { Actor } from '../../utils/permissions'
+import { importDataset } from './import'
+import { IMPORT_QUEUE } from '../../utils/jobs'
+import { UnreadableFile, checkContent, formatFromName } from './sniff'
+import type { StoredFile } from '../../utils/file-store'
+import { TooLarge } from '../../utils/file-store'
+
+/** Files up to this size are imported while the upload waits, so errors come back as 4xx at once. */
+const INLINE_BYTES = 8 * 1024 * 1024
+
+interface Received {
+  fields: Record<string, string>
+  file: (StoredFile & { originalName: string }) | null
+}
+
+function tooLarge(limit: number) {
+  return fail(413, { message: `The file is larger than the limit of ${Math.round(limit / 1024 / 1024)} MB. Split it, or ask an admin to raise the limit.` })
+}
+
+/** Streams a multipart upload to file storage; the file is never held in memory. */
+function receive(event: H3Event, limit: number): Promise<Received> {
+  const fileStore = useFileStore()
+  return new Promise((resolve, reject) => {
+    let parser: busboy.Busboy
+    try {
+      parser = busboy({ headers: event.node.req.headers, limits: { files: 1, fields: 20, fieldSize: 10_000, fileSize: limit + 1 } })
+    }
+    catch {
+      reject(fail(400, [{ path: 'file', message: 'Send the file as multipart/form-data with a "file" field.' }]))
+      return
+    }
+    const fields: Record<string, string> = {}
+    let saving: Promise<Received['file']> = Promise.resolve(null)
+    parser.on('field', (name, value) => {
+      fields[name] = value
+    })
+    parser.on('file', (name, stream, info) => {
+      if (name !== 'file') {
+        stream.resume()
+        return
+      }
+      const originalName = (info.filename || 'upload').split(/[\\/]/).pop()!.slice(0, 255)
+      saving = fileStore.save(stream, limit).then(stored => ({ ...stored, originalName }))
+      saving.catch(() => stream.resume())
+    })
+    parser.on('error', () => reject(fail(400, [{ path: 'file', message: 'The upload was interrupted or malformed. Try again.' }])))
+    parser.on('close', () => {
+      saving.then(file => resolve({ fields, file }), (error) => {
+        reject(error instanceof TooLarge ? tooLarge(limit) : error)
+      })
+    })
+    event.node.req.pipe(parser)
+  })
+}
+
+/** Removes an upload's stored bytes unless another dataset kept the same file. */
+async function discard(key: string) {
+  const { Dataset } = useDb().models
+  if (await Dataset.count({ where: { storageKey: key } }) === 0) await useFileStore().remove(key)
+}
+
+/**
+ * Receives an upload and imports it: small files at once (201, or 4xx with the reason and
+ * nothing kept), larger ones as a durable job (202, then the dataset's status tells).
+ */
+export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id: string, status: string, queued: boolean }> {
+  const limit = Number(useRuntimeConfig().uploadLimitBytes)
+  const declared = Number(getRequestHeader(event, 'content-length') ?? 0)
+  if (declared > limit + 64 * 1024) throw tooLarge(limit)
+
+  const { fields, file } = await receive(event, limit)
+  if (!file) throw fail(400, [{ path: 'file', message: 'Choose a file to upload.' }])
+  const { models } = useDb()
+  try {
+    const parsed = datasetUploadSchema.safeParse(fields)
+    if (!parsed.success) throw fail(400, fieldErrors(parsed.error))
+    if (file.byteSize === 0) throw fail(422, { message: 'The file is empty.' })
+    const format = formatFromName(file.originalName)
+    checkContent(format, file.head)
+    if (parsed.data.replacesId) {
+      const replaced = await models.Dataset.findOne({ where: { id: parsed.data.replacesId, newsroomId: actor.newsroomId } })
+      if (!replaced) throw fail(400, [{ path: 'replacesId', message: 'The dataset this one replaces is not in your newsroom.' }])
+    }
+    const dataset = await models.Dataset.create({
+      newsroomId: actor.newsroomId, title: parsed.data.title, sourceNote: parsed.data.sourceNote ?? null,
+      sourceUrl: parsed.data.sourceUrl ?? null, obtainedOn: parsed.data.obtainedOn ?? null,
+      originalName: file.originalName, format, sha256: file.sha256, byteSize: file.byteSize,
+      storageKey: file.key, replacesId: parsed.data.replacesId ?? null, createdBy: actor.userId,
+    })
+    if (file.byteSize > INLINE_BYTES) {
+      await (await useJobs()).send(IMPORT_QUEUE, { datasetId: dataset.id })
+      return { id: dataset.id, status: 'importing', queued: true }
+    }
+    try {
+      await importDataset(dataset.id)
+    }
+    catch (error) {
+      await models.Dataset.destroy({ where: { id: dataset.id } })
+      throw error
+    }
+    return { id: dataset.id, status: 'ready', queued: false }
+  }
+  catch (error) {
+    await discard(file.key)
+    if (error instanceof UnreadableFile) throw fail(error.status, { message: error.message })
+    throw error
+  }
+}

@@ -1,0 +1,26 @@
+import PgBoss from 'pg-boss'
+
+export const IMPORT_QUEUE = 'dataset-import'
+
+let starting: Promise<PgBoss> | undefined
+
+/**
+ * The durable job queue, kept in PostgreSQL (schema "pgboss"), so that every app server
+ * shares it and a job survives a restart.
+ */
+export function useJobs(): Promise<PgBoss> {
+  starting ??= (async () => {
+    const boss = new PgBoss({ connectionString: useRuntimeConfig().databaseUrl, max: 4 })
+    boss.on('error', error => console.error('[jobs]', error.message))
+    await boss.start()
+    await boss.createQueue(IMPORT_QUEUE, {
+      name: IMPORT_QUEUE,
+      // A server that dies mid-import lets the job expire; the next try starts it again from nothing.
+      expireInSeconds: 15 * 60,
+      retryLimit: 2,
+      retryDelay: 5,
+    })
+    return boss
+  })()
+  return starting
+}

@@ -1,0 +1,62 @@
+import { z } from 'zod'
+import { TEST_NAMES } from '../digits/types'
+
+const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)
+
+export const datasetUploadSchema = z.object({
+  title: z.string().trim().min(1, 'Give the dataset a title').max(200),
+  sourceNote: optionalText(2000),
+  sourceUrl: z.string().trim().max(2000).optional().transform(v => v || undefined)
+    .refine(v => !v || /^https?:\/\//i.test(v), 'A source link starts with http:// or https://'),
+  obtainedOn: z.string().trim().optional().transform(v => v || undefined)
+    .refine(v => !v || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(v))), 'Use a date like 2026-03-31'),
+  replacesId: z.string().uuid().optional().or(z.literal('').transform(() => undefined)),
+})
+export type DatasetUpload = z.output<typeof datasetUploadSchema>
+
+export const filterSchema = z.discriminatedUnion('op', [
+  z.object({ column: z.string().min(1).max(200), op: z.literal('equals'), value: z.string().max(1000) }),
+  z.object({ column: z.string().min(1).max(200), op: z.literal('between'), min: z.number().finite().optional(), max: z.number().finite().optional() }),
+])
+export type DatasetFilter = z.output<typeof filterSchema>
+
+export const digitTestRequestSchema = z.object({
+  column: z.string().min(1, 'Choose a number column').max(200),
+  test: z.enum(TEST_NAMES),
+  filters: z.array(filterSchema).max(10).optional(),
+  groupBy: z.string().min(1).max(200).optional(),
+  threshold: z.number().positive().finite().optional(),
+  sign: z.enum(['positive', 'negative']).optional(),
+}).refine(v => v.test !== 'threshold' || v.threshold !== undefined, { path: ['threshold'], message: 'The threshold test needs the limit, e.g. an approval limit of 10000' })
+export type DigitTestRequestBody = z.output<typeof digitTestRequestSchema>
+
+export const previewQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+  sort: z.string().max(200).optional(),
+  dir: z.enum(['asc', 'desc']).default('asc'),
+})
+
+const KEY_LENGTH_TESTS: Record<number, typeof TEST_NAMES[number]> = { 1: 'first-digit', 2: 'first-two-digits', 3: 'first-three-digits' }
+
+export const drillDownQuerySchema = z.object({
+  test: z.enum(TEST_NAMES).optional(),
+  column: z.string().min(1).max(200),
+  key: z.string().min(1).max(60),
+  page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+  sign: z.enum(['positive', 'negative']).optional(),
+  threshold: z.coerce.number().positive().finite().optional(),
+  filters: z.string().max(20_000).optional()
+    .transform((text, ctx) => {
+      if (!text) return undefined
+      try {
+        return JSON.parse(text) as unknown
+      }
+      catch {
+        ctx.addIssue({ code: 'custom', message: 'filters must be JSON' })
+        return z.NEVER
+      }
+    })
+    .pipe(z.array(filterSchema).max(10).optional()),
+  groupBy: z.string().max(200).optional(),
+  group: z.string().max(1000).optional(),
+}).transform(query => ({ ...query, test: query.test ?? KEY_LENGTH_TESTS[query.key.length] ?? 'first-digit' }))

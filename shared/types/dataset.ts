@@ -1,0 +1,59 @@
+export type DatasetStatus = 'importing' | 'ready' | 'failed'
+export type ColumnKind = 'amount' | 'count' | 'date' | 'text' | 'identifier'
+
+export interface ColumnDTO {
+  name: string
+  position: number
+  kind: ColumnKind
+  /** Whether digit records were stored for it (the column reads mostly as numbers). */
+  numeric: boolean
+  parsed: number | null
+  blank: number
+  unreadable: number | null
+  zero: number | null
+  negative: number | null
+  min: string | null
+  max: string | null
+  magnitudeSpan: number | null
+  samples: string[]
+}
+
+export interface DatasetSummaryDTO {
+  id: string
+  title: string
+  status: DatasetStatus
+  progress: number
+  error: string | null
+  rowCount: number | null
+  byteSize: number
+  originalName: string
+  createdAt: string
+  createdBy: string
+  archived: boolean
+}
+
+export interface DatasetDTO extends DatasetSummaryDTO {
+  newsroomId: string
+  sourceNote: string | null
+  sourceUrl: string | null
+  obtainedOn: string | null
+  sha256: string
+  format: string
+  encoding: string | null
+  delimiter: string | null
+  raggedRows: number
+  replacesId: string | null
+  columns: ColumnDTO[]
+}
+
+export interface PageDTO<T> {
+  page: number
+  pageSize: number
+  total: number
+  items: T[]
+}
+
+export interface RowDTO {
+  rowNo: number
+  cells: string[]
+}
