@@ -28,7 +28,18 @@ export default defineNuxtConfig({
   // Static files live with the app, keeping the repository's top level to its fixed folders.
   dir: { public: 'app/public' },
   compatibilityDate: '2026-11-01',
+  nitro: {
+    // The engine's exact decimal arithmetic uses BigInt literals.
+    esbuild: { options: { target: 'es2022' } },
+    externals: {
+      // Node 20.19+ resolves these through their "module-sync" entry, which the file tracer misses.
+      traceInclude: ['async-function', 'generator-function', 'async-generator-function']
+        .flatMap(name => ['require.mjs', 'index.mjs', 'legacy.js'].map(file => `node_modules/${name}/${file}`)),
+    },
+  },
   vite: {
+    build: { target: 'es2022' },
+    esbuild: { target: 'es2022' },
     optimizeDeps: {
       include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', 'vega-embed', 'vega-lite', 'vega', 'arquero', 'papaparse'],
     },

@@ -40,9 +40,9 @@ export function recordOf(read: ReadNumber): DigitRecord {
   const integerDigits = exponent >= 0 ? exponent + 1 : 0
   const fractionDigits = Math.max(0, length - 1 - exponent)
 
-  const d1 = digits.charCodeAt(0) - 48
-  const d2 = length > 1 ? digits.charCodeAt(1) - 48 : 0
-  const d3 = length > 2 ? digits.charCodeAt(2) - 48 : 0
+  const d1 = digitAt(digits, 0)
+  const d2 = digitAt(digits, 1)
+  const d3 = digitAt(digits, 2)
   return {
     status: 'number',
     sign: read.negative ? -1 : 1,
@@ -79,17 +79,20 @@ function trailingZerosOfInteger(digits: string, integerDigits: number): number {
 }
 
 function lastTwoOfInteger(digits: string, integerDigits: number): number {
-  const tens = integerDigits - 2
-  const ones = integerDigits - 1
-  const digitAt = (i: number) => (i < digits.length ? digits.charCodeAt(i) - 48 : 0)
-  return digitAt(tens) * 10 + digitAt(ones)
+  return digitAt(digits, integerDigits - 2) * 10 + digitAt(digits, integerDigits - 1)
+}
+
+/** The digit at a position of the integer part; positions past the significant digits are 0. */
+function digitAt(digits: string, position: number): number {
+  return position < digits.length ? digits.charCodeAt(position) - 48 : 0
 }
 
 /**
- * frac(log10 |x|) = log10 of d1.d2d3…; 17 significant digits are all a double can carry.
- * Rounding can give log10(10) = 1 for 9.99…9, which is the same point on the circle as 0.
+ * frac(log10 |x|) from the first 15 significant digits (all a double holds exactly as an integer).
+ * Rounding can give 1 for 9.99…9, the same point on the circle as 0.
  */
-function mantissaOf(digits: string): number {
-  const m = Math.log10(Number(`${digits[0]}.${digits.slice(1, 17)}`))
-  return m >= 1 ? 0 : m
+export function mantissaOf(digits: string): number {
+  const head = digits.length > 15 ? digits.slice(0, 15) : digits
+  const m = Math.log10(Number(head)) - (head.length - 1)
+  return m >= 1 || m < 0 ? 0 : m
 }

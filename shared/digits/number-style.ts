@@ -5,15 +5,20 @@ export interface NumberStyleGuess extends NumberStyle {
   evidence: { dot: number, comma: number, undecided: number }
 }
 
+export const STYLE_SAMPLE = 10_000
+
 /**
  * Decides a column's decimal mark from a sample of its cells, so that one column is read one way:
  * "1,234" is a thousand in one column and one-and-a-bit in another, never both. A cell with both
  * marks votes for the last one; one mark used twice is a thousands separator; one mark followed by
  * other than a possible thousands group (1–3 digits, mark, 3 digits) is the decimal mark. When nothing decides, the mark is '.'.
+ * Looks at up to STYLE_SAMPLE cells spread evenly over the column.
  */
-export function detectNumberStyle(cells: Iterable<string | number | null | undefined>): NumberStyleGuess {
+export function detectNumberStyle(cells: readonly (string | number | null | undefined)[]): NumberStyleGuess {
   const evidence = { dot: 0, comma: 0, undecided: 0 }
-  for (const cell of cells) {
+  const step = Math.ceil(cells.length / STYLE_SAMPLE)
+  for (let i = 0; i < cells.length; i += step) {
+    const cell = cells[i]
     if (typeof cell !== 'string') continue
     const vote = voteOf(cell)
     if (vote) evidence[vote]++

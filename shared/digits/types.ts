@@ -71,7 +71,10 @@ export interface StatusCounts {
   negative: number
 }
 
-/** One row of a GROUP BY over a digit-record field; key null holds the values below the test's minimum. */
+/**
+ * One row of a GROUP BY over a digit-record field; key null holds the values below the test's minimum.
+ * Counts are numbers: cast count(*) to int in SQL, as pg returns bigint as text.
+ */
 export interface KeyCount {
   key: number | string | null
   count: number
@@ -132,7 +135,7 @@ export interface RoundCounts {
  * Ten equal buckets of width w around the limit L, from L − 5w to L + 5w (exact NUMERIC arithmetic):
  *   SELECT floor((abs(value) - $low) / $width)::int AS bucket, count(*) FROM digit_records
  *   WHERE … AND status = 'number' AND sign = 1 AND abs(value) >= $low AND abs(value) < $high GROUP BY 1
- * `thresholdBand()` gives $low, $width and $high as decimal text.
+ * `thresholdBand()` works out $low, $width and $high; `decimalToText()` writes them for the query.
  */
 export interface ThresholdCounts {
   status: StatusCounts
@@ -223,7 +226,8 @@ export interface Excluded {
 }
 
 export interface ChiSquare { statistic: number, df: number, p: number }
-export interface Mad { value: number, conformity: Conformity | null, expected: number, excess: number }
+/** `expected` is the MAD a conforming sample of this n shows on average; null where no formula applies (summation). */
+export interface Mad { value: number, conformity: Conformity | null, expected: number | null, excess: number | null }
 export interface Ks { d: number, critical: number }
 /** Mantissa arc (Rayleigh): squared mean resultant length and its approximate p. */
 export interface Arc { l2: number, p: number }

@@ -1,0 +1,64 @@
+import jStat from 'jstat'
+import type { Bin } from './types'
+
+/**
+ * Z for one bin with the continuity correction of Fleiss (1981) as digit tests use it (Nigrini 2012):
+ * (|p̂ − p| − 1/(2N)) / sqrt(p(1 − p)/N), the 1/(2N) term only when it is smaller than |p̂ − p|.
+ * Signed: positive when the bin holds more than expected.
+ */
+export function binZ(count: number, n: number, p: number): number {
+  if (n === 0 || p <= 0 || p >= 1) return 0
+  const gap = count / n - p
+  const correction = 1 / (2 * n)
+  const corrected = Math.abs(gap) > correction ? Math.abs(gap) - correction : Math.abs(gap)
+  return Math.sign(gap) * corrected / Math.sqrt(p * (1 - p) / n)
+}
+
+/** P(X ≤ k) for X ~ Binomial(n, p), through the regularized incomplete beta function. */
+export function binomialCdf(k: number, n: number, p: number): number {
+  if (k < 0) return 0
+  if (k >= n) return 1
+  if (p <= 0) return 1
+  if (p >= 1) return 0
+  return jStat.ibeta(1 - p, n - k, k + 1)
+}
+
+/** Smallest k with P(X ≤ k) ≥ q. */
+export function binomialQuantile(q: number, n: number, p: number): number {
+  let low = 0
+  let high = n
+  while (low < high) {
+    const mid = Math.floor((low + high) / 2)
+    if (binomialCdf(mid, n, p) >= q) high = mid
+    else low = mid + 1
+  }
+  return low
+}
+
+/**
+ * The range of counts a conforming sample of size n shows at least 95% of the time:
+ * from the 2.5% to the 97.5% quantile of Binomial(n, p), both ends included.
+ */
+export function binomialRange(n: number, p: number): { low: number, high: number } {
+  return { low: binomialQuantile(0.025, n, p), high: binomialQuantile(0.975, n, p) }
+}
+
+/** Bins with count, share of n, expectation, 95% range and Z, from counts and expected shares in key order. */
+export function buildBins(n: number, keys: readonly string[], counts: readonly number[], expectedShares: readonly number[]): Bin[] {
+  return keys.map((key, i) => {
+    const count = counts[i]!
+    const p = expectedShares[i]!
+    const { low, high } = binomialRange(n, p)
+    return {
+      key,
+      count,
+      share: n > 0 ? count / n : 0,
+      expected: n * p,
+      expectedShare: p,
+      low,
+      high,
+      z: binZ(count, n, p),
+      amount: null,
+    }
+  })
+}

@@ -1,0 +1,68 @@
+import { buildBins } from './bin-statistics'
+import { chiSquare } from './chi-square'
+import { leadingShares, lastTwoShares, secondDigitShares } from './expected-shares'
+import { kolmogorovSmirnov } from './kolmogorov-smirnov'
+import { madOf } from './mad'
+import { mantissaArc } from './mantissa-arc'
+import { assertCountsAddUp, excludedOf, NO_STATISTICS, type TestOutcome } from './outcome'
+import type { DigitRecord, DistributionCounts, DistributionTest, SignFilter } from './types'
+
+export interface DistributionDefinition {
+  /** The digit-record field the test counts. */
+  field: keyof Pick<DigitRecord, 'firstDigit' | 'secondDigit' | 'firstTwo' | 'firstThree' | 'lastTwo'>
+  keys: readonly string[]
+  shares: readonly number[]
+  /** Whether the mantissa arc applies (the first-digit family). */
+  arc: boolean
+}
+
+function range(from: number, to: number, width = 1): string[] {
+  return Array.from({ length: to - from + 1 }, (_, i) => String(from + i).padStart(width, '0'))
+}
+
+export const DISTRIBUTIONS: Record<DistributionTest, DistributionDefinition> = {
+  'first-digit': { field: 'firstDigit', keys: range(1, 9), shares: leadingShares(1, 9), arc: true },
+  'second-digit': { field: 'secondDigit', keys: range(0, 9), shares: secondDigitShares(), arc: false },
+  'first-two-digits': { field: 'firstTwo', keys: range(10, 99), shares: leadingShares(10, 99), arc: true },
+  'first-three-digits': { field: 'firstThree', keys: range(100, 999), shares: leadingShares(100, 999), arc: true },
+  'last-two-digits': { field: 'lastTwo', keys: range(0, 99, 2), shares: lastTwoShares(), arc: false },
+}
+
+/** Bin text for a key as SQL returns it: last two digits keep their leading zero ("05"). */
+export function keyText(test: DistributionTest, key: number | string): string {
+  return test === 'last-two-digits' ? String(key).padStart(2, '0') : String(key)
+}
+
+/** Counts keyed by a digit field → bins and every statistic of a distribution test. */
+export function runDistributionTest(test: DistributionTest, counts: DistributionCounts, sign: SignFilter): TestOutcome {
+  const definition = DISTRIBUTIONS[test]
+  const index = new Map(definition.keys.map((key, i) => [key, i]))
+  const binCounts = definition.keys.map(() => 0)
+  let belowMinimum = 0
+  for (const { key, count } of counts.keys) {
+    if (key === null) {
+      belowMinimum += count
+      continue
+    }
+    const i = index.get(keyText(test, key))
+    if (i === undefined) throw new RangeError(`Key ${key} is not a bin of the ${test} test`)
+    binCounts[i]! += count
+  }
+  const n = binCounts.reduce((a, b) => a + b, 0)
+  assertCountsAddUp(n + belowMinimum, counts.status, sign)
+
+  const excluded = excludedOf(counts.status, sign, belowMinimum)
+  const bins = buildBins(n, definition.keys, binCounts, definition.shares)
+  if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
+  const shares = bins.map(bin => bin.share)
+  return {
+    ...NO_STATISTICS,
+    n,
+    excluded,
+    bins,
+    chiSquare: chiSquare(binCounts, definition.shares),
+    mad: madOf(test, n, shares, definition.shares),
+    ks: kolmogorovSmirnov(shares, definition.shares, n),
+    arc: definition.arc && counts.arc ? mantissaArc(counts.arc, n) : null,
+  }
+}

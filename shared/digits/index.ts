@@ -1,0 +1,15 @@
+export * from './types'
+export { readNumber, DOT_STYLE, COMMA_STYLE, MAX_MAGNITUDE, type ReadNumber } from './read-number'
+export { detectNumberStyle, type NumberStyleGuess } from './number-style'
+export { toDigitRecord, recordOf, decimalText } from './digit-record'
+export { runDigitTest, CAUTION, type DigitTestRequest, type TestInput } from './run-digit-test'
+export { DISTRIBUTIONS, keyText } from './distribution-tests'
+export { thresholdBand, thresholdBucket, type ThresholdBand } from './threshold'
+export { decimalToText } from './decimal'
+export { checkSuitability, MINIMUM_VALUES, RULES, type SuitabilityInput } from './suitability'
+export { MAD_RANGES, conformityOf, expectedMad } from './mad'
+export { benjaminiHochberg } from './false-discovery'
+export { powerSeries, fibonacciSeries, integerPowerSeries, firstDigitCounts } from './reference-series'
+export {
+  recordsOf, statusCountsOf, profileOf, countDistribution, countSummation, countDuplicates, countRound, countThreshold, type Cell,
+} from './count-records'

@@ -1,0 +1,147 @@
+import { mantissaOf } from './digit-record'
+import { DISTRIBUTIONS } from './distribution-tests'
+import { readNumber } from './read-number'
+import type { ColumnProfile, DistributionTest, Finding, TestName } from './types'
+
+export interface SuitabilityInput {
+  test: TestName
+  /** Values the test uses, after exclusions. */
+  n: number
+  /** Column facts for the tested sign; without them only the size is checked. */
+  profile?: ColumnProfile | null
+}
+
+interface Minimum {
+  /** Below this, the rarest bin expects fewer than 5 values; below `stop`, fewer than 1. */
+  warning: number
+  stop: number
+  rarest: string
+}
+
+const COCHRAN = 'expected counts of at least 5 in every bin before trusting a chi-square test (Cochran 1954; common practice)'
+
+function minimumFor(rarestShare: number, rarest: string): Minimum {
+  return { warning: Math.ceil(5 / rarestShare), stop: Math.ceil(1 / rarestShare), rarest }
+}
+
+function distributionMinimum(test: DistributionTest): Minimum {
+  const { keys, shares } = DISTRIBUTIONS[test]
+  const i = shares.indexOf(Math.min(...shares))
+  return minimumFor(shares[i]!, `"${keys[i]}"`)
+}
+
+/** Smallest useful sizes per test, all from the rule of five expected values in the rarest bin. */
+export const MINIMUM_VALUES: Record<TestName, Minimum | null> = {
+  'first-digit': distributionMinimum('first-digit'),
+  'second-digit': distributionMinimum('second-digit'),
+  'first-two-digits': distributionMinimum('first-two-digits'),
+  'first-three-digits': distributionMinimum('first-three-digits'),
+  'last-two-digits': distributionMinimum('last-two-digits'),
+  'summation': distributionMinimum('first-two-digits'),
+  'round-numbers': minimumFor(0.01, 'multiples of 100 (about 1 in 100 whole numbers)'),
+  'threshold': { warning: 50, stop: 10, rarest: 'the ten buckets around the limit' },
+  'duplicates': null,
+}
+
+/** Tests whose expectation comes from Benford's law, and so depend on the data being of its kind. */
+const LAW_BASED = new Set<TestName>([
+  'first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation', 'round-numbers',
+])
+
+/** Mantissa's own rules of thumb for the column checks below (not published thresholds). */
+export const RULES = {
+  narrowSpan: 3,
+  tooNarrowSpan: 1,
+  assignedWhole: 0.99,
+  assignedSameLength: 0.9,
+  pileUp: 0.05,
+  roundHundreds: 0.1,
+  repeated: 0.05,
+} as const
+
+/**
+ * Whether a test is expected to apply, in plain words, before any result: too few values, a span
+ * under three orders of magnitude, values that look assigned, a cap or floor, many rounded or
+ * repeated amounts. Each finding names its rule of thumb and where it comes from. A finding is a
+ * reason for care, and a clean bill is no proof that the law applies.
+ */
+export function checkSuitability({ test, n, profile }: SuitabilityInput): Finding[] {
+  const findings: Finding[] = []
+  const minimum = MINIMUM_VALUES[test]
+  if (minimum && n < minimum.warning) {
+    findings.push({
+      code: 'too-few-values',
+      severity: n < minimum.stop ? 'stop' : 'warning',
+      message: `Only ${n} values. The ${test} test wants at least ${minimum.warning}, so that even the rarest bin `
+        + `(${minimum.rarest}) is expected at least 5 times: ${COCHRAN}.`,
+    })
+  }
+  if (profile && profile.n > 0 && LAW_BASED.has(test)) findings.push(...columnFindings(profile))
+  return findings
+}
+
+function percent(part: number, whole: number): string {
+  return `${Math.round((100 * part) / whole)}%`
+}
+
+function magnitudeSpan(profile: ColumnProfile): number {
+  const log10Of = (text: string) => {
+    const read = readNumber(text)
+    return read.exponent + mantissaOf(read.digits)
+  }
+  return log10Of(profile.max) - log10Of(profile.min)
+}
+
+function columnFindings(profile: ColumnProfile): Finding[] {
+  const findings: Finding[] = []
+  const { n } = profile
+  const span = magnitudeSpan(profile)
+  if (span < RULES.narrowSpan) {
+    findings.push({
+      code: 'narrow-span',
+      severity: span < RULES.tooNarrowSpan ? 'stop' : 'warning',
+      message: `The values run from ${profile.min} to ${profile.max}, ${span.toFixed(1)} orders of magnitude. `
+        + `Benford's law is expected of data that spread over several orders of magnitude; under three calls for care `
+        + `and under one means the law is not expected to apply (common practice; e.g. Nigrini 2012, from memory).`,
+    })
+  }
+  if (profile.whole >= RULES.assignedWhole * n && profile.commonLength >= RULES.assignedSameLength * n) {
+    findings.push({
+      code: 'looks-assigned',
+      severity: 'warning',
+      message: `${percent(profile.whole, n)} of values are whole numbers and ${percent(profile.commonLength, n)} have `
+        + `the same number of digits, as codes, ids and phone numbers do. Assigned numbers do not follow the law `
+        + `(common practice; Mantissa flags 99% whole and 90% one length).`,
+    })
+  }
+  if (profile.min !== profile.max) {
+    for (const [end, count, word] of [['largest', profile.atMax, 'cap'], ['smallest', profile.atMin, 'floor']] as const) {
+      if (count > 1 && count >= RULES.pileUp * n) {
+        findings.push({
+          code: `pile-up-at-${word}`,
+          severity: 'warning',
+          message: `${percent(count, n)} of values sit exactly at the ${end} value (${end === 'largest' ? profile.max : profile.min}), `
+            + `which looks like a ${word}. Values cut off or held at a limit bend the digit distribution `
+            + `(Mantissa's rule of thumb: 5% or more at one end).`,
+        })
+      }
+    }
+  }
+  if (profile.roundHundreds >= RULES.roundHundreds * n) {
+    findings.push({
+      code: 'many-round',
+      severity: 'warning',
+      message: `${percent(profile.roundHundreds, n)} of values are whole multiples of 100; the law expects about 1% `
+        + `of whole numbers to be. Rounded amounts (estimates, budgets) crowd a few digits (Mantissa's rule of thumb: 10%).`,
+    })
+  }
+  if (profile.topValue > 1 && profile.topValue >= RULES.repeated * n) {
+    findings.push({
+      code: 'many-repeated',
+      severity: 'warning',
+      message: `One value makes up ${percent(profile.topValue, n)} of all values. Repeated amounts (fees, fixed prices) `
+        + `show as spikes in every digit test; the duplicates test lists them (Mantissa's rule of thumb: 5%).`,
+    })
+  }
+  return findings
+}

@@ -1,0 +1,119 @@
+import { describe, expect, it } from 'vitest'
+import { countDistribution, recordsOf } from '../../../shared/digits/count-records'
+import { benjaminiHochberg } from '../../../shared/digits/false-discovery'
+import { fibonacciSeries, integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
+import { runDigitTest } from '../../../shared/digits/run-digit-test'
+import { checkSuitability, MINIMUM_VALUES } from '../../../shared/digits/suitability'
+import type { ColumnProfile } from '../../../shared/digits/types'
+
+const codes = (profile: Partial<ColumnProfile>, n = 5000) => checkSuitability({ test: 'first-digit', n, profile: { ...healthy, ...profile } })
+  .map(f => `${f.code}:${f.severity}`)
+
+const healthy: ColumnProfile = { n: 5000, min: '0.5', max: '250000', atMin: 1, atMax: 1, whole: 2000, roundHundreds: 40, commonLength: 1500, topValue: 3 }
+
+describe('suitability', () => {
+  it('derives each test\'s minimum from five expected values in the rarest bin (Cochran 1954; common practice)', () => {
+    // Rarest shares from CHECKS.md: P(9) = 0.04576, P(D2 = 9) = 0.08500, P(99) = 0.004365, P(999) = 0.00043451, 0.01.
+    expect(MINIMUM_VALUES['first-digit']).toMatchObject({ warning: Math.ceil(5 / 0.04576), stop: Math.ceil(1 / 0.04576), rarest: '"9"' })
+    expect(MINIMUM_VALUES['second-digit']!.warning).toBe(Math.ceil(5 / 0.085))
+    expect(MINIMUM_VALUES['first-two-digits']!.warning).toBe(Math.ceil(5 / 0.004365))
+    expect(MINIMUM_VALUES['first-three-digits']!.warning).toBe(Math.ceil(5 / 0.00043451))
+    expect(MINIMUM_VALUES['last-two-digits']!.warning).toBe(500)
+  })
+
+  it('warns below the minimum and stops far below it, naming the rule and its source', () => {
+    expect(checkSuitability({ test: 'first-digit', n: 110 })).toEqual([])
+    const warning = checkSuitability({ test: 'first-digit', n: 109 })
+    expect(warning.map(f => f.severity)).toEqual(['warning'])
+    expect(warning[0]!.message).toMatch(/Cochran 1954; common practice/)
+    expect(checkSuitability({ test: 'first-digit', n: 21 })[0]!.severity).toBe('stop')
+    expect(checkSuitability({ test: 'first-three-digits', n: 5000 })[0]!.code).toBe('too-few-values')
+  })
+
+  it('finds nothing to say about a healthy column', () => {
+    expect(codes({})).toEqual([])
+    expect(runDigitTest({ test: 'first-digit', input: { values: powerSeries(2, 1000) } }).suitability).toEqual([])
+  })
+
+  it('flags a span under three orders of magnitude, and stops under one', () => {
+    expect(codes({ min: '10', max: '5000' })).toEqual(['narrow-span:warning'])
+    expect(codes({ min: '10', max: '99.9' })).toEqual(['narrow-span:stop'])
+  })
+
+  it('flags values that look assigned, a cap, a floor, rounding and repeats', () => {
+    expect(codes({ whole: 5000, commonLength: 4600 })).toEqual(['looks-assigned:warning'])
+    expect(codes({ atMax: 300 })).toEqual(['pile-up-at-cap:warning'])
+    expect(codes({ atMin: 300 })).toEqual(['pile-up-at-floor:warning'])
+    expect(codes({ roundHundreds: 600 })).toEqual(['many-round:warning'])
+    expect(codes({ topValue: 300 })).toEqual(['many-repeated:warning'])
+  })
+
+  it('reads the same findings from values as from a profile', () => {
+    const values = [...powerSeries(3, 400).map(String), ...Array.from({ length: 60 }, () => '250')]
+    const result = runDigitTest({ test: 'first-digit', input: { values } })
+    expect(result.suitability.map(f => f.code)).toEqual(['many-repeated'])
+    expect(result.suitability[0]!.message).toContain('13%')
+  })
+
+  it('leaves column checks out of tests that do not rest on the law', () => {
+    expect(checkSuitability({ test: 'duplicates', n: 3, profile: { ...healthy, topValue: 4000 } })).toEqual([])
+  })
+})
+
+describe('Benjamini–Hochberg q-values', () => {
+  it('rejects four of the fifteen hypotheses in the 1995 paper\'s example at 5% (from memory)', () => {
+    const p = [0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.3240, 0.4262, 0.5719, 0.6528, 0.7590, 1.0000]
+    const q = benjaminiHochberg(p)
+    expect(q.filter(value => value <= 0.05)).toHaveLength(4)
+    // Step-up rule by hand: the largest i with p(i) ≤ 0.05·i/15 is i = 4 (0.0095 ≤ 0.0133; 0.0201 > 0.0167).
+    expect(q[3]).toBeCloseTo(0.0095 * 15 / 4, 12)
+  })
+
+  it('never lowers a p-value, keeps the order and returns values in input order', () => {
+    const p = [0.5, 0.01, 0.03, 0.02]
+    const q = benjaminiHochberg(p)
+    p.forEach((value, i) => expect(q[i]).toBeGreaterThanOrEqual(value))
+    expect(q).toEqual([0.5, 0.04, 0.04, 0.04])
+  })
+})
+
+describe('groups', () => {
+  const items = [
+    { key: 'powers of 3', values: powerSeries(3, 600) },
+    { key: 'Fibonacci', values: fibonacciSeries(600) },
+    { key: 'counting', values: integerPowerSeries(1, 600) },
+    { key: 'squares', values: integerPowerSeries(2, 600) },
+    { key: 'tiny', values: powerSeries(7, 40) },
+  ]
+
+  it('ranks groups by excess MAD, skips small ones and gives p and q', () => {
+    const result = runDigitTest({ test: 'first-digit', input: { values: items.flatMap(i => i.values) }, groups: { items: items.map(({ key, values }) => ({ key, input: { values } })) } })
+    expect(result.groupsSkipped).toBe(1)
+    expect(result.groups!.map(g => g.key).slice(0, 2).sort()).toEqual(['counting', 'squares'])
+    expect(result.groups!.map(g => g.key)).not.toContain('tiny')
+    const counting = result.groups!.find(g => g.key === 'counting')!
+    expect(counting.conformity).toBe('nonconforming')
+    expect(counting.q!).toBeLessThan(0.01)
+    for (const group of result.groups!) {
+      expect(group.q!).toBeGreaterThanOrEqual(group.p!)
+      expect(group.excessMad).toBeCloseTo(group.mad! - group.expectedMad!, 15)
+    }
+    const excess = result.groups!.map(g => g.excessMad!)
+    expect(excess).toEqual([...excess].sort((a, b) => b - a))
+  })
+
+  it('gives the same ranking from per-group counts', () => {
+    const fromValues = runDigitTest({ test: 'first-digit', input: { values: [] }, groups: { minSize: 50, items: items.map(({ key, values }) => ({ key, input: { values } })) } })
+    const fromCounts = runDigitTest({
+      test: 'first-digit',
+      input: { values: [] },
+      groups: { minSize: 50, items: items.map(({ key, values }) => ({ key, input: { counts: countDistribution('first-digit', recordsOf(values), 'positive') } })) },
+    })
+    expect(fromCounts.groups).toEqual(fromValues.groups)
+    expect(fromValues.groupsSkipped).toBe(1)
+  })
+
+  it('refuses groups for tests that have no MAD', () => {
+    expect(() => runDigitTest({ test: 'duplicates', input: { values: [] }, groups: { items: [] } })).toThrow(RangeError)
+  })
+})
