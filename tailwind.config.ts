@@ -1,4 +1,5 @@
 import type { Config } from 'tailwindcss'
+import { PALETTE as P } from './shared/charts/palette'
 
 // Mantissa's own palette: paper and ink, one signal colour for what deviates,
 // a calm colour for what the law expects, and quiet marks for locks and approvals.
@@ -7,14 +8,14 @@ export default {
   theme: {
     extend: {
       colors: {
-        paper: { DEFAULT: '#FBFAF6', deep: '#F3F0E8' },
-        ink: { DEFAULT: '#1D1C1A', soft: '#45423C' },
-        graphite: '#5F5B53',
-        rule: '#DDD8CC',
-        signal: { DEFAULT: '#A3262E', soft: '#F6E3E1' },
-        expect: { DEFAULT: '#2C6A70', soft: '#E0EEEE' },
-        accent: { DEFAULT: '#24406B', soft: '#E4EAF3' },
-        seal: { DEFAULT: '#5A4A1E', soft: '#F2ECD9' },
+        paper: { DEFAULT: P.paper, deep: P.paperDeep },
+        ink: { DEFAULT: P.ink, soft: P.inkSoft },
+        graphite: P.graphite,
+        rule: P.rule,
+        signal: { DEFAULT: P.signal, soft: P.signalSoft },
+        expect: { DEFAULT: P.expect, soft: P.expectSoft },
+        accent: { DEFAULT: P.accent, soft: P.accentSoft },
+        seal: { DEFAULT: P.seal, soft: P.sealSoft },
       },
       fontFamily: {
         serif: ['Merriweather', 'Georgia', 'serif'],

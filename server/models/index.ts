@@ -7,12 +7,15 @@ import { AuditEvent } from './AuditEvent'
 import { SignInAttempt } from './SignInAttempt'
 import { Dataset } from './Dataset'
 import { DatasetColumn } from './DatasetColumn'
+import { Investigation } from './Investigation'
+import { Block } from './Block'
+import { AnalysisResult } from './AnalysisResult'
 
-export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn }
+export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult }
 
 /** Registers every model on `sequelize` and wires their associations. */
 export function setupModels(sequelize: Sequelize) {
-  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn]) model.setup(sequelize)
+  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult]) model.setup(sequelize)
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
@@ -20,4 +23,7 @@ export function setupModels(sequelize: Sequelize) {
   Invitation.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
   Dataset.hasMany(DatasetColumn, { foreignKey: 'datasetId', as: 'columns' })
   Dataset.belongsTo(User, { foreignKey: 'createdBy', as: 'creator' })
+  Investigation.belongsTo(User, { foreignKey: 'updatedBy', as: 'editor' })
+  Investigation.belongsTo(User, { foreignKey: 'createdBy', as: 'creator' })
+  Investigation.hasMany(Block, { foreignKey: 'investigationId', as: 'blocks' })
 }

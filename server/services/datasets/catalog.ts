@@ -62,9 +62,11 @@ export async function archiveDataset(actor: Actor, dataset: Dataset) {
   })
 }
 
-/** Deletes a dataset: its partitions, columns, row and (unless shared) stored file. */
+/** Deletes a dataset that no investigation uses: its partitions, columns, row and (unless shared) stored file. */
 export async function deleteDataset(actor: Actor, dataset: Dataset) {
   const { sequelize, models } = useDb()
+  const used = await models.Block.count({ where: { kind: 'analysis', deletedAt: null, settings: { datasetId: dataset.id } } })
+  if (used > 0) throw fail(409, { message: 'An investigation uses this dataset, so it cannot be deleted. Archive it instead.' })
   if (dataset.status === 'importing') throw fail(409, { message: 'This dataset is still importing. Wait until it is ready or failed.' })
   const names = partitionNames(dataset.id)
   await sequelize.transaction(async (transaction) => {

@@ -1,0 +1,26 @@
+const numberFormat = new Intl.NumberFormat('en-GB')
+
+export function formatCount(value: number | null | undefined): string {
+  return value === null || value === undefined ? '—' : numberFormat.format(value)
+}
+
+export function formatBytes(bytes: number): string {
+  if (bytes < 1024) return `${bytes} B`
+  if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KB`
+  return `${(bytes / 1024 / 1024).toFixed(1)} MB`
+}
+
+export function formatDate(iso: string | null | undefined): string {
+  return iso ? new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' }) : '—'
+}
+
+export function formatDateTime(iso: string | null | undefined): string {
+  return iso ? new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' }) : '—'
+}
+
+/** A statistic with fixed decimals; very small values keep their magnitude visible. */
+export function formatStatistic(value: number | null | undefined, digits = 4): string {
+  if (value === null || value === undefined || Number.isNaN(value)) return '—'
+  if (value !== 0 && Math.abs(value) < 10 ** -digits) return value.toExponential(1)
+  return value.toFixed(digits)
+}

@@ -1,0 +1,10 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { findBlock } from '../../../services/investigations/blocks'
+import { runAnalysis } from '../../../services/investigations/analysis'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const { block, investigation } = await findBlock(id)
+  await requirePermission(event, 'investigation.read', { newsroomId: investigation.newsroomId })
+  return runAnalysis(block, investigation.newsroomId)
+})

@@ -1,0 +1,9 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { describeInvestigation, findInvestigation } from '../../services/investigations/catalog'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const investigation = await findInvestigation(id)
+  await requirePermission(event, 'investigation.read', { newsroomId: investigation.newsroomId })
+  return describeInvestigation(investigation)
+})

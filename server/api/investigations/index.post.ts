@@ -1,0 +1,9 @@
+import { investigationCreateSchema } from '#shared/schemas/investigation'
+import { createInvestigation } from '../../services/investigations/catalog'
+
+export default defineEventHandler(async (event) => {
+  const { newsroomId, title } = await readInput(event, investigationCreateSchema)
+  const actor = await requirePermission(event, 'investigation.create', { newsroomId })
+  setResponseStatus(event, 201)
+  return createInvestigation(actor, title)
+})

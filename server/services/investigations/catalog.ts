@@ -1,0 +1,89 @@
+import type { Transaction } from 'sequelize'
+import type { BlockDTO, InvestigationDTO, InvestigationSummaryDTO } from '#shared/types/investigation'
+import type { Block, Investigation } from '../../models'
+import type { Actor } from '../../utils/permissions'
+
+interface Named { name: string }
+
+function summary(investigation: Investigation, names: Map<string, string>): InvestigationSummaryDTO {
+  return {
+    id: investigation.id, title: investigation.title, status: investigation.status,
+    createdBy: names.get(investigation.createdBy) ?? '', createdById: investigation.createdBy,
+    updatedBy: investigation.updatedBy ? names.get(investigation.updatedBy) ?? null : null,
+    updatedAt: investigation.updatedAt.toISOString(), archived: Boolean(investigation.archivedAt),
+  }
+}
+
+async function userNames(ids: (string | null | undefined)[]): Promise<Map<string, string>> {
+  const wanted = [...new Set(ids.filter((id): id is string => Boolean(id)))]
+  if (!wanted.length) return new Map()
+  const users = await useDb().models.User.findAll({ where: { id: wanted }, attributes: ['id', 'name'] })
+  return new Map(users.map(u => [u.id, (u as unknown as Named).name]))
+}
+
+export function blockDTO(block: Block, names: Map<string, string>): BlockDTO {
+  return {
+    id: block.id, kind: block.kind, position: block.position, version: block.version,
+    content: block.content, settings: block.settings, updatedAt: block.updatedAt.toISOString(),
+    updatedBy: block.updatedBy ? names.get(block.updatedBy) ?? null : null,
+  }
+}
+
+export async function listInvestigations(newsroomId: string): Promise<InvestigationSummaryDTO[]> {
+  const rows = await useDb().models.Investigation.findAll({ where: { newsroomId }, order: [['updatedAt', 'DESC']] })
+  const names = await userNames(rows.flatMap(r => [r.createdBy, r.updatedBy]))
+  return rows.map(row => summary(row, names))
+}
+
+export async function findInvestigation(id: string, transaction?: Transaction): Promise<Investigation> {
+  const investigation = await useDb().models.Investigation.findByPk(id, { transaction })
+  if (!investigation) throw fail(404)
+  return investigation
+}
+
+export async function liveBlocks(investigationId: string, transaction?: Transaction): Promise<Block[]> {
+  return useDb().models.Block.findAll({ where: { investigationId, deletedAt: null }, order: [['position', 'ASC']], transaction })
+}
+
+export async function describeInvestigation(investigation: Investigation): Promise<InvestigationDTO> {
+  const blocks = await liveBlocks(investigation.id)
+  const names = await userNames([investigation.createdBy, investigation.updatedBy, ...blocks.map(b => b.updatedBy)])
+  return {
+    ...summary(investigation, names),
+    newsroomId: investigation.newsroomId,
+    layoutVersion: investigation.layoutVersion,
+    blocks: blocks.map(b => blockDTO(b, names)),
+  }
+}
+
+export async function describeBlock(block: Block): Promise<BlockDTO> {
+  return blockDTO(block, await userNames([block.updatedBy]))
+}
+
+/** A new investigation starts as one empty paragraph, ready to write in. */
+export async function createInvestigation(actor: Actor, title: string): Promise<InvestigationDTO> {
+  const { sequelize, models } = useDb()
+  const investigation = await sequelize.transaction(async (transaction) => {
+    const created = await models.Investigation.create({ newsroomId: actor.newsroomId, title, createdBy: actor.userId, updatedBy: actor.userId }, { transaction })
+    await models.Block.create({
+      investigationId: created.id, kind: 'prose', position: 0, content: { type: 'doc', content: [{ type: 'paragraph' }] },
+      settings: null, createdBy: actor.userId, updatedBy: actor.userId,
+    }, { transaction })
+    return created
+  })
+  return describeInvestigation(investigation)
+}
+
+export async function updateInvestigation(actor: Actor, investigation: Investigation, patch: { title?: string, archived?: boolean }) {
+  await investigation.update({
+    ...(patch.title !== undefined ? { title: patch.title } : {}),
+    ...(patch.archived !== undefined ? { archivedAt: patch.archived ? new Date() : null } : {}),
+    updatedBy: actor.userId,
+  })
+  return describeInvestigation(investigation)
+}
+
+/** Marks the investigation as just edited by `actor`. */
+export async function touchInvestigation(investigationId: string, actorId: string, transaction?: Transaction) {
+  await useDb().models.Investigation.update({ updatedBy: actorId, updatedAt: new Date() }, { where: { id: investigationId }, transaction })
+}

@@ -1,0 +1,45 @@
+import { z } from 'zod'
+import { TEST_NAMES } from '../digits/types'
+import { filterSchema } from './dataset'
+
+export const investigationCreateSchema = z.object({
+  newsroomId: z.string().uuid(),
+  title: z.string().trim().min(1, 'Give the investigation a working title').max(300),
+})
+
+export const investigationUpdateSchema = z.object({
+  title: z.string().trim().min(1, 'The title cannot be empty').max(300).optional(),
+  archived: z.boolean().optional(),
+})
+
+/** Tiptap document JSON; its structure is checked when it is rendered, never trusted as HTML. */
+export const proseContentSchema = z.object({
+  type: z.literal('doc'),
+  content: z.array(z.unknown()).max(5000).optional(),
+}).refine(doc => JSON.stringify(doc).length <= 1_000_000, 'This block is too long: split it into several')
+
+export const analysisSettingsSchema = z.object({
+  datasetId: z.string().uuid().optional(),
+  column: z.string().max(200).optional(),
+  test: z.enum(TEST_NAMES).optional(),
+  filters: z.array(filterSchema).max(10).optional(),
+  groupBy: z.string().max(200).optional(),
+  threshold: z.number().positive().finite().optional(),
+  sign: z.enum(['positive', 'negative']).optional(),
+})
+
+export const blockCreateSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('prose'), afterBlockId: z.string().uuid().nullable().optional(), content: proseContentSchema.optional() }),
+  z.object({ kind: z.literal('analysis'), afterBlockId: z.string().uuid().nullable().optional(), settings: analysisSettingsSchema.optional() }),
+])
+
+export const blockUpdateSchema = z.object({
+  version: z.number().int().positive(),
+  content: proseContentSchema.optional(),
+  settings: analysisSettingsSchema.optional(),
+})
+
+export const blockOrderSchema = z.object({
+  layoutVersion: z.number().int().positive(),
+  blockIds: z.array(z.string().uuid()).max(2000),
+})
