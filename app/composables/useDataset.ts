@@ -12,17 +12,30 @@ export function useDataset(id: Ref<string>) {
   return { dataset: data, error, refresh }
 }
 
+/** A dataset's description when an id is chosen, nothing while none is; shared by key with useDataset. */
+export function useChosenDataset(id: Ref<string | undefined>) {
+  const requestFetch = useRequestFetch()
+  const { data } = useAsyncData(
+    () => `chosen-dataset-${id.value ?? 'none'}`,
+    () => (id.value ? requestFetch<DatasetDTO>(`/api/datasets/${id.value}`) : Promise.resolve(null)),
+    { watch: [id] },
+  )
+  return data
+}
+
 /** A page of a dataset's rows, sorted by one column when asked. */
 export function useDatasetPreview(id: Ref<string>, enabled: Ref<boolean>) {
   const page = ref(1)
   const sort = ref<string | undefined>()
   const dir = ref<'asc' | 'desc'>('asc')
-  const { data, status } = useFetch<PageDTO<RowDTO>>(() => `/api/datasets/${id.value}/preview`, {
-    key: computed(() => `preview-${id.value}-${page.value}-${sort.value}-${dir.value}`),
-    query: { page, sort, dir },
-    immediate: enabled.value,
-    watch: [enabled],
-  })
+  const requestFetch = useRequestFetch()
+  const { data, status } = useAsyncData(
+    () => `preview-${id.value}-${page.value}-${sort.value}-${dir.value}-${enabled.value}`,
+    () => (enabled.value
+      ? requestFetch<PageDTO<RowDTO>>(`/api/datasets/${id.value}/preview`, { query: { page: page.value, sort: sort.value, dir: dir.value } })
+      : Promise.resolve(null)),
+    { watch: [enabled, page, sort, dir] },
+  )
   function sortBy(column: string) {
     if (sort.value === column) dir.value = dir.value === 'asc' ? 'desc' : 'asc'
     else {
