@@ -1,5 +1,6 @@
-// For load balancers and the start script: answers 200 once the database answers.
+// For load balancers and the start script: 200 once startup work is done and the database answers.
 export default defineEventHandler(async () => {
+  await startupSettled()
   await useDb().sequelize.query('SELECT 1')
   return { ok: true }
 })

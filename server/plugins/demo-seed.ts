@@ -1,11 +1,11 @@
 import { seedDemoIfEmpty } from '../services/demo/seed'
 
-export default defineNitroPlugin(async () => {
+export default defineNitroPlugin(() => {
   if (!useRuntimeConfig().demoSeed) return
-  try {
-    if (await seedDemoIfEmpty()) console.log('[demo] seeded the demo newsroom')
-  }
-  catch (error) {
-    console.error('[demo] seeding failed:', error)
-  }
+  duringStartup(seedDemoIfEmpty().then(
+    (seeded) => {
+      if (seeded) console.log('[demo] seeded the demo newsroom')
+    },
+    error => console.error('[demo] seeding failed:', error),
+  ))
 })

@@ -31,7 +31,14 @@ const ARABIC_GROUP = '\u066C'
 
 const SIGN = /^[-+\u2212]/
 const TRAILING_SIGN = /[-+\u2212]$/
-const CURRENCY_CORE = '(?:[A-Z]{1,3}\\$|[A-Z]{3}|kr\\.?|Rs\\.?|zł|Fr\\.|[$€£¥₹₩₽₺₪₫₦₱฿¢₴₸₲₡₵])'
+// Only real ISO 4217 codes are peeled: a reference such as "PAY-100002" is not an amount of "PAY".
+const CURRENCY_CODES = [
+  'USD', 'EUR', 'GBP', 'JPY', 'CNY', 'CHF', 'CAD', 'AUD', 'NZD', 'HKD', 'SGD', 'SEK', 'NOK', 'DKK', 'ISK', 'PLN', 'CZK', 'HUF',
+  'RON', 'BGN', 'TRY', 'RUB', 'UAH', 'ILS', 'INR', 'PKR', 'BDT', 'LKR', 'NPR', 'IDR', 'MYR', 'THB', 'VND', 'PHP', 'KRW', 'TWD',
+  'BRL', 'ARS', 'CLP', 'COP', 'MXN', 'PEN', 'UYU', 'ZAR', 'NGN', 'KES', 'GHS', 'EGP', 'MAD', 'TND', 'AED', 'SAR', 'QAR', 'KWD',
+  'BHD', 'OMR', 'JOD', 'XOF', 'XAF', 'RSD', 'BAM', 'MKD', 'ALL', 'GEL', 'AMD', 'AZN', 'KZT', 'UZS', 'MNT',
+].join('|')
+const CURRENCY_CORE = `(?:[A-Z]{1,3}\\$|(?:${CURRENCY_CODES})(?![A-Za-z])|kr\\.?|Rs\\.?|zł|Fr\\.|[$€£¥₹₩₽₺₪₫₦₱฿¢₴₸₲₡₵])`
 const LEADING_CURRENCY = new RegExp(`^${CURRENCY_CORE}`)
 const TRAILING_CURRENCY = new RegExp(`${CURRENCY_CORE}$`)
 

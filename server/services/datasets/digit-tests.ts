@@ -1,4 +1,4 @@
-import { DISTRIBUTIONS, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
+import { DISTRIBUTIONS, MINIMUM_VALUES, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
 import type {
   ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
   SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
@@ -142,6 +142,8 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     const query = buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy)
     const [groupStatus, groupCounts] = await Promise.all([statusCounts(query, true), testCounts(body.test, query, sign, true)])
     groups = {
+      // Groups are ranked by excess MAD, which already allows for size; only hopeless groups are skipped.
+      minSize: MINIMUM_VALUES[body.test]?.stop,
       items: [...groupStatus].map(([key, s]) => ({
         key: key ?? '',
         input: { counts: { status: s, ...(groupCounts.get(key) ?? { keys: [], arc: { cos: 0, sin: 0 } }) } as TestCountsMap[TestName] },

@@ -171,3 +171,14 @@ describe('deciding a column\'s decimal mark', () => {
     expect(detectNumberStyle(cells)).toEqual({ decimalMark: ',', evidence: { dot: 1, comma: 3, undecided: 0 } })
   })
 })
+
+describe('codes that are not currencies', () => {
+  // ISO 4217 lists USD and GBP; "PAY" and "INV" are not currency codes, so a reference such as
+  // PAY-100002 is an identifier, not an amount of −100,002 (found in the demo ledger's ref column).
+  it('reads currency codes but leaves references unreadable', () => {
+    expect(readNumber('PAY-100002').status).toBe('unreadable')
+    expect(readNumber('INV 2024').status).toBe('unreadable')
+    expect(readNumber('USD 1,234.50')).toMatchObject({ status: 'number', negative: false, digits: '12345', exponent: 3 })
+    expect(readNumber('GBP-12')).toMatchObject({ status: 'number', negative: true, digits: '12' })
+  })
+})
