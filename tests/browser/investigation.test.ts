@@ -1,0 +1,56 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import demo from '../../server/services/demo/people.json'
+import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+
+let browser: Browser
+beforeAll(async () => {
+  browser = await launchBrowser()
+})
+afterAll(async () => {
+  await browser?.close()
+})
+
+const reporter = demo.people.find(p => p.role === 'reporter')!
+
+describe('writing an investigation', () => {
+  it('writes a paragraph, runs an analysis block on the demo ledger, and opens the rows behind a bin', async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 1000 } })
+    const errors: string[] = []
+    page.on('pageerror', error => errors.push(error.message))
+    await signInThroughPage(page, reporter.email, demo.password)
+    await page.waitForURL(/\/newsrooms\//)
+    await page.getByLabel('Working title').fill('Browser test story')
+    await page.getByRole('button', { name: 'Start writing' }).click()
+    await page.waitForURL(/\/investigations\//)
+
+    await page.locator('.ProseMirror').first().click()
+    await page.keyboard.type('Suppliers were paid thousands of times last year.')
+    await expect.poll(() => page.getByText('Saved').count(), { timeout: 10_000 }).toBeGreaterThan(0)
+
+    await page.getByRole('button', { name: '+ Analysis' }).last().click()
+    await page.getByLabel('Dataset').selectOption({ label: 'Port Averly supplier payments, 2025' })
+    await expect.poll(() => page.getByLabel('Number column').isEnabled()).toBe(true)
+    await page.getByLabel('Number column').selectOption('amount')
+    await page.getByLabel('Test', { exact: true }).selectOption('first-digit')
+    await page.getByRole('button', { name: 'Run the test' }).click()
+
+    const chart = page.locator('figure svg').first()
+    await chart.waitFor({ timeout: 20_000 })
+    await expect(page.locator('figcaption').first().textContent()).resolves.toMatch(/First digit of 24,600 values of “amount”/)
+    await expect(page.getByText('A screen, not proof.').count()).resolves.toBeGreaterThan(0)
+
+    // Click the bar of the leading digit 1, as a reader would.
+    await page.locator('figure svg path[aria-roledescription="bar"][aria-label*="Count"]').first().click()
+    await page.getByRole('heading', { name: /Rows behind/ }).waitFor({ timeout: 10_000 })
+    const rowsText = await page.locator('section[aria-labelledby="bin-rows-heading"]').textContent()
+    expect(rowsText).toMatch(/Page 1 of/)
+    await screenshot(page, 'investigation-analysis')
+
+    // The paragraph survived: reload and read it back from the server.
+    await page.reload()
+    await expect(page.locator('.ProseMirror').first().textContent({ timeout: 10_000 })).resolves.toContain('Suppliers were paid thousands of times last year.')
+    expect(errors).toEqual([])
+    await page.close()
+  })
+})
