@@ -7,12 +7,12 @@ import { linkIn, waitForMail } from './mail'
 export const PASSWORD = 'a-long-test-password'
 
 export interface TestNewsroom {
-  id: string
-  admin: Client
+  'id': string
+  'admin': Client
   'data-editor': Client
   'fact-checker': Client
   'reporter': Client
-  emails: Record<Role, string>
+  'emails': Record<Role, string>
 }
 
 /** Accepts an invitation link's token through the API, as the invited person would. */

@@ -1,0 +1,82 @@
+import { readFileSync } from 'node:fs'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { PAYMENT_KINDS, PAYMENTS } from '../fixtures/datasets/payments'
+import { delimitedText, encoded, jsonRecords, utf8, workbookBytes } from '../support/dataset-files'
+import { allPages, sha256Of, uploadReady } from '../support/datasets'
+import { createTestNewsroom, type TestNewsroom } from '../support/newsroom'
+
+let newsroom: TestNewsroom
+beforeAll(async () => {
+  newsroom = await createTestNewsroom('Formats desk')
+})
+
+const FORMATS = {
+  csv: { name: 'payments.csv', bytes: async () => utf8(delimitedText(PAYMENTS, ',')), delimiter: ',' },
+  tsv: { name: 'payments.tsv', bytes: async () => utf8(delimitedText(PAYMENTS, '\t')), delimiter: '\t' },
+  xlsx: { name: 'payments.xlsx', bytes: () => workbookBytes(PAYMENTS), delimiter: null },
+  json: { name: 'payments.json', bytes: async () => utf8(jsonRecords(PAYMENTS)), delimiter: null },
+} as const
+
+describe('each upload format', () => {
+  for (const [format, file] of Object.entries(FORMATS)) {
+    it(`imports ${format} with its rows, columns, kinds and the SHA-256 of the bytes sent`, async () => {
+      const bytes = await file.bytes()
+      const dataset = await uploadReady(newsroom.reporter, file.name, bytes)
+
+      expect(dataset).toMatchObject({
+        status: 'ready', format, rowCount: PAYMENTS.rows.length, raggedRows: 0, delimiter: file.delimiter,
+        byteSize: bytes.length, originalName: file.name, error: null,
+      })
+      // Source: node:crypto over the very bytes the test sent.
+      expect(dataset.sha256).toBe(sha256Of(bytes))
+      expect(dataset.columns.map((c: any) => c.name)).toEqual(PAYMENTS.header)
+      expect(dataset.columns.map((c: any) => c.kind)).toEqual(PAYMENT_KINDS)
+
+      const { items } = await allPages(newsroom.reporter, `/api/datasets/${dataset.id}/preview`)
+      expect(items.map(r => r.rowNo)).toEqual(PAYMENTS.rows.map((_, i) => i + 1))
+      PAYMENTS.rows.forEach((row, i) => {
+        const cells: string[] = items[i].cells
+        // Text and dates come back as written (a workbook's date cell as its ISO day).
+        expect(cells.slice(0, 3), `row ${i + 1}`).toEqual(row.slice(0, 3))
+        // A workbook or JSON file stores 1250.50 as the number 1250.5: compare as numbers where the fixture has plain numbers.
+        row.slice(3).forEach((cell, j) => {
+          if (/^-?\d+(\.\d+)?$/.test(cell)) expect(Number(cells[3 + j]), `row ${i + 1} ${PAYMENTS.header[3 + j]}`).toBe(Number(cell))
+          else expect(cells[3 + j]).toBe(cell)
+        })
+      })
+    })
+  }
+})
+
+// The literal fixture, UTF-8 without a BOM; every other encoding is made from it here.
+const ACCENTS = readFileSync(new URL('../fixtures/datasets/accents.csv', import.meta.url), 'utf8')
+// Written out by hand from accents.csv: what a reader of the file sees.
+const ACCENT_ROWS = [
+  ['Café Lumière', 'Brüggental', '£1,250.00'],
+  ['Brûlerie Ève', 'Ørnvik', '£87.20'],
+  ['Süßwaren Öhler', 'Vallée-Sorbe', '£512.09'],
+]
+
+describe('each text encoding', () => {
+  const cases = [
+    ['utf-8', 'utf-8'],
+    ['utf-8-bom', 'utf-8'],
+    ['utf-16le', 'utf-16le'],
+    ['utf-16be', 'utf-16be'],
+    // Latin-1 files are read as Windows-1252, its superset (sniff.ts); é, ü, £ are the same bytes in both.
+    ['latin-1', 'windows-1252'],
+  ] as const
+  for (const [encoding, reported] of cases) {
+    it(`reads ${encoding}: accents and the pound sign come through, the BOM does not`, async () => {
+      const bytes = encoded(ACCENTS, encoding)
+      const dataset = await uploadReady(newsroom.reporter, `accents-${encoding}.csv`, bytes)
+      expect(dataset.encoding).toBe(reported)
+      expect(dataset.sha256).toBe(sha256Of(bytes))
+      expect(dataset.columns.map((c: any) => c.name)).toEqual(['supplier', 'town', 'amount'])
+      const preview = await newsroom.reporter.get(`/api/datasets/${dataset.id}/preview`)
+      expect(preview.body.items.map((r: any) => r.cells)).toEqual(ACCENT_ROWS)
+      // By hand: £1,250.00 = 1250, £87.20 = 87.2, £512.09: three amounts, none blank or unreadable.
+      expect(dataset.columns[2]).toMatchObject({ kind: 'amount', parsed: 3, blank: 0, unreadable: 0, min: '87.2', max: '1250' })
+    })
+  }
+})
