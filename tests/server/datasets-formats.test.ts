@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { PAYMENT_KINDS, PAYMENTS } from '../fixtures/datasets/payments'
-import { delimitedText, encoded, jsonRecords, utf8, workbookBytes } from '../support/dataset-files'
+import { PAYMENT_FILES, PAYMENT_KINDS, PAYMENTS } from '../fixtures/datasets/payments'
+import { encoded } from '../support/dataset-files'
 import { allPages, sha256Of, uploadReady } from '../support/datasets'
 import { createTestNewsroom, type TestNewsroom } from '../support/newsroom'
 
@@ -10,15 +10,8 @@ beforeAll(async () => {
   newsroom = await createTestNewsroom('Formats desk')
 })
 
-const FORMATS = {
-  csv: { name: 'payments.csv', bytes: async () => utf8(delimitedText(PAYMENTS, ',')), delimiter: ',' },
-  tsv: { name: 'payments.tsv', bytes: async () => utf8(delimitedText(PAYMENTS, '\t')), delimiter: '\t' },
-  xlsx: { name: 'payments.xlsx', bytes: () => workbookBytes(PAYMENTS), delimiter: null },
-  json: { name: 'payments.json', bytes: async () => utf8(jsonRecords(PAYMENTS)), delimiter: null },
-} as const
-
 describe('each upload format', () => {
-  for (const [format, file] of Object.entries(FORMATS)) {
+  for (const [format, file] of Object.entries(PAYMENT_FILES)) {
     it(`imports ${format} with its rows, columns, kinds and the SHA-256 of the bytes sent`, async () => {
       const bytes = await file.bytes()
       const dataset = await uploadReady(newsroom.reporter, file.name, bytes)
