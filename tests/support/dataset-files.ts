@@ -1,3 +1,5 @@
+import { once } from 'node:events'
+import { createWriteStream } from 'node:fs'
 import ExcelJS from 'exceljs'
 
 /** A dataset as the cells a person would see in a spreadsheet: a header and rows of text. */
@@ -57,4 +59,28 @@ export function encoded(text: string, encoding: 'utf-8' | 'utf-8-bom' | 'utf-16l
       return Buffer.from(text, 'latin1')
     }
   }
+}
+
+/**
+ * Streams a CSV of at least `minBytes` to `path` without holding it in memory: the header, then
+ * `rowOf(1)`, `rowOf(2)`, … and finally `tail` (e.g. a row that breaks the file). Returns the row count.
+ */
+export async function writeLargeCsv(path: string, header: string[], rowOf: (n: number) => string[], minBytes: number, tail = ''): Promise<number> {
+  const out = createWriteStream(path)
+  let bytes = 0
+  let rows = 0
+  const write = async (text: string) => {
+    bytes += Buffer.byteLength(text)
+    if (!out.write(text)) await once(out, 'drain')
+  }
+  await write(`${header.join(',')}\r\n`)
+  while (bytes < minBytes) {
+    let chunk = ''
+    while (chunk.length < 1 << 16 && bytes + chunk.length < minBytes) chunk += `${rowOf(++rows).join(',')}\r\n`
+    await write(chunk)
+  }
+  await write(tail)
+  out.end()
+  await once(out, 'finish')
+  return rows
 }

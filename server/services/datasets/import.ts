@@ -83,6 +83,7 @@ export async function importDataset(datasetId: string): Promise<void> {
     const digitsOut = new CopyWriter(db.digits, names.digits, DIGIT_COLUMNS)
     const source = openRows(dataset.format as DatasetFormat, path, encoding, bomLength)
     let header: string[] | null = null
+    let named = false
     let plan: ReturnType<typeof planColumns> | null = null
     const sample: string[][] = []
     let rowNo = 0
@@ -117,6 +118,7 @@ export async function importDataset(datasetId: string): Promise<void> {
         if (!header) {
           if (raw.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${raw.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
           header = headerNames(raw)
+          named = raw.some(cell => cell.trim())
           continue
         }
         if (!plan) {
@@ -133,6 +135,8 @@ export async function importDataset(datasetId: string): Promise<void> {
         plan = planColumns(header, sample)
         for (const row of sample.splice(0)) await write(row)
       }
+      // A header of no names over cells that are all blank (or JSON records without keys) gives nothing to test.
+      if (!named && plan.every(({ profile }) => profile.blank === rowNo)) throw new UnreadableFile('No readable columns: the file has no column names and no values.')
       if (rowNo === 0) throw new UnreadableFile('The file has a header but no rows of data.')
       await rowsOut.end()
       await digitsOut.end()
