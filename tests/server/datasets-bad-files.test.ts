@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { utf8, workbookBytes, writeLargeCsv } from '../support/dataset-files'
 import { sql } from '../support/database'
 import {
-  expectIncomingGone, incomingFiles, orphanPartitionTables, sha256Of, sha256OfFile, storedFileExists, upload, type UploadBody,
+  expectIncomingGone, incomingFiles, orphanPartitionTables, sha256Of, sha256OfFile, storedFileExists, upload, uploadWithLateEnd, type UploadBody,
 } from '../support/datasets'
 import { createTestNewsroom, type TestNewsroom } from '../support/newsroom'
 
@@ -85,6 +85,12 @@ describe('bad files get a clear 4xx and store nothing', () => {
     await truncate(path, limit + 1)
     expect((await stat(path)).size).toBe(limit + 1)
     await expectRefused('too-big.csv', { path }, 413, new RegExp(`limit of ${Math.round(limit / 1024 / 1024)} MB`))
+
+    // The same file again, its upload's last bytes arriving a moment after the limit was passed.
+    const inFlight = await incomingFiles()
+    const late = await uploadWithLateEnd(newsroom.reporter, 'too-big-slow.csv', path, 500)
+    expect(late.status).toBe(413)
+    await expectNothingKept(await sha256OfFile(path), inFlight)
   })
 
   it('refuses a file with no readable columns', async () => {

@@ -25,6 +25,23 @@ export async function upload(client: Client, fileName: string, body: UploadBody,
   return client.request('POST', `/api/datasets${query}`, form)
 }
 
+/**
+ * POST /api/datasets with a multipart body written by hand and streamed: the file's bytes at once,
+ * the closing boundary `pauseMs` later, as a slow connection delivers it.
+ */
+export async function uploadWithLateEnd(client: Client, fileName: string, path: string, pauseMs: number): Promise<Reply> {
+  const boundary = `----mantissa-test-${Date.now()}`
+  const head = `--${boundary}\r\nContent-Disposition: form-data; name="title"\r\n\r\nLate end\r\n`
+    + `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${fileName}"\r\nContent-Type: text/csv\r\n\r\n`
+  async function* parts() {
+    yield new TextEncoder().encode(head)
+    for await (const chunk of createReadStream(path)) yield new Uint8Array(chunk as Buffer)
+    await new Promise(r => setTimeout(r, pauseMs))
+    yield new TextEncoder().encode(`\r\n--${boundary}--\r\n`)
+  }
+  return client.request('POST', '/api/datasets', ReadableStream.from(parts()), { 'content-type': `multipart/form-data; boundary=${boundary}` })
+}
+
 /** Uploads a small file, expects the inline import to answer 201, and returns GET /api/datasets/{id}. */
 export async function uploadReady(client: Client, fileName: string, body: UploadBody): Promise<any> {
   const reply = await upload(client, fileName, body)

@@ -142,8 +142,7 @@ export async function importDataset(datasetId: string): Promise<void> {
       await digitsOut.end()
     }
     catch (error) {
-      rowsOut.destroy()
-      digitsOut.destroy()
+      await Promise.all([rowsOut.abort(), digitsOut.abort()])
       await db.rows.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};`).catch(() => {})
       throw error
     }
