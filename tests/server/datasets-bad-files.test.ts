@@ -93,6 +93,13 @@ describe('bad files get a clear 4xx and store nothing', () => {
     await expectNothingKept(await sha256OfFile(path), inFlight)
   })
 
+  it('refuses an upload that declares more bytes than the limit before reading it', async () => {
+    const limit = Number(process.env.NUXT_UPLOAD_LIMIT_BYTES)
+    const path = join(scratch, 'declared-too-big.csv')
+    await writeLargeCsv(path, ['vendor', 'amount'], n => [`Declared Vendor ${n}`, `${n}.75`], limit + 1024 * 1024)
+    await expectRefused('declared-too-big.csv', { path }, 413, /limit of/)
+  })
+
   it('refuses a file with no readable columns', async () => {
     await expectRefused('blank-lines.csv', utf8('\r\n\r\n\r\n'), 422, /no readable columns/i)
     await expectRefused('only-separators.csv', utf8(',,\r\n,,\r\n'), 422, /no readable columns/i)

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { PAYMENT_FILES, PAYMENT_KINDS, PAYMENTS } from '../fixtures/datasets/payments'
-import { encoded } from '../support/dataset-files'
+import { encoded, utf8 } from '../support/dataset-files'
 import { allPages, sha256Of, uploadReady } from '../support/datasets'
 import { createTestNewsroom, type TestNewsroom } from '../support/newsroom'
 
@@ -72,4 +72,27 @@ describe('each text encoding', () => {
       expect(dataset.columns[2]).toMatchObject({ kind: 'amount', parsed: 3, blank: 0, unreadable: 0, min: '87.2', max: '1250' })
     })
   }
+})
+
+describe('harder text files', () => {
+  it('reads a Latin-1 file whose first accent comes after the part the importer samples', async () => {
+    // 4,000 plain ASCII rows (about 110 KB, past sniff.ts's 64 KB sample), then one accented row.
+    const plain = Array.from({ length: 4000 }, (_, i) => `Plain Vendor ${i + 1},${i + 1}.50`).join('\r\n')
+    const bytes = encoded(`vendor,amount\r\n${plain}\r\nCafé Ærø,£12.00\r\n`, 'latin-1')
+    expect(bytes.length).toBeGreaterThan(64 * 1024)
+    const dataset = await uploadReady(newsroom.reporter, 'late-accents.csv', bytes)
+    expect(dataset.encoding).toBe('windows-1252')
+    expect(dataset.rowCount).toBe(4001)
+    // Row 4001 is the first of page 81 at 50 rows a page.
+    const page = await newsroom.reporter.get(`/api/datasets/${dataset.id}/preview?page=81`)
+    expect(page.body.items[0]).toEqual({ rowNo: 4001, cells: ['Café Ærø', '£12.00'] })
+  })
+
+  it('counts ragged rows, padding short ones', async () => {
+    // By hand: row 2 has two cells and row 3 four, against a header of three.
+    const dataset = await uploadReady(newsroom.reporter, 'ragged.csv', utf8('a,b,c\r\n1,2,3\r\n4,5\r\n6,7,8,9\r\n10,11,12\r\n'))
+    expect(dataset).toMatchObject({ rowCount: 4, raggedRows: 2 })
+    const preview = await newsroom.reporter.get(`/api/datasets/${dataset.id}/preview`)
+    expect(preview.body.items[1].cells).toEqual(['4', '5', ''])
+  })
 })

@@ -5,7 +5,7 @@ import type { NumberStyle } from '#shared/digits'
 import { ColumnProfile } from './column-profile'
 import { CopyWriter, DIGIT_COLUMNS, ROW_COLUMNS, digitLine, rowLine } from './bulk-copy'
 import { openRows } from './readers'
-import { UnreadableFile, detectEncoding } from './sniff'
+import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat } from './sniff'
 import { partitionNames } from './partitions'
 
@@ -73,7 +73,9 @@ export async function importDataset(datasetId: string): Promise<void> {
   const head = Buffer.alloc(64 * 1024)
   const { bytesRead } = await handle.read(head, 0, head.length, 0)
   await handle.close()
-  const { encoding, bomLength } = detectEncoding(head.subarray(0, bytesRead))
+  const { encoding, bomLength } = dataset.format === 'xlsx'
+    ? detectEncoding(head.subarray(0, bytesRead))
+    : await detectFileEncoding(path, head.subarray(0, bytesRead))
   const names = partitionNames(datasetId)
 
   await withConnections(async (db) => {
