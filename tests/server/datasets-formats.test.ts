@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs'
+import ExcelJS from 'exceljs'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { PAYMENT_FILES, PAYMENT_KINDS, PAYMENTS } from '../fixtures/datasets/payments'
 import { encoded, utf8 } from '../support/dataset-files'
@@ -94,5 +95,25 @@ describe('harder text files', () => {
     expect(dataset).toMatchObject({ rowCount: 4, raggedRows: 2 })
     const preview = await newsroom.reporter.get(`/api/datasets/${dataset.id}/preview`)
     expect(preview.body.items[1].cells).toEqual(['4', '5', ''])
+  })
+})
+
+describe('workbook numbers', () => {
+  it('reads them at Excel\'s 15 significant digits, not the binary leftovers the file stores', async () => {
+    // Excel's documented number precision is 15 digits. The workbook keeps 0.1 + 0.2 as
+    // 0.30000000000000004 and 1.1 × 100 as 110.00000000000001 (JavaScript writes the same doubles).
+    const workbook = new ExcelJS.Workbook()
+    const sheet = workbook.addWorksheet('Data')
+    sheet.addRow(['vendor', 'amount'])
+    sheet.addRow(['Sum Cell Ltd', 0.1 + 0.2])
+    sheet.addRow(['Product Cell Ltd', 1.1 * 100])
+    sheet.addRow(['Formula Cell Ltd', { formula: 'B2*3', result: (0.1 + 0.2) * 3 }])
+    sheet.addRow(['Long Figure Ltd', 123456.789012345])
+    const bytes = new Uint8Array(await workbook.xlsx.writeBuffer())
+    const dataset = await uploadReady(newsroom.reporter, 'arithmetic.xlsx', bytes)
+    const preview = await newsroom.reporter.get(`/api/datasets/${dataset.id}/preview`)
+    // By hand: 0.3, 110, 0.9 and the 15-digit figure as typed.
+    expect(preview.body.items.map((r: any) => r.cells[1])).toEqual(['0.3', '110', '0.9', '123456.789012345'])
+    expect(dataset.columns[1]).toMatchObject({ min: '0.3', max: '123456.789012345' })
   })
 })
