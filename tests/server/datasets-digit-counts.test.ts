@@ -126,3 +126,20 @@ describe('digit counts from SQL equal the engine\'s counts from the same cells',
     expect(server.excluded).toMatchObject({ blank: kinds('blank'), unreadable: kinds('unreadable'), zero: kinds('zero'), negative: negatives })
   })
 })
+
+describe('digit test requests that cannot run', () => {
+  const cases: Array<[string, object, string]> = [
+    ['an unknown column', { column: 'amount_typo', test: 'first-digit' }, 'column'],
+    ['a text column', { column: 'vendor', test: 'first-digit' }, 'column'],
+    ['a range filter on a text column', { column: 'amount', test: 'first-digit', filters: [{ column: 'vendor', op: 'between', min: 1 }] }, 'filters.0.column'],
+    ['grouping a test that ranks no groups', { column: 'amount', test: 'duplicates', groupBy: 'vendor' }, 'groupBy'],
+    ['the threshold test without its limit', { column: 'amount', test: 'threshold' }, 'threshold'],
+  ]
+  for (const [label, body, path] of cases) {
+    it(`answers 400 for ${label}, naming the field`, async () => {
+      const reply = await newsroom.reporter.post(`/api/datasets/${datasetId}/digit-tests`, body)
+      expect(reply.status).toBe(400)
+      expect(reply.body.data.map((e: any) => e.path)).toContain(path)
+    })
+  }
+})

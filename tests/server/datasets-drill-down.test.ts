@@ -1,4 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest'
+import { TEST_NAMES } from '#shared/digits'
 import { leadingDigits, ledger, ledgerTable } from '../fixtures/datasets/ledger'
 import type { LedgerEntry } from '../fixtures/datasets/ledger'
 import { delimitedText, utf8 } from '../support/dataset-files'
@@ -66,6 +67,21 @@ describe('drill-down returns exactly the rows of a bin', () => {
     expect(expected.length).toBeGreaterThan(PAGE_SIZE)
     await expectBin(`column=amount&key=2&test=first-digit&groupBy=vendor&group=${encodeURIComponent('Alderbank Works')}&filters=${filters}`, expected)
   })
+
+  for (const test of TEST_NAMES) {
+    it(`${test}: a bin's drill-down total equals the count the digit test gives it`, async () => {
+      const threshold = test === 'threshold' ? '&threshold=10000' : ''
+      const result = await newsroom.reporter.post(base.replace('/rows', '/digit-tests'), { column: 'amount', test, threshold: threshold ? 10_000 : undefined })
+      expect(result.status).toBe(200)
+      // The five fullest and the five emptiest non-empty bins.
+      const filled = result.body.bins.filter((b: any) => b.count > 0).sort((a: any, b: any) => b.count - a.count)
+      expect(filled.length).toBeGreaterThan(0)
+      for (const bin of [...filled.slice(0, 5), ...filled.slice(-5)]) {
+        const rows = await newsroom.reporter.get(`${base}?column=amount&test=${test}&key=${encodeURIComponent(bin.key)}${threshold}`)
+        expect(rows.body.total, `${test} bin ${bin.key}`).toBe(bin.count)
+      }
+    })
+  }
 
   it('answers an empty page past the last one, and 400 for a key that is not a bin', async () => {
     const expected = rowsOfBin('7', 1)
