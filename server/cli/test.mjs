@@ -35,6 +35,8 @@ const env = {
   NUXT_DEMO_SEED: 'true',
   NUXT_PUBLIC_URL: url,
   NUXT_STORAGE_BASE: join(root, '.data', 'test-files'),
+  // Lower than the 200 MB default so the over-the-limit test sends 20 MB, not 200.
+  NUXT_UPLOAD_LIMIT_BYTES: String(20 * 1024 * 1024),
   PORT: String(port),
   NITRO_HOST: '127.0.0.1',
 }
@@ -52,6 +54,8 @@ try {
   const code = run(bin('vitest'), ['run', '--config', 'tests/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], {
     MANTISSA_TEST_URL: url,
     NUXT_DATABASE_URL: database.url,
+    NUXT_STORAGE_BASE: env.NUXT_STORAGE_BASE,
+    NUXT_UPLOAD_LIMIT_BYTES: env.NUXT_UPLOAD_LIMIT_BYTES,
   })
   if (existsSync(report)) results = JSON.parse(readFileSync(report, 'utf8'))
   if (code !== 0) failures.push('tests')

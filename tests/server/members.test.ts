@@ -1,19 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import pg from 'pg'
 import { Client, signedIn } from '../support/api'
+import { sql } from '../support/database'
 import { linkIn, waitForMail } from '../support/mail'
 import { createTestNewsroom, join, PASSWORD } from '../support/newsroom'
-
-async function sql(text: string, values: unknown[] = []) {
-  const client = new pg.Client({ connectionString: process.env.NUXT_DATABASE_URL })
-  await client.connect()
-  try {
-    return await client.query(text, values)
-  }
-  finally {
-    await client.end()
-  }
-}
 
 describe('invitations', () => {
   it('e-mails a link that lets the person join once, with the invited role', async () => {

@@ -10,16 +10,17 @@ export interface Reply<T = any> {
 export class Client {
   cookie = ''
 
-  async request<T = any>(method: string, path: string, body?: unknown): Promise<Reply<T>> {
-    const headers: Record<string, string> = { accept: 'application/json' }
+  /** `body`: FormData, a ReadableStream (sent as it streams, with `headers` naming its type), or JSON. */
+  async request<T = any>(method: string, path: string, body?: unknown, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
+    const headers: Record<string, string> = { accept: 'application/json', ...extraHeaders }
     if (this.cookie) headers.cookie = this.cookie
     let payload: BodyInit | undefined
-    if (body instanceof FormData) payload = body
+    if (body instanceof FormData || body instanceof ReadableStream) payload = body
     else if (body !== undefined) {
       headers['content-type'] = 'application/json'
       payload = JSON.stringify(body)
     }
-    const response = await fetch(`${baseUrl}${path}`, { method, headers, body: payload, redirect: 'manual' })
+    const response = await fetch(`${baseUrl}${path}`, { method, headers, body: payload, redirect: 'manual', ...(payload instanceof ReadableStream ? { duplex: 'half' } : {}) })
     const setCookie = response.headers.getSetCookie()
     if (setCookie.length) this.cookie = setCookie.map(c => c.split(';')[0]).join('; ')
     const text = await response.text()

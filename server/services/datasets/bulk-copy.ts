@@ -1,4 +1,5 @@
 import { once } from 'node:events'
+import { finished } from 'node:stream/promises'
 import type { PoolClient } from 'pg'
 import { from as copyFrom } from 'pg-copy-streams'
 import type { DigitRecord } from '#shared/digits'
@@ -42,13 +43,19 @@ export class CopyWriter {
 
   async end() {
     await this.flush()
-    const finished = once(this.stream, 'finish')
+    const done = once(this.stream, 'finish')
     this.stream.end()
-    await finished
+    await done
   }
 
-  destroy() {
+  /**
+   * Abandons the COPY: PostgreSQL rolls it back and answers with an error, which is expected here
+   * and must not escape as an unhandled 'error' event. Resolves once the stream has closed.
+   */
+  async abort() {
+    const closed = finished(this.stream).catch(() => {})
     this.stream.destroy()
+    await closed
   }
 }
 

@@ -5,7 +5,7 @@ import type { NumberStyle } from '#shared/digits'
 import { ColumnProfile } from './column-profile'
 import { CopyWriter, DIGIT_COLUMNS, ROW_COLUMNS, digitLine, rowLine } from './bulk-copy'
 import { openRows } from './readers'
-import { UnreadableFile, detectEncoding } from './sniff'
+import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat } from './sniff'
 import { partitionNames } from './partitions'
 
@@ -73,7 +73,9 @@ export async function importDataset(datasetId: string): Promise<void> {
   const head = Buffer.alloc(64 * 1024)
   const { bytesRead } = await handle.read(head, 0, head.length, 0)
   await handle.close()
-  const { encoding, bomLength } = detectEncoding(head.subarray(0, bytesRead))
+  const { encoding, bomLength } = dataset.format === 'xlsx'
+    ? detectEncoding(head.subarray(0, bytesRead))
+    : await detectFileEncoding(path, head.subarray(0, bytesRead))
   const names = partitionNames(datasetId)
 
   await withConnections(async (db) => {
@@ -83,6 +85,7 @@ export async function importDataset(datasetId: string): Promise<void> {
     const digitsOut = new CopyWriter(db.digits, names.digits, DIGIT_COLUMNS)
     const source = openRows(dataset.format as DatasetFormat, path, encoding, bomLength)
     let header: string[] | null = null
+    let named = false
     let plan: ReturnType<typeof planColumns> | null = null
     const sample: string[][] = []
     let rowNo = 0
@@ -117,6 +120,7 @@ export async function importDataset(datasetId: string): Promise<void> {
         if (!header) {
           if (raw.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${raw.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
           header = headerNames(raw)
+          named = raw.some(cell => cell.trim())
           continue
         }
         if (!plan) {
@@ -133,13 +137,14 @@ export async function importDataset(datasetId: string): Promise<void> {
         plan = planColumns(header, sample)
         for (const row of sample.splice(0)) await write(row)
       }
+      // A header of no names over cells that are all blank (or JSON records without keys) gives nothing to test.
+      if (!named && plan.every(({ profile }) => profile.blank === rowNo)) throw new UnreadableFile('No readable columns: the file has no column names and no values.')
       if (rowNo === 0) throw new UnreadableFile('The file has a header but no rows of data.')
       await rowsOut.end()
       await digitsOut.end()
     }
     catch (error) {
-      rowsOut.destroy()
-      digitsOut.destroy()
+      await Promise.all([rowsOut.abort(), digitsOut.abort()])
       await db.rows.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};`).catch(() => {})
       throw error
     }

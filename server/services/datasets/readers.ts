@@ -96,9 +96,15 @@ function numberText(value: number): string {
   return read.status === 'number' || read.status === 'zero' ? decimalText(read) : String(value)
 }
 
+/**
+ * Excel works to 15 significant digits and shows no more; the 17 a workbook stores are binary
+ * leftovers of its arithmetic (1.1 * 100 is kept as 110.00000000000001), not the figure.
+ */
+const EXCEL_DIGITS = 15
+
 function excelCellText(value: ExcelJS.CellValue): string {
   if (value === null || value === undefined) return ''
-  if (typeof value === 'number') return numberText(value)
+  if (typeof value === 'number') return numberText(Number(value.toPrecision(EXCEL_DIGITS)))
   if (typeof value === 'string') return value
   if (typeof value === 'boolean') return value ? 'TRUE' : 'FALSE'
   if (value instanceof Date) return value.toISOString().replace(/T00:00:00\.000Z$/, '')

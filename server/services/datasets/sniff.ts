@@ -1,3 +1,5 @@
+import { createReadStream } from 'node:fs'
+
 export const FORMATS = ['csv', 'tsv', 'xlsx', 'json'] as const
 export type DatasetFormat = typeof FORMATS[number]
 export type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252'
@@ -34,6 +36,25 @@ export function detectEncoding(head: Uint8Array): { encoding: TextEncoding, bomL
   try {
     new TextDecoder('utf-8', { fatal: true }).decode(sample)
     return { encoding: 'utf-8', bomLength: 0 }
+  }
+  catch {
+    return { encoding: 'windows-1252', bomLength: 0 }
+  }
+}
+
+/**
+ * The encoding of a whole stored text file: detectEncoding on its first bytes, except that a file
+ * whose start reads as UTF-8 but holds invalid bytes further on (a Latin-1 accent first met on
+ * row 5,000) is Latin-1. One streamed pass over the file, never held in memory.
+ */
+export async function detectFileEncoding(path: string, head: Uint8Array): Promise<{ encoding: TextEncoding, bomLength: number }> {
+  const detected = detectEncoding(head)
+  if (detected.encoding !== 'utf-8' || detected.bomLength > 0) return detected
+  const decoder = new TextDecoder('utf-8', { fatal: true })
+  try {
+    for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 })) decoder.decode(chunk as Buffer, { stream: true })
+    decoder.decode()
+    return detected
   }
   catch {
     return { encoding: 'windows-1252', bomLength: 0 }

@@ -32,8 +32,12 @@ function receive(event: H3Event, limit: number): Promise<Received> {
       reject(fail(400, [{ path: 'file', message: 'Send the file as multipart/form-data with a "file" field.' }]))
       return
     }
+    const request = event.node.req
     const fields: Record<string, string> = {}
     let saving: Promise<Received['file']> = Promise.resolve(null)
+    const settle = () => saving.then(file => resolve({ fields, file }), (error) => {
+      reject(error instanceof TooLarge ? tooLarge(limit) : error)
+    })
     parser.on('field', (name, value) => {
       fields[name] = value
     })
@@ -44,15 +48,21 @@ function receive(event: H3Event, limit: number): Promise<Received> {
       }
       const originalName = (info.filename || 'upload').split(/[\\/]/).pop()!.slice(0, 255)
       saving = fileStore.save(stream, limit).then(stored => ({ ...stored, originalName }))
-      saving.catch(() => stream.resume())
-    })
-    parser.on('error', () => reject(fail(400, [{ path: 'file', message: 'The upload was interrupted or malformed. Try again.' }])))
-    parser.on('close', () => {
-      saving.then(file => resolve({ fields, file }), (error) => {
-        reject(error instanceof TooLarge ? tooLarge(limit) : error)
+      // A failed save has destroyed the file stream, and busboy would wait for it forever (its
+      // 'close' never comes when the upload's last bytes arrive after the failure). Stop parsing,
+      // read the rest of the request so the client can take the answer, then answer.
+      saving.catch(() => {
+        request.unpipe(parser)
+        if (request.readableEnded) settle()
+        else {
+          request.once('end', settle)
+          request.resume()
+        }
       })
     })
-    event.node.req.pipe(parser)
+    parser.on('error', () => reject(fail(400, [{ path: 'file', message: 'The upload was interrupted or malformed. Try again.' }])))
+    parser.on('close', settle)
+    request.pipe(parser)
   })
 }
 
