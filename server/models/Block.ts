@@ -1,6 +1,6 @@
 import { Model, DataTypes } from 'sequelize'
 import type { InferAttributes, InferCreationAttributes, CreationOptional, Sequelize } from 'sequelize'
-import type { AnalysisSettings, ProseContent } from '#shared/types/investigation'
+import type { AnalysisSettings, ProseContent, ReviewStatus } from '#shared/types/investigation'
 
 export class Block extends Model<InferAttributes<Block>, InferCreationAttributes<Block>> {
   declare id: CreationOptional<string>
@@ -13,6 +13,12 @@ export class Block extends Model<InferAttributes<Block>, InferCreationAttributes
   declare createdBy: string
   declare updatedBy: CreationOptional<string | null>
   declare deletedAt: CreationOptional<Date | null>
+  declare reviewStatus: CreationOptional<ReviewStatus>
+  declare reviewNote: CreationOptional<string | null>
+  declare reviewedBy: CreationOptional<string | null>
+  declare reviewedAt: CreationOptional<Date | null>
+  declare lockedBy: CreationOptional<string | null>
+  declare lockedAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -28,6 +34,12 @@ export class Block extends Model<InferAttributes<Block>, InferCreationAttributes
       createdBy: { type: DataTypes.UUID, allowNull: false },
       updatedBy: DataTypes.UUID,
       deletedAt: DataTypes.DATE,
+      reviewStatus: { type: DataTypes.ENUM('unreviewed', 'approved', 'changes-requested'), allowNull: false, defaultValue: 'unreviewed' },
+      reviewNote: DataTypes.TEXT,
+      reviewedBy: DataTypes.UUID,
+      reviewedAt: DataTypes.DATE,
+      lockedBy: DataTypes.UUID,
+      lockedAt: DataTypes.DATE,
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     }, { sequelize, tableName: 'blocks', underscored: true })

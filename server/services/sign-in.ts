@@ -39,5 +39,10 @@ export async function loadMe(userId: string): Promise<MeDTO> {
   const memberships = (user.get('memberships') as InstanceType<typeof Membership>[])
     .map(m => ({ newsroomId: m.newsroomId as string, newsroomName: m.newsroom?.name ?? '', role: m.role }))
     .sort((a, b) => a.newsroomName.localeCompare(b.newsroomName))
-  return { user: { id: user.id, name: user.name, email: user.email }, memberships }
+  return { user: { id: user.id, name: user.name, email: user.email }, memberships, notifyByEmail: user.notifyByEmail }
+}
+
+export async function updatePreferences(userId: string, preferences: { notifyByEmail: boolean }) {
+  await useDb().models.User.update(preferences, { where: { id: userId } })
+  return preferences
 }

@@ -43,3 +43,24 @@ export const blockOrderSchema = z.object({
   layoutVersion: z.number().int().positive(),
   blockIds: z.array(z.string().uuid()).max(2000),
 })
+
+const note = z.string().trim().max(4000)
+
+export const reviewDecisionSchema = z.object({
+  decision: z.enum(['approved', 'changes-requested']),
+  note: note.optional(),
+}).refine(v => v.decision === 'approved' || Boolean(v.note), { path: ['note'], message: 'Say what should change' })
+
+export const claimCreateSchema = z.object({
+  id: z.string().uuid(),
+  blockId: z.string().uuid(),
+  supportingBlockIds: z.array(z.string().uuid()).max(50).default([]),
+})
+
+export const claimUpdateSchema = z.object({
+  supportingBlockIds: z.array(z.string().uuid()).max(50),
+})
+
+export const disputeSchema = z.object({ note: note.min(1, 'Say what is wrong or missing') })
+export const unlockSchema = z.object({ reason: note.min(1, 'Give the reason for lifting the lock; the audit trail keeps it') })
+export const preferencesSchema = z.object({ notifyByEmail: z.boolean() })

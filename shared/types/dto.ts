@@ -15,6 +15,7 @@ export interface MembershipDTO {
 export interface MeDTO {
   user: UserDTO
   memberships: MembershipDTO[]
+  notifyByEmail: boolean
 }
 
 export interface MemberDTO {

@@ -31,6 +31,15 @@ export interface InvestigationSummaryDTO {
   archived: boolean
 }
 
+export type ReviewStatus = 'unreviewed' | 'approved' | 'changes-requested'
+export type ClaimStatus = 'open' | 'verified' | 'disputed'
+
+/** Who did something and when: locks and reviews carry one. */
+export interface Stamp {
+  by: string
+  at: string
+}
+
 export interface BlockDTO {
   id: string
   kind: 'prose' | 'analysis'
@@ -40,12 +49,47 @@ export interface BlockDTO {
   settings: AnalysisSettings | null
   updatedAt: string
   updatedBy: string | null
+  /** Analysis blocks only: the data editor's verdict on the method. */
+  review: { status: ReviewStatus, note: string | null, stamp: Stamp | null } | null
+  /** Set while a verified claim cites this analysis block: its settings cannot change. */
+  lock: Stamp | null
+}
+
+export interface ClaimDTO {
+  id: string
+  blockId: string
+  quote: string
+  supportingBlockIds: string[]
+  status: ClaimStatus
+  note: string | null
+  createdBy: string
+  decision: Stamp | null
+}
+
+export interface AuditEventDTO {
+  id: string
+  action: string
+  actor: string | null
+  subjectType: string
+  subjectId: string | null
+  detail: Record<string, unknown>
+  at: string
+}
+
+export interface QueueItemDTO {
+  investigationId: string
+  investigationTitle: string
+  blockId: string
+  label: string
+  status: ReviewStatus | ClaimStatus
+  note: string | null
 }
 
 export interface InvestigationDTO extends InvestigationSummaryDTO {
   newsroomId: string
   layoutVersion: number
   blocks: BlockDTO[]
+  claims: ClaimDTO[]
 }
 
 export interface AnalysisRunDTO {

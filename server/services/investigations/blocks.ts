@@ -4,6 +4,7 @@ import type { AnalysisSettings } from '#shared/types/investigation'
 import type { Block, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { describeBlock, describeInvestigation, findInvestigation, liveBlocks, touchInvestigation } from './catalog'
+import { assertUnlocked } from './locks'
 
 /** The block behind an id with its investigation, for the permission check; 404 when missing or removed. */
 export async function findBlock(id: string, { includeRemoved = false } = {}): Promise<{ block: Block, investigation: Investigation }> {
@@ -52,14 +53,25 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
   if (input.content && block.kind !== 'prose') throw fail(400, [{ path: 'content', message: 'Only prose blocks hold text.' }])
   if (input.settings && block.kind !== 'analysis') throw fail(400, [{ path: 'settings', message: 'Only analysis blocks hold settings.' }])
   await checkDataset(input.settings, (await findInvestigation(block.investigationId)).newsroomId)
+  const settingsChanged = input.settings !== undefined && JSON.stringify(input.settings) !== JSON.stringify(block.settings)
+  await assertUnlocked(block, { content: input.content, settings: settingsChanged ? input.settings : undefined })
+  // A reviewed method that changes needs a fresh review.
+  const resetReview = settingsChanged && block.reviewStatus !== 'unreviewed'
   const saved = await sequelize.transaction(async (transaction) => {
     const [count, rows] = await models.Block.update({
       ...(input.content ? { content: input.content } : {}),
       ...(input.settings ? { settings: input.settings } : {}),
+      ...(resetReview ? { reviewStatus: 'unreviewed' as const, reviewNote: null, reviewedBy: null, reviewedAt: null } : {}),
       version: input.version + 1,
       updatedBy: actor.userId,
-    }, { where: { id: block.id, version: input.version, deletedAt: null }, returning: true, transaction })
+    }, { where: { id: block.id, version: input.version, deletedAt: null, ...(settingsChanged ? { lockedAt: null } : {}) }, returning: true, transaction })
     if (count !== 1) return null
+    if (resetReview) {
+      await recordAudit({
+        newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action: 'review.reset',
+        subjectType: 'block', subjectId: block.id, detail: { was: block.reviewStatus, reason: 'settings changed' },
+      }, transaction)
+    }
     await touchInvestigation(block.investigationId, actor.userId, transaction)
     return rows[0]!
   })
@@ -73,6 +85,7 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
 /** Removes a block from the document; it is kept so that "undo" can bring it back. */
 export async function removeBlock(actor: Actor, block: Block) {
   const { sequelize } = useDb()
+  await assertUnlocked(block, { removing: true })
   await sequelize.transaction(async (transaction) => {
     await block.update({ deletedAt: new Date(), updatedBy: actor.userId }, { transaction })
     await useDb().models.Investigation.increment('layoutVersion', { where: { id: block.investigationId }, transaction })

@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize'
-import type { BlockDTO, InvestigationDTO, InvestigationSummaryDTO } from '#shared/types/investigation'
-import type { Block, Investigation } from '../../models'
+import type { BlockDTO, ClaimDTO, InvestigationDTO, InvestigationSummaryDTO, Stamp } from '#shared/types/investigation'
+import type { Block, Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 
 interface Named { name: string }
@@ -14,11 +14,15 @@ function summary(investigation: Investigation, names: Map<string, string>): Inve
   }
 }
 
-async function userNames(ids: (string | null | undefined)[]): Promise<Map<string, string>> {
+export async function userNames(ids: (string | null | undefined)[]): Promise<Map<string, string>> {
   const wanted = [...new Set(ids.filter((id): id is string => Boolean(id)))]
   if (!wanted.length) return new Map()
   const users = await useDb().models.User.findAll({ where: { id: wanted }, attributes: ['id', 'name'] })
   return new Map(users.map(u => [u.id, (u as unknown as Named).name]))
+}
+
+function stamp(userId: string | null | undefined, at: Date | null | undefined, names: Map<string, string>): Stamp | null {
+  return userId && at ? { by: names.get(userId) ?? 'a former member', at: at.toISOString() } : null
 }
 
 export function blockDTO(block: Block, names: Map<string, string>): BlockDTO {
@@ -26,7 +30,24 @@ export function blockDTO(block: Block, names: Map<string, string>): BlockDTO {
     id: block.id, kind: block.kind, position: block.position, version: block.version,
     content: block.content, settings: block.settings, updatedAt: block.updatedAt.toISOString(),
     updatedBy: block.updatedBy ? names.get(block.updatedBy) ?? null : null,
+    review: block.kind === 'analysis'
+      ? { status: block.reviewStatus, note: block.reviewNote ?? null, stamp: stamp(block.reviewedBy, block.reviewedAt, names) }
+      : null,
+    lock: stamp(block.lockedBy, block.lockedAt, names),
   }
+}
+
+export function claimDTO(claim: Claim, names: Map<string, string>): ClaimDTO {
+  return {
+    id: claim.id, blockId: claim.blockId, quote: claim.quote, supportingBlockIds: claim.supportingBlockIds,
+    status: claim.status, note: claim.note ?? null, createdBy: names.get(claim.createdBy) ?? '',
+    decision: stamp(claim.decidedBy, claim.decidedAt, names),
+  }
+}
+
+/** Names of everyone a block mentions (editor, reviewer, locker). */
+export function blockPeople(block: Block) {
+  return [block.updatedBy, block.reviewedBy, block.lockedBy]
 }
 
 export async function listInvestigations(newsroomId: string): Promise<InvestigationSummaryDTO[]> {
@@ -47,17 +68,22 @@ export async function liveBlocks(investigationId: string, transaction?: Transact
 
 export async function describeInvestigation(investigation: Investigation): Promise<InvestigationDTO> {
   const blocks = await liveBlocks(investigation.id)
-  const names = await userNames([investigation.createdBy, investigation.updatedBy, ...blocks.map(b => b.updatedBy)])
+  const claims = await useDb().models.Claim.findAll({ where: { investigationId: investigation.id }, order: [['createdAt', 'ASC']] })
+  const names = await userNames([
+    investigation.createdBy, investigation.updatedBy, ...blocks.flatMap(blockPeople), ...claims.flatMap(c => [c.createdBy, c.decidedBy]),
+  ])
+  const live = new Set(blocks.map(b => b.id))
   return {
     ...summary(investigation, names),
     newsroomId: investigation.newsroomId,
     layoutVersion: investigation.layoutVersion,
     blocks: blocks.map(b => blockDTO(b, names)),
+    claims: claims.filter(c => live.has(c.blockId)).map(c => claimDTO(c, names)),
   }
 }
 
 export async function describeBlock(block: Block): Promise<BlockDTO> {
-  return blockDTO(block, await userNames([block.updatedBy]))
+  return blockDTO(block, await userNames(blockPeople(block)))
 }
 
 /** A new investigation starts as one empty paragraph, ready to write in. */

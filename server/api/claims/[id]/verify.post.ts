@@ -1,0 +1,9 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { findClaim, verifyClaim } from '../../../services/investigations/claims'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const { claim, investigation } = await findClaim(id)
+  const actor = await requirePermission(event, 'claim.verify', { newsroomId: investigation.newsroomId })
+  return verifyClaim(actor, claim)
+})

@@ -1,0 +1,10 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { findInvestigation } from '../../../services/investigations/catalog'
+import { auditTrail } from '../../../services/investigations/audit-trail'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const investigation = await findInvestigation(id)
+  await requirePermission(event, 'audit.read', { newsroomId: investigation.newsroomId })
+  return auditTrail(investigation)
+})

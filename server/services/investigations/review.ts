@@ -1,0 +1,63 @@
+import { Op } from 'sequelize'
+import type { QueueItemDTO } from '#shared/types/investigation'
+import { TEST_LABELS } from '#shared/charts/labels'
+import type { Block, Investigation } from '../../models'
+import type { Actor } from '../../utils/permissions'
+import { describeBlock, describeInvestigation } from './catalog'
+
+/** The reporter asks the desk to review the method of every analysis block. */
+export async function requestReview(actor: Actor, investigation: Investigation) {
+  const { sequelize } = useDb()
+  await sequelize.transaction(async (transaction) => {
+    await investigation.update({ status: 'in-review', updatedBy: actor.userId }, { transaction })
+    await recordAudit({ newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId, action: 'review.requested', subjectType: 'investigation', subjectId: investigation.id }, transaction)
+  })
+  await notifyUsers(await membersWithRoles(actor.newsroomId, ['data-editor', 'admin']), {
+    subject: `Review requested: ${investigation.title}`,
+    lines: [`${actor.name} asks for a review of the method of each analysis block in “${investigation.title}”.`],
+    path: `/investigations/${investigation.id}`,
+  }, actor.userId)
+  return describeInvestigation(investigation)
+}
+
+/** A data editor approves an analysis block's method or sends it back with a note. */
+export async function decideReview(actor: Actor, block: Block, investigation: Investigation, decision: 'approved' | 'changes-requested', note?: string) {
+  if (block.kind !== 'analysis') throw fail(400, [{ path: 'decision', message: 'Only analysis blocks have a method to review.' }])
+  const { sequelize } = useDb()
+  await sequelize.transaction(async (transaction) => {
+    await block.update({ reviewStatus: decision, reviewNote: note ?? null, reviewedBy: actor.userId, reviewedAt: new Date() }, { transaction })
+    await recordAudit({
+      newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
+      action: decision === 'approved' ? 'block.approved' : 'block.sent-back', subjectType: 'block', subjectId: block.id,
+      detail: { note: note ?? null, settings: block.settings },
+    }, transaction)
+  })
+  if (decision === 'changes-requested') {
+    await notifyUsers([investigation.createdBy], {
+      subject: `Method sent back: ${investigation.title}`,
+      lines: [`${actor.name} sent back an analysis block (${block.settings?.test ? TEST_LABELS[block.settings.test] : 'analysis'}) in “${investigation.title}”.`, `Their note: ${note}`],
+      path: `/investigations/${investigation.id}`,
+    }, actor.userId)
+  }
+  return describeBlock(block)
+}
+
+/** What waits for a data editor: analysis blocks of investigations in review that are not approved. */
+export async function reviewQueue(newsroomId: string): Promise<QueueItemDTO[]> {
+  const { models } = useDb()
+  const investigations = await models.Investigation.findAll({ where: { newsroomId, status: 'in-review', archivedAt: null } })
+  if (!investigations.length) return []
+  const byId = new Map(investigations.map(i => [i.id, i]))
+  const blocks = await models.Block.findAll({
+    where: { investigationId: { [Op.in]: [...byId.keys()] }, kind: 'analysis', deletedAt: null, reviewStatus: { [Op.ne]: 'approved' } },
+    order: [['investigationId', 'ASC'], ['position', 'ASC']],
+  })
+  return blocks.map(block => ({
+    investigationId: block.investigationId,
+    investigationTitle: byId.get(block.investigationId)!.title,
+    blockId: block.id,
+    label: `${block.settings?.test ? TEST_LABELS[block.settings.test] : 'Analysis'}${block.settings?.column ? ` of “${block.settings.column}”` : ''}`,
+    status: block.reviewStatus,
+    note: block.reviewNote ?? null,
+  }))
+}
