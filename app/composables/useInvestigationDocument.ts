@@ -1,5 +1,4 @@
 import { storeToRefs } from 'pinia'
-import { can } from '#shared/auth/permissions'
 import type { InvestigationDTO } from '#shared/types/investigation'
 
 /** Loads an investigation into the document store and says what the member may do with it. */
@@ -13,6 +12,9 @@ export function useInvestigationDocument(id: Ref<string>) {
   }, { immediate: true })
   const { investigation } = storeToRefs(store)
   const role = computed(() => me.value?.memberships.find(m => m.newsroomId === investigation.value?.newsroomId)?.role)
-  const canEdit = computed(() => Boolean(role.value && investigation.value && can(role.value, 'investigation.edit', investigation.value.createdById === user.value?.id)))
+  watch([role, user], () => {
+    store.viewer = role.value && user.value ? { role: role.value, userId: user.value.id } : null
+  }, { immediate: true })
+  const canEdit = computed(() => Boolean(store.viewer && store.may('investigation.edit')))
   return { store, investigation, error, canEdit, role }
 }

@@ -1,5 +1,8 @@
 import { defineStore } from 'pinia'
-import type { AnalysisSettings, BlockDTO, InvestigationDTO, ProseContent } from '#shared/types/investigation'
+import { can } from '#shared/auth/permissions'
+import type { Action } from '#shared/auth/permissions'
+import type { Role } from '#shared/auth/roles'
+import type { AnalysisSettings, BlockDTO, ClaimDTO, InvestigationDTO, ProseContent } from '#shared/types/investigation'
 
 type Patch = { content?: ProseContent, settings?: AnalysisSettings }
 export type SaveState = 'saving' | 'saved' | 'failed'
@@ -24,7 +27,9 @@ export const useDocumentStore = defineStore('document', () => {
   const saveState = ref<Record<string, SaveState>>({})
   const conflicts = ref<Record<string, Conflict>>({})
   const removed = ref<BlockDTO[]>([])
+  const claims = ref<ClaimDTO[]>([])
   const message = ref('')
+  const viewer = ref<{ role: Role, userId: string } | null>(null)
   const queued = new Map<string, Patch>()
   const inFlight = new Set<string>()
 
@@ -39,7 +44,43 @@ export const useDocumentStore = defineStore('document', () => {
   function applyLayout(dto: InvestigationDTO) {
     investigation.value = dto
     blocks.value = dto.blocks
+    claims.value = dto.claims
   }
+
+  /** What the person reading may do here; the server decides again on every request. */
+  function may(action: Action): boolean {
+    if (!viewer.value || !investigation.value) return false
+    return can(viewer.value.role, action, investigation.value.createdById === viewer.value.userId)
+  }
+
+  /** Runs a change on the server, then shows the document as the server now has it. */
+  async function act(request: () => Promise<unknown>): Promise<boolean> {
+    try {
+      await request()
+      await refreshLayout()
+      return true
+    }
+    catch (error) {
+      message.value = describeApiError(error).message
+      return false
+    }
+  }
+
+  // Typed loosely on purpose: Nitro's route typing over a plain string path is too deep for tsc.
+  const send = $fetch as (url: string, options: { method: 'POST' | 'PATCH' | 'DELETE', body?: object }) => Promise<unknown>
+  const post = (path: string, body?: object) => () => send(path, { method: 'POST', body })
+
+  function markClaim(blockId: string, claimId: string) {
+    return act(post(`/api/investigations/${investigation.value!.id}/claims`, { id: claimId, blockId, supportingBlockIds: [] }))
+  }
+  function citeBlocks(claimId: string, supportingBlockIds: string[]) {
+    return act(() => send(`/api/claims/${claimId}`, { method: 'PATCH', body: { supportingBlockIds } }))
+  }
+  const verify = (claimId: string) => act(post(`/api/claims/${claimId}/verify`))
+  const dispute = (claimId: string, note: string) => act(post(`/api/claims/${claimId}/dispute`, { note }))
+  const unlock = (claimId: string, reason: string) => act(post(`/api/claims/${claimId}/unlock`, { reason }))
+  const review = (blockId: string, decision: 'approved' | 'changes-requested', note?: string) => act(post(`/api/blocks/${blockId}/review`, { decision, note }))
+  const requestReview = () => act(post(`/api/investigations/${investigation.value!.id}/review-request`))
 
   function replace(block: BlockDTO) {
     const index = blocks.value.findIndex(b => b.id === block.id)
@@ -62,6 +103,12 @@ export const useDocumentStore = defineStore('document', () => {
       const e = error as { statusCode?: number, data?: { data?: { current?: BlockDTO } } }
       const current = e.data?.data?.current
       if (e.statusCode === 409 && current) conflicts.value[blockId] = { mine: { ...patch, ...queued.get(blockId) }, theirs: current }
+      else if (e.statusCode === 423) {
+        // Locked while this editor was open: show the lock and the server's text.
+        message.value = describeApiError(error).message
+        queued.delete(blockId)
+        await refreshLayout()
+      }
       else {
         queued.set(blockId, { ...patch, ...queued.get(blockId) })
         message.value = describeApiError(error).message
@@ -85,6 +132,11 @@ export const useDocumentStore = defineStore('document', () => {
     const block = blocks.value.find(b => b.id === blockId)
     if (block && patch.settings) block.settings = patch.settings
     return flush(blockId)
+  }
+
+  /** Resolves once every change of the block queued so far has reached the server (or failed). */
+  async function whenSaved(blockId: string) {
+    while (inFlight.has(blockId) || (queued.has(blockId) && !conflicts.value[blockId])) await new Promise(r => setTimeout(r, 50))
   }
 
   function retry(blockId: string) {
@@ -124,9 +176,7 @@ export const useDocumentStore = defineStore('document', () => {
   async function remove(blockId: string) {
     const block = blocks.value.find(b => b.id === blockId)
     if (!block) return
-    await $fetch(`/api/blocks/${blockId}`, { method: 'DELETE' })
-    removed.value.push(block)
-    await refreshLayout()
+    if (await act(() => send(`/api/blocks/${blockId}`, { method: 'DELETE' }))) removed.value.push(block)
   }
 
   async function undoRemove() {
@@ -155,7 +205,8 @@ export const useDocumentStore = defineStore('document', () => {
   }
 
   return {
-    investigation, blocks, saveState, conflicts, removed, message,
-    load, save, retry, takeTheirs, keepMine, insert, remove, undoRemove, move, refreshLayout,
+    investigation, blocks, claims, saveState, conflicts, removed, message, viewer,
+    load, save, whenSaved, retry, takeTheirs, keepMine, insert, remove, undoRemove, move, refreshLayout, may,
+    markClaim, citeBlocks, verify, dispute, unlock, review, requestReview,
   }
 })
