@@ -11,12 +11,14 @@ import { Investigation } from './Investigation'
 import { Block } from './Block'
 import { AnalysisResult } from './AnalysisResult'
 import { Claim } from './Claim'
+import { Publication } from './Publication'
+import { ShareLink } from './ShareLink'
 
-export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim }
+export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink }
 
 /** Registers every model on `sequelize` and wires their associations. */
 export function setupModels(sequelize: Sequelize) {
-  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim]) model.setup(sequelize)
+  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink]) model.setup(sequelize)
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })

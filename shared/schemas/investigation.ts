@@ -64,3 +64,9 @@ export const claimUpdateSchema = z.object({
 export const disputeSchema = z.object({ note: note.min(1, 'Say what is wrong or missing') })
 export const unlockSchema = z.object({ reason: note.min(1, 'Give the reason for lifting the lock; the audit trail keeps it') })
 export const preferencesSchema = z.object({ notifyByEmail: z.boolean() })
+
+export const publishSchema = z.object({
+  reason: note.optional(),
+  expiresAt: z.string().datetime({ offset: true }).optional()
+    .refine(v => !v || Date.parse(v) > Date.now(), 'Choose an expiry in the future'),
+})

@@ -1,0 +1,80 @@
+import { MAD_RANGES } from '../digits/mad'
+import type { DistributionTest, TestResult } from '../digits/types'
+import { TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
+import type { AnalysisSettings } from '../types/investigation'
+import type { DatasetFingerprint } from '../types/publication'
+
+export interface AppendixAnalysis {
+  settings: AnalysisSettings
+  result: TestResult | null
+}
+
+const count = (n: number) => n.toLocaleString('en-GB')
+
+function excluded(result: TestResult): string {
+  const e = result.excluded
+  const parts = [
+    e.blank && `${count(e.blank)} blank`, e.unreadable && `${count(e.unreadable)} unreadable`, e.zero && `${count(e.zero)} zero`,
+    e.negative && `${count(e.negative)} negative (tested apart)`, e.positive && `${count(e.positive)} positive (tested apart)`,
+    e.belowMinimum && `${count(e.belowMinimum)} outside the test's range`,
+  ].filter(Boolean)
+  return parts.length ? parts.join(', ') : 'none'
+}
+
+function ranges(test: DistributionTest): string | null {
+  const r = MAD_RANGES[test]
+  return r ? `MAD up to ${r[0]} close, up to ${r[1]} acceptable, up to ${r[2]} marginally acceptable conformity, above that nonconformity (Nigrini 2012, *Benford's Law*, Wiley)` : null
+}
+
+function analysisSection(index: number, { settings, result }: AppendixAnalysis, datasets: Map<string, DatasetFingerprint>): string {
+  const test = settings.test
+  const dataset = settings.datasetId ? datasets.get(settings.datasetId) : undefined
+  const lines = [`### ${index}. ${test ? TEST_LABELS[test] : 'Analysis'}${settings.column ? ` of “${settings.column}”` : ''}`, '']
+  if (test) lines.push(TEST_DESCRIPTIONS[test], '')
+  if (dataset) lines.push(`- Dataset: ${dataset.title} (${dataset.originalName}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
+  if (settings.filters?.length) lines.push(`- Rows: only where ${settings.filters.map(f => (f.op === 'equals' ? `${f.column} is “${f.value}”` : `${f.column} is between ${f.min ?? '−∞'} and ${f.max ?? '∞'}`)).join(' and ')}`)
+  if (settings.groupBy) lines.push(`- Groups: one test per value of “${settings.groupBy}”, ranked by excess MAD, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995)`)
+  if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it, compared with a straight line through the outer eight`)
+  lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
+  if (result) {
+    lines.push(`- Values tested (n): ${count(result.n)}; left out: ${excluded(result)}`)
+    if (result.chiSquare) lines.push(`- Chi-square ${result.chiSquare.statistic.toFixed(2)} with ${result.chiSquare.df} degrees of freedom, p = ${result.chiSquare.p.toPrecision(3)}`)
+    if (result.mad) lines.push(`- MAD ${result.mad.value.toFixed(5)}${result.mad.conformity ? ` (${result.mad.conformity})` : ''}${result.mad.expected !== null ? `; a conforming sample of this size averages ${result.mad.expected.toFixed(5)}` : ''}`)
+    if (result.ks) lines.push(`- Kolmogorov–Smirnov D ${result.ks.d.toFixed(4)} against a 5% critical value of ${result.ks.critical.toFixed(4)} (1.36/√n; Massey 1951)`)
+    for (const finding of result.suitability) lines.push(`- Suitability (${finding.severity}): ${finding.message}`)
+  }
+  const rangeText = test && test in MAD_RANGES ? ranges(test as DistributionTest) : null
+  if (rangeText) lines.push(`- Conformity ranges: ${rangeText}`)
+  return lines.join('\n')
+}
+
+/**
+ * The methodology appendix of a published investigation, in Markdown: what each test did, on
+ * which exact file, what was left out, which thresholds were used and where they come from, and
+ * the limits of the method.
+ */
+export function methodologyAppendix(title: string, analyses: AppendixAnalysis[], datasets: DatasetFingerprint[]): string {
+  const byId = new Map(datasets.map(d => [d.id, d]))
+  return [
+    `# Methodology: ${title}`,
+    '',
+    '## What these tests can and cannot say',
+    '',
+    'Benford’s law describes how often each leading digit appears in many collections of naturally occurring amounts: a 1 leads about 30% of the time, a 9 under 5% (Benford 1938; Hill 1995). The tests below compare the amounts in the datasets with that pattern and with related expectations. A digit test is a screen, not proof: a deviation says where to look, never that anything is wrong. Rounding rules, price lists, caps, fees and many ordinary business practices make honest data deviate. Every deviation reported here was followed up in the records and with the people and organisations concerned before publication, and the newsroom’s legal review applies before anyone is named.',
+    '',
+    '## Statistics used',
+    '',
+    '- Each bin’s count is compared with the count the law expects at this sample size; the chart’s band is the range a conforming sample of this size shows 95% of the time (binomial).',
+    '- Z per bin with a continuity correction (Nigrini 2012, after Fleiss 1981); |Z| above 1.96 is unusual at the 5% level, one bin at a time.',
+    '- Chi-square over all bins; at large n it flags even tiny, harmless departures, which is why the MAD is reported beside it.',
+    '- Mean absolute deviation (MAD) with the published conformity ranges, and the MAD a conforming sample of this size shows on average (Barney & Schulzke 2016).',
+    '',
+    '## The analyses',
+    '',
+    ...analyses.map((analysis, i) => `${analysisSection(i + 1, analysis, byId)}\n`),
+    '## Datasets',
+    '',
+    ...datasets.map(d => `- **${d.title}** — ${d.originalName}; SHA-256 \`${d.sha256}\`; ${d.rowCount === null ? '?' : count(d.rowCount)} rows; obtained ${d.obtainedOn ?? 'on an unrecorded date'}${d.sourceUrl ? `; source ${d.sourceUrl}` : ''}${d.sourceNote ? `. ${d.sourceNote}` : ''}`),
+    '',
+  ].join('\n')
+}
