@@ -13,6 +13,8 @@ export interface TestNewsroom {
   'fact-checker': Client
   'reporter': Client
   'emails': Record<Role, string>
+  /** Display names, as the API shows them in stamps, trails and 423 messages. */
+  'names': Record<Role, string>
 }
 
 /** Accepts an invitation link's token through the API, as the invited person would. */
@@ -36,15 +38,26 @@ export async function createTestNewsroom(label = 'Test desk'): Promise<TestNewsr
     'reporter': `reporter-${tag}@test.example`,
   } satisfies Record<Role, string>
   const { newsroomId, token } = await createNewsroomWithAdminInvitation(process.env.NUXT_DATABASE_URL!, `${label} ${tag}`, emails.admin)
-  const admin = await join(token, `Admin ${tag}`)
-  const newsroom = { id: newsroomId, admin, emails } as TestNewsroom
+  const names = {
+    'admin': `Admin ${tag}`,
+    'data-editor': `data-editor ${tag}`,
+    'fact-checker': `fact-checker ${tag}`,
+    'reporter': `reporter ${tag}`,
+  } satisfies Record<Role, string>
+  const admin = await join(token, names.admin)
+  const newsroom = { id: newsroomId, admin, emails, names } as TestNewsroom
   for (const role of ['data-editor', 'fact-checker', 'reporter'] as const) {
-    const invited = await admin.post(`/api/newsrooms/${newsroomId}/invitations`, { email: emails[role], role })
-    if (invited.status !== 201) throw new Error(`invitation answered ${invited.status}`)
-    const mail = await waitForMail(emails[role], 'invites you')
-    newsroom[role] = await join(linkIn(mail.text, '/join/').split('/join/')[1]!, `${role} ${tag}`)
+    newsroom[role] = await inviteMember(admin, newsroomId, emails[role], role, names[role])
   }
   return newsroom
+}
+
+/** Invites `email` with `role` as the newsroom's admin and joins through the e-mailed link. */
+export async function inviteMember(admin: Client, newsroomId: string, email: string, role: Role, name: string): Promise<Client> {
+  const invited = await admin.post(`/api/newsrooms/${newsroomId}/invitations`, { email, role })
+  if (invited.status !== 201) throw new Error(`invitation answered ${invited.status}`)
+  const mail = await waitForMail(email, 'invites you')
+  return join(linkIn(mail.text, '/join/').split('/join/')[1]!, name)
 }
 
 export { signedIn }

@@ -13,6 +13,13 @@ export async function findBlock(id: string, { includeRemoved = false } = {}): Pr
   return { block, investigation: await findInvestigation(block.investigationId) }
 }
 
+/** JSON with object keys sorted, so that two settings that differ only in key order compare equal. */
+function canonicalJson(value: unknown): string {
+  return JSON.stringify(value, (_key, v) => v && typeof v === 'object' && !Array.isArray(v)
+    ? Object.fromEntries(Object.entries(v).sort(([a], [b]) => a.localeCompare(b)))
+    : v)
+}
+
 /** A block may only point at a dataset of its own newsroom. */
 async function checkDataset(settings: AnalysisSettings | undefined, newsroomId: string) {
   if (!settings?.datasetId) return
@@ -53,7 +60,8 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
   if (input.content && block.kind !== 'prose') throw fail(400, [{ path: 'content', message: 'Only prose blocks hold text.' }])
   if (input.settings && block.kind !== 'analysis') throw fail(400, [{ path: 'settings', message: 'Only analysis blocks hold settings.' }])
   await checkDataset(input.settings, (await findInvestigation(block.investigationId)).newsroomId)
-  const settingsChanged = input.settings !== undefined && JSON.stringify(input.settings) !== JSON.stringify(block.settings)
+  // jsonb hands keys back in its own order, so a plain string comparison would see a change in every resave.
+  const settingsChanged = input.settings !== undefined && canonicalJson(input.settings) !== canonicalJson(block.settings)
   await assertUnlocked(block, { content: input.content, settings: settingsChanged ? input.settings : undefined })
   // A reviewed method that changes needs a fresh review.
   const resetReview = settingsChanged && block.reviewStatus !== 'unreviewed'
