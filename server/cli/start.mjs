@@ -1,6 +1,6 @@
 // `npm start`: everything a new user needs, from a fresh machine to a running demo newsroom.
 import { spawn } from 'node:child_process'
-import { readFileSync } from 'node:fs'
+import { existsSync, readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { ensurePostgres } from './postgres.mjs'
 import { buildIfStale, ensureDependencies, localSessionPassword, migrate, root, step, waitForServer } from './prepare.mjs'
@@ -24,6 +24,7 @@ const env = {
   NUXT_PUBLIC_URL: process.env.NUXT_PUBLIC_URL ?? `http://localhost:${port}`,
   PORT: String(port),
   NITRO_HOST: process.env.NITRO_HOST ?? '127.0.0.1',
+  MANTISSA_DEMO_LINK_FILE: join(root, '.data', 'demo-public-link'),
 }
 step(dev ? 'starting the development server' : 'starting Mantissa')
 const server = dev
@@ -36,12 +37,13 @@ server.on('exit', code => process.exit(code ?? 0))
 const url = `http://localhost:${port}`
 await waitForServer(url, dev ? 180 : 60)
 const demo = JSON.parse(readFileSync(join(root, 'server', 'services', 'demo', 'people.json'), 'utf8'))
+const published = existsSync(env.MANTISSA_DEMO_LINK_FILE) ? readFileSync(env.MANTISSA_DEMO_LINK_FILE, 'utf8').trim() : null
 console.log(`
   Mantissa is running at ${url}
 
   Demo sign-ins (password for all: ${demo.password})
 ${demo.people.map(p => `    ${p.role.padEnd(13)} ${p.email}`).join('\n')}
 
-  Mail sent by the app is caught locally: ${url}/dev/mail
+  ${published ? `The demo investigation's published page: ${published}\n  ` : ''}Mail sent by the app is caught locally: ${url}/dev/mail
   Stop with Ctrl+C.
 `)

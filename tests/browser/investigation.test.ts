@@ -42,9 +42,10 @@ describe('writing an investigation', () => {
 
     // Click the bar of the leading digit 1, as a reader would.
     await page.locator('figure svg path[aria-roledescription="bar"][aria-label*="Count"]').first().click()
-    await page.getByRole('heading', { name: /Rows behind/ }).waitFor({ timeout: 10_000 })
-    const rowsText = await page.locator('section[aria-labelledby="bin-rows-heading"]').textContent()
-    expect(rowsText).toMatch(/Page 1 of/)
+    await page.getByRole('heading', { name: /Rows behind “1”/ }).waitFor({ timeout: 10_000 })
+    const rowsPanel = page.locator('section[aria-labelledby="bin-rows-heading"]')
+    await rowsPanel.getByText(/Page 1 of/).waitFor({ timeout: 10_000 })
+    expect(await rowsPanel.locator('tbody tr').count()).toBe(50)
     await screenshot(page, 'investigation-analysis')
 
     // The paragraph survived: reload and read it back from the server.

@@ -3,7 +3,12 @@ import { importDataset } from '../datasets/import'
 import { runAnalysis } from '../investigations/analysis'
 import { DEMO_NEWSROOM, DEMO_PASSWORD, DEMO_PEOPLE } from './people'
 import { demoLedgerCsv } from './payments'
-import { DEMO_STORY } from './story'
+import { DEMO_CLAIMS, DEMO_STORY } from './story'
+import { decideReview } from '../investigations/review'
+import { createClaim, disputeClaim, findClaim, verifyClaim } from '../investigations/claims'
+import { publish } from '../publishing/publish'
+import type { Actor } from '../../utils/permissions'
+import type { Block } from '../../models'
 
 /** The people, in a transaction of their own so that a half-seeded newsroom never exists. */
 async function seedPeople() {
@@ -19,7 +24,7 @@ async function seedPeople() {
       await models.Membership.create({ newsroomId: newsroom.id, userId: user.id, role: person.role }, { transaction })
       ids[person.role] = user.id
     }
-    return { newsroomId: newsroom.id, reporterId: ids.reporter!, editorId: ids['data-editor']! }
+    return { newsroomId: newsroom.id, reporterId: ids.reporter!, editorId: ids['data-editor']!, checkerId: ids['fact-checker']! }
   })
 }
 
@@ -37,9 +42,19 @@ async function seedLedger(newsroomId: string, reporterId: string) {
   return dataset.id
 }
 
-async function seedStory(newsroomId: string, reporterId: string, datasetId: string) {
+interface DemoPeople { newsroomId: string, reporterId: string, editorId: string, checkerId: string }
+
+function actorOf(people: DemoPeople, userId: string, role: Actor['role']): Actor {
+  const person = DEMO_PEOPLE.find(p => p.role === role)!
+  return { userId, name: person.name, email: person.email, newsroomId: people.newsroomId, role }
+}
+
+/** The draft with its blocks run, a claim in each state, reviews in each state, and a published version. */
+async function seedStory(people: DemoPeople, datasetId: string) {
   const { models } = useDb()
-  const investigation = await models.Investigation.create({ newsroomId, title: 'Invoices that stop just short of a second signature', createdBy: reporterId, updatedBy: reporterId })
+  const { newsroomId, reporterId } = people
+  const investigation = await models.Investigation.create({ newsroomId, title: 'Invoices that stop just short of a second signature', createdBy: reporterId, updatedBy: reporterId, status: 'in-review' })
+  const blocks: Block[] = []
   for (const [position, part] of DEMO_STORY.entries()) {
     const block = await models.Block.create({
       investigationId: investigation.id, kind: part.kind, position,
@@ -48,17 +63,34 @@ async function seedStory(newsroomId: string, reporterId: string, datasetId: stri
       createdBy: reporterId, updatedBy: reporterId,
     })
     if (block.kind === 'analysis') await runAnalysis(block, newsroomId)
+    blocks.push(block)
   }
+  const reporter = actorOf(people, reporterId, 'reporter')
+  const editor = actorOf(people, people.editorId, 'data-editor')
+  const checker = actorOf(people, people.checkerId, 'fact-checker')
+  for (const [index, decision] of [[1, 'approved'], [3, 'approved'], [5, 'changes-requested']] as const) {
+    await decideReview(editor, blocks[index]!, investigation, decision, decision === 'approved' ? undefined : 'Give the band width in the text and show how many payments fall just over the limit, not only under it.')
+  }
+  const claimIn = (id: string) => blocks.find(b => b.kind === 'prose' && JSON.stringify(b.content).includes(id))!
+  for (const claim of Object.values(DEMO_CLAIMS)) {
+    await createClaim(reporter, investigation, { id: claim.id, blockId: claimIn(claim.id).id, supportingBlockIds: claim.cites.map(i => blocks[i]!.id) })
+  }
+  const { claim: verified } = await findClaim(DEMO_CLAIMS.verified.id)
+  await verifyClaim(checker, verified)
+  const { claim: disputed } = await findClaim(DEMO_CLAIMS.disputed.id)
+  await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
+  const published = await publish(editor, investigation, { reason: 'Demo newsroom: published with checks still open, to show the public page.' })
+  return published.url
 }
 
 /**
  * Seeds the invented demo newsroom when the database holds no newsroom yet: its people, the
- * payments ledger with its planted anomaly, and a draft investigation with results computed.
+ * payments ledger with its planted anomaly, and an investigation in review with a published
+ * version. Answers the public link, or null when the database was not empty.
  */
-export async function seedDemoIfEmpty(): Promise<boolean> {
+export async function seedDemoIfEmpty(): Promise<string | null> {
   const people = await seedPeople()
-  if (!people) return false
+  if (!people) return null
   const datasetId = await seedLedger(people.newsroomId, people.reporterId)
-  await seedStory(people.newsroomId, people.reporterId, datasetId)
-  return true
+  return seedStory(people, datasetId)
 }
