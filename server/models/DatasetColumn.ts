@@ -1,5 +1,6 @@
 import { Model, DataTypes } from 'sequelize'
-import type { InferAttributes, InferCreationAttributes, Sequelize } from 'sequelize'
+import type { CreationOptional, InferAttributes, InferCreationAttributes, Sequelize } from 'sequelize'
+import type { ColumnProfile as SuitabilityProfile } from '#shared/digits'
 
 export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCreationAttributes<DatasetColumn>> {
   declare datasetId: string
@@ -16,6 +17,8 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
   declare max: string | null
   declare magnitudeSpan: number | null
   declare samples: string[]
+  /** Per sign, the suitability facts of the whole column (null for text columns). */
+  declare profiles: CreationOptional<Record<'positive' | 'negative', SuitabilityProfile | null> | null>
 
   static setup(sequelize: Sequelize) {
     DatasetColumn.init({
@@ -33,6 +36,7 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
       max: DataTypes.DECIMAL,
       magnitudeSpan: DataTypes.REAL,
       samples: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
+      profiles: { type: DataTypes.JSONB, allowNull: true },
     }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })
   }
 }

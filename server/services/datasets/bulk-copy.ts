@@ -4,7 +4,6 @@ import type { PoolClient } from 'pg'
 import { from as copyFrom } from 'pg-copy-streams'
 import type { DigitRecord } from '#shared/digits'
 
-const FLUSH_AT = 1 << 20
 export const STATUS_CODES = { blank: 0, unreadable: 1, zero: 2, number: 3 } as const
 
 function quoted(text: string) {
@@ -29,12 +28,12 @@ export class CopyWriter {
     this.stream = client.query(copyFrom(`COPY ${table} (${columns.join(', ')}) FROM STDIN WITH (FORMAT csv)`))
   }
 
-  async line(text: string) {
+  /** Adds a line to the buffer; `flush()` sends it. */
+  add(text: string) {
     this.buffer += text
-    if (this.buffer.length >= FLUSH_AT) await this.flush()
   }
 
-  private async flush() {
+  async flush() {
     if (!this.buffer) return
     const ok = this.stream.write(this.buffer)
     this.buffer = ''

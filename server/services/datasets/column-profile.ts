@@ -1,4 +1,5 @@
 import type { DigitRecord } from '#shared/digits'
+import { SignProfile } from './sign-profile'
 
 export const COLUMN_KINDS = ['amount', 'count', 'date', 'text', 'identifier'] as const
 export type ColumnKind = typeof COLUMN_KINDS[number]
@@ -26,6 +27,7 @@ export class ColumnProfile {
   textOnly = 0
   readonly lengths = new Map<number, number>()
   readonly samples: string[] = []
+  readonly bySign = { positive: new SignProfile(), negative: new SignProfile() }
 
   constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null) {}
 
@@ -63,6 +65,7 @@ export class ColumnProfile {
       this.track(0, '0')
       return
     }
+    this.bySign[record.sign < 0 ? 'negative' : 'positive'].add(record)
     if (record.sign < 0) this.negative++
     if (record.fractionDigits === 0) this.whole++
     this.lengths.set(record.integerDigits, (this.lengths.get(record.integerDigits) ?? 0) + 1)

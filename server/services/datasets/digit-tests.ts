@@ -38,20 +38,42 @@ async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Groupe
 
 const ofSign = (sign: SignFilter) => `d.status = ${NUMBER} AND d.sign = ${signCode(sign)}`
 
-async function distributionCounts(test: DistributionTest, query: DigitQuery, sign: SignFilter, grouped: boolean) {
+/** Status counts and digit counts in one scan: GROUP BY [group,] status, sign, digit field. */
+async function statusAndDistribution(test: DistributionTest, query: DigitQuery, sign: SignFilter, grouped: boolean): Promise<Grouped<DistributionCounts>> {
   const field = `d.${SNAKE[DISTRIBUTIONS[test].field]}`
-  const rows = await selectRows<{ grp?: string, key: number | null, count: number, cos: number | null, sin: number | null }>(query, {
-    select: `${field} AS key, count(*)::int AS count, sum(cos(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS cos, sum(sin(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS sin`,
-    extra: ofSign(sign), groupBy: field, grouped,
+  const rows = await selectRows<{ grp?: string, status: number, sign: number, key: number | null, count: number, cos: number | null, sin: number | null }>(query, {
+    select: `d.status, d.sign, ${field} AS key, count(*)::int AS count, sum(cos(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS cos, sum(sin(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS sin`,
+    groupBy: `d.status, d.sign, ${field}`, grouped,
   })
-  const byGroup: Grouped<Omit<DistributionCounts, 'status'> & { arc: { cos: number, sin: number } }> = new Map()
+  const wanted = signCode(sign)
+  const byGroup: Grouped<DistributionCounts & { arc: { cos: number, sin: number } }> = new Map()
   for (const row of rows) {
-    const entry = bucketOf(byGroup, row.grp ?? null, () => ({ keys: [], arc: { cos: 0, sin: 0 } }))
+    const entry = bucketOf(byGroup, row.grp ?? null, () => ({ status: emptyStatus(), keys: [], arc: { cos: 0, sin: 0 } }))
+    if (row.status !== NUMBER) {
+      entry.status[STATUS_NAMES[row.status]!] += row.count
+      continue
+    }
+    entry.status[row.sign > 0 ? 'positive' : 'negative'] += row.count
+    if (row.sign !== wanted) continue
     entry.keys.push({ key: row.key, count: row.count })
     entry.arc.cos += Number(row.cos ?? 0)
     entry.arc.sin += Number(row.sin ?? 0)
   }
   return byGroup
+}
+
+/** The whole column's counts as the sum of its groups' counts. */
+function mergeGroups(groups: Grouped<DistributionCounts>): DistributionCounts {
+  const status = emptyStatus()
+  const keys = new Map<number | string | null, number>()
+  const arc = { cos: 0, sin: 0 }
+  for (const group of groups.values()) {
+    for (const name of Object.keys(status) as (keyof StatusCounts)[]) status[name] += group.status[name]
+    for (const { key, count } of group.keys) keys.set(key, (keys.get(key) ?? 0) + count)
+    arc.cos += group.arc?.cos ?? 0
+    arc.sin += group.arc?.sin ?? 0
+  }
+  return { status, keys: [...keys].map(([key, count]) => ({ key, count })), arc }
 }
 
 async function summationCounts(query: DigitQuery, sign: SignFilter, grouped: boolean) {
@@ -93,7 +115,18 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
   return { buckets }
 }
 
-/** The column facts the suitability check reads, in one pass (see ColumnProfile in the engine). */
+/**
+ * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
+ * for a whole column, counted here when filters narrow the rows.
+ */
+async function profileOf(datasetId: string, position: number, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
+  if (!filtered) {
+    const column = await useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles'] })
+    if (column?.profiles) return column.profiles[sign]
+  }
+  return profileCounts(query, sign)
+}
+
 async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<CountedProfile | null> {
   const [row] = await rawSelect<CountedProfile>(`
     WITH v AS MATERIALIZED (SELECT abs(d.value) AS a, d.value, d.integer_digits, d.fraction_digits, d.trailing_zeros FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)})
@@ -115,7 +148,7 @@ async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, g
   if (test === 'duplicates') return new Map([[null, await duplicateCounts(query, sign)]])
   if (test === 'round-numbers') return new Map([[null, await roundCounts(query, sign)]])
   if (test === 'threshold') return new Map([[null, await thresholdCounts(query, sign, threshold!)]])
-  return distributionCounts(test, query, sign, grouped)
+  return statusAndDistribution(test, query, sign, grouped)
 }
 
 /**
@@ -130,26 +163,34 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: 'Groups can be ranked for the digit tests and the summation test only.' }])
   const sign = body.sign ?? 'positive'
   const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
+  const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
+  const profile = profileOf(dataset.id, tested.position, whole, sign, Boolean(body.filters?.length))
 
-  const [status, counts, profile] = await Promise.all([
-    statusCounts(whole, false),
-    testCounts(body.test, whole, sign, false, body.threshold),
-    profileCounts(whole, sign),
-  ])
-  const input = { counts: { status: status.get(null) ?? emptyStatus(), ...counts.get(null) } as TestCountsMap[TestName], profile }
-  let groups: Parameters<typeof runDigitTest>[0]['groups']
-  if (body.groupBy) {
-    const query = buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy)
-    const [groupStatus, groupCounts] = await Promise.all([statusCounts(query, true), testCounts(body.test, query, sign, true)])
-    groups = {
-      // Groups are ranked by excess MAD, which already allows for size; only hopeless groups are skipped.
-      minSize: MINIMUM_VALUES[body.test]?.stop,
-      items: [...groupStatus].map(([key, s]) => ({
-        key: key ?? '',
-        input: { counts: { status: s, ...(groupCounts.get(key) ?? { keys: [], arc: { cos: 0, sin: 0 } }) } as TestCountsMap[TestName] },
-      })),
+  let counts: TestCountsMap[TestName]
+  let groupCounts: Grouped<{ status: StatusCounts }> | null = null
+  if (body.test in DISTRIBUTIONS) {
+    // One scan answers both the status and the digit counts; with groups, the whole is their sum.
+    const test = body.test as DistributionTest
+    const scanned = await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping))
+    counts = grouping ? mergeGroups(scanned) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
+    groupCounts = grouping ? scanned : null
+  }
+  else {
+    const [status, byTest] = await Promise.all([statusCounts(whole, false), testCounts(body.test, whole, sign, false, body.threshold)])
+    counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]
+    if (grouping) {
+      const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), testCounts(body.test, grouping, sign, true)])
+      groupCounts = new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }]))
     }
   }
+  const input = { counts, profile: await profile }
+  const groups: Parameters<typeof runDigitTest>[0]['groups'] = groupCounts
+    ? {
+        // Groups are ranked by excess MAD, which already allows for size; only hopeless groups are skipped.
+        minSize: MINIMUM_VALUES[body.test]?.stop,
+        items: [...groupCounts].map(([key, group]) => ({ key: key ?? '', input: { counts: group as TestCountsMap[TestName] } })),
+      }
+    : undefined
   try {
     return runDigitTest({ test: body.test, input, column: tested.name, sign, threshold: body.threshold ? { limit: body.threshold } : undefined, groups })
   }

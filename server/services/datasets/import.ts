@@ -92,12 +92,13 @@ export async function importDataset(datasetId: string): Promise<void> {
     let ragged = 0
     let lastProgress = Date.now()
 
-    const write = async (raw: string[]) => {
+    // Synchronous per row; the writers are flushed once per batch of rows.
+    const write = (raw: string[]) => {
       const width = header!.length
       if (raw.length !== width) ragged++
       const cells = raw.length === width ? raw : Array.from({ length: width }, (_, i) => raw[i] ?? '')
       rowNo++
-      await rowsOut.line(rowLine(datasetId, rowNo, cells))
+      rowsOut.add(rowLine(datasetId, rowNo, cells))
       for (let c = 0; c < width; c++) {
         const column = plan![c]!
         const cell = cells[c]!
@@ -107,8 +108,11 @@ export async function importDataset(datasetId: string): Promise<void> {
         }
         const record = recordOf(readNumber(cell, column.style))
         column.profile.addNumber(cell, record)
-        await digitsOut.line(digitLine(datasetId, c, rowNo, record))
+        digitsOut.add(digitLine(datasetId, c, rowNo, record))
       }
+    }
+    const afterBatch = async () => {
+      await Promise.all([rowsOut.flush(), digitsOut.flush()])
       if (Date.now() - lastProgress > PROGRESS_EVERY_MS) {
         lastProgress = Date.now()
         await models.Dataset.update({ progress: Math.min(0.99, source.bytesRead() / Number(dataset.byteSize)) }, { where: { id: datasetId } })
@@ -116,26 +120,30 @@ export async function importDataset(datasetId: string): Promise<void> {
     }
 
     try {
-      for await (const raw of source.rows) {
-        if (!header) {
-          if (raw.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${raw.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
-          header = headerNames(raw)
-          named = raw.some(cell => cell.trim())
-          continue
+      for await (const batch of source.rows) {
+        for (const raw of batch) {
+          if (!header) {
+            if (raw.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${raw.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
+            header = headerNames(raw)
+            named = raw.some(cell => cell.trim())
+            continue
+          }
+          if (!plan) {
+            sample.push(raw)
+            if (sample.length < SAMPLE_ROWS) continue
+            plan = planColumns(header, sample)
+            for (const row of sample.splice(0)) write(row)
+            continue
+          }
+          write(raw)
         }
-        if (!plan) {
-          sample.push(raw)
-          if (sample.length < SAMPLE_ROWS) continue
-          plan = planColumns(header, sample)
-          for (const row of sample.splice(0)) await write(row)
-          continue
-        }
-        await write(raw)
+        await afterBatch()
       }
       if (!header) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
       if (!plan) {
         plan = planColumns(header, sample)
-        for (const row of sample.splice(0)) await write(row)
+        for (const row of sample.splice(0)) write(row)
+        await afterBatch()
       }
       // A header of no names over cells that are all blank (or JSON records without keys) gives nothing to test.
       if (!named && plan.every(({ profile }) => profile.blank === rowNo)) throw new UnreadableFile('No readable columns: the file has no column names and no values.')
@@ -150,6 +158,11 @@ export async function importDataset(datasetId: string): Promise<void> {
     }
 
     const columns = plan!
+    // The most frequent value per column and sign needs every distinct value: counted once here.
+    const tops = await db.digits.query<{ column_pos: number, sign: number, top: number }>(
+      `SELECT column_pos, sign, max(c)::int AS top FROM (SELECT column_pos, sign, count(*) AS c FROM ${names.digits} WHERE status = 3 GROUP BY column_pos, sign, value) t GROUP BY 1, 2`,
+    )
+    const topOf = (position: number, sign: number) => tops.rows.find(r => r.column_pos === position && r.sign === sign)?.top ?? 0
     await sequelize.transaction(async (transaction) => {
       // The CHECK lets ATTACH skip its validation scan; the indexes serve drill-down and counting.
       await sequelize.query(`
@@ -176,6 +189,9 @@ export async function importDataset(datasetId: string): Promise<void> {
         max: profile.max?.text ?? null,
         magnitudeSpan: profile.magnitudeSpan,
         samples: profile.samples,
+        profiles: profile.numeric
+          ? { positive: profile.bySign.positive.toProfile(topOf(position, 1)), negative: profile.bySign.negative.toProfile(topOf(position, -1)) }
+          : null,
       })), { transaction })
       await dataset.update({
         status: 'ready', progress: 1, rowCount: rowNo, raggedRows: ragged + source.meta.extraFields,

@@ -8,9 +8,9 @@ import { decimalText, readNumber } from '#shared/digits'
 import { UnreadableFile } from './sniff'
 import type { DatasetFormat, TextEncoding } from './sniff'
 
-/** Rows of a file as text cells, header first; streams, never holds the file. */
+/** Rows of a file as text cells, header first, in batches; streams, never holds the file. */
 export interface RowSource {
-  rows: AsyncIterable<string[]>
+  rows: AsyncIterable<string[][]>
   /** Known once the first rows were read. */
   meta: { delimiter: string | null, extraFields: number }
   /** How far into the file reading has come. */
@@ -78,7 +78,7 @@ async function* delimitedRows(input: Readable, format: 'csv' | 'tsv', meta: RowS
         paused = false
         ;(parser as Papa.Parser | null)?.resume()
       }
-      yield* batch
+      yield batch
       continue
     }
     if (failure) throw failure
@@ -178,13 +178,28 @@ async function* jsonRows(input: Readable, meta: RowSource['meta']) {
   if (!header) yield* start()
 }
 
+const BATCH = 1000
+
+/** Groups rows so that the import awaits once per batch, not once per row. */
+async function* inBatches(rows: AsyncIterable<string[]>): AsyncIterable<string[][]> {
+  let batch: string[][] = []
+  for await (const row of rows) {
+    batch.push(row)
+    if (batch.length === BATCH) {
+      yield batch
+      batch = []
+    }
+  }
+  if (batch.length) yield batch
+}
+
 /** Opens a stored file as rows of text cells, whatever its format. */
 export function openRows(format: DatasetFormat, path: string, encoding: TextEncoding, bomLength: number): RowSource {
   const meta: RowSource['meta'] = { delimiter: null, extraFields: 0 }
   const file = createReadStream(path, { start: format === 'xlsx' ? 0 : bomLength, highWaterMark: 1 << 20 })
   const text = () => file.pipe(decoding(encoding))
   const rows = format === 'xlsx'
-    ? workbookRows(file)
-    : format === 'json' ? jsonRows(text(), meta) : delimitedRows(text(), format, meta)
+    ? inBatches(workbookRows(file))
+    : format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)
   return { rows, meta, bytesRead: () => file.bytesRead }
 }
