@@ -17,6 +17,8 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
   declare max: string | null
   declare magnitudeSpan: number | null
   declare samples: string[]
+  /** Whether digit records carry this text column as group codes (see group-codes.ts). */
+  declare coded: CreationOptional<boolean>
   /** Per sign, the suitability facts of the whole column (null for text columns). */
   declare profiles: CreationOptional<Record<'positive' | 'negative', SuitabilityProfile | null> | null>
 
@@ -37,6 +39,7 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
       magnitudeSpan: DataTypes.REAL,
       samples: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
       profiles: { type: DataTypes.JSONB, allowNull: true },
+      coded: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })
   }
 }

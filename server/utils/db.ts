@@ -22,6 +22,9 @@ export function useDb(): Db {
     dialect: 'postgres',
     dialectModule: pg,
     logging: false,
+    // Digit counts are short aggregations whose row estimates across partitions run wild; JIT
+    // compilation then costs more than the query (measured: 2.5 s of 5.6 s on a million rows).
+    dialectOptions: { options: '-c jit=off' },
     pool: { max: 20, min: 0, idle: 10_000, acquire: 30_000 },
   })
   models.setupModels(sequelize)

@@ -16,6 +16,8 @@ export interface ColumnDTO {
   max: string | null
   magnitudeSpan: number | null
   samples: string[]
+  /** A text column whose values the digit records carry as codes, so grouping by it is fast. */
+  coded: boolean
 }
 
 export interface DatasetSummaryDTO {

@@ -61,13 +61,15 @@ export class CopyWriter {
 export const ROW_COLUMNS = ['dataset_id', 'row_no', 'cells']
 export const DIGIT_COLUMNS = [
   'dataset_id', 'column_pos', 'row_no', 'status', 'sign', 'value', 'first_digit', 'second_digit', 'first_two',
-  'first_three', 'last_two', 'integer_digits', 'trailing_zeros', 'fraction_digits', 'mantissa',
+  'first_three', 'last_two', 'integer_digits', 'trailing_zeros', 'fraction_digits', 'mantissa', 'group_codes',
 ]
+export const GROUP_VALUE_COLUMNS = ['dataset_id', 'column_pos', 'code', 'value']
 
 export function rowLine(datasetId: string, rowNo: number, cells: readonly string[]) {
   return `${datasetId},${rowNo},${quoted(arrayLiteral(cells))}\n`
 }
 
-export function digitLine(datasetId: string, columnPos: number, rowNo: number, r: DigitRecord) {
-  return `${datasetId},${columnPos},${rowNo},${STATUS_CODES[r.status]},${r.sign},${field(r.value)},${field(r.firstDigit)},${field(r.secondDigit)},${field(r.firstTwo)},${field(r.firstThree)},${field(r.lastTwo)},${r.integerDigits},${r.trailingZeros},${r.fractionDigits},${field(r.mantissa)}\n`
+/** `groupCodes` is the row's text columns as an int[] literal (GroupCodes.literal). */
+export function digitLine(datasetId: string, columnPos: number, rowNo: number, r: DigitRecord, groupCodes: string) {
+  return `${datasetId},${columnPos},${rowNo},${STATUS_CODES[r.status]},${r.sign},${field(r.value)},${field(r.firstDigit)},${field(r.secondDigit)},${field(r.firstTwo)},${field(r.firstThree)},${field(r.lastTwo)},${r.integerDigits},${r.trailingZeros},${r.fractionDigits},${field(r.mantissa)},${groupCodes}\n`
 }

@@ -16,7 +16,7 @@ function columnDTO(column: DatasetColumn): ColumnDTO {
     name: column.name, position: column.position, kind: column.kind as ColumnKind, numeric,
     parsed: numeric ? column.parsed : null, blank: column.blank, unreadable: numeric ? column.unreadable : null,
     zero: numeric ? column.zero : null, negative: numeric ? column.negative : null,
-    min: column.min, max: column.max, magnitudeSpan: column.magnitudeSpan, samples: column.samples,
+    min: column.min, max: column.max, magnitudeSpan: column.magnitudeSpan, samples: column.samples, coded: column.coded,
   }
 }
 

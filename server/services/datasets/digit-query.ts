@@ -12,7 +12,16 @@ export interface DigitQuery {
   from: string
   where: string
   group: string | null
+  /** SQL that is true when the group equals the bound `:group` text. */
+  groupEquals: string | null
+  /** Set when `group` yields codes that must be turned back into the column's text. */
+  groupCodesOf: number | null
   replacements: Record<string, unknown>
+}
+
+/** The code of a text in a coded column, or NULL: compares one integer per record instead of joining the rows. */
+function codeOf(position: number, parameter: string) {
+  return `(SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = ${position} AND value = :${parameter})`
 }
 
 export function columnByName(columns: ColumnDTO[], name: string, path: string): ColumnDTO {
@@ -35,6 +44,11 @@ export function buildDigitQuery(
   filters.forEach((filter, i) => {
     const column = columnByName(columns, filter.column, `filters.${i}.column`)
     if (filter.op === 'equals') {
+      if (column.coded) {
+        conditions.push(`d.group_codes[${column.position + 1}] = ${codeOf(column.position, `filter${i}`)}`)
+        replacements[`filter${i}`] = filter.value.trim()
+        return
+      }
       needsRows = true
       conditions.push(`btrim(r.cells[${column.position + 1}]) = btrim(:filter${i})`)
       replacements[`filter${i}`] = filter.value
@@ -56,13 +70,34 @@ export function buildDigitQuery(
     }
   })
   let group: string | null = null
+  let groupEquals: string | null = null
+  let groupCodesOf: number | null = null
   if (groupBy) {
     const column = columnByName(columns, groupBy, 'groupBy')
-    needsRows = true
-    group = `btrim(r.cells[${column.position + 1}])`
+    if (column.coded) {
+      group = `d.group_codes[${column.position + 1}]`
+      groupEquals = `${group} = ${codeOf(column.position, 'group')}`
+      groupCodesOf = column.position
+    }
+    else {
+      needsRows = true
+      group = `btrim(r.cells[${column.position + 1}])`
+      groupEquals = `${group} = btrim(:group)`
+    }
   }
   if (needsRows) joins.unshift('JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = d.row_no')
-  return { from: `digit_records d ${joins.join(' ')}`, where: conditions.join(' AND '), group, replacements }
+  return { from: `digit_records d ${joins.join(' ')}`, where: conditions.join(' AND '), group, groupEquals, groupCodesOf, replacements }
+}
+
+/** Turns group codes back into the column's text, keeping every group's counts. */
+export async function decodeGroups<T>(query: DigitQuery, groups: Map<string | null, T>): Promise<Map<string | null, T>> {
+  if (query.groupCodesOf === null) return groups
+  const names = await rawSelect<{ code: number, value: string }>(
+    'SELECT code, value FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
+    { datasetId: query.replacements.datasetId, position: query.groupCodesOf },
+  )
+  const byCode = new Map(names.map(n => [String(n.code), n.value]))
+  return new Map([...groups].map(([code, value]) => [code === null ? null : byCode.get(String(code)) ?? '', value]))
 }
 
 /** Runs a SELECT over the query's rows; `extra` adds conditions, `select` and `groupBy` the rest. */

@@ -6,7 +6,7 @@ import type {
 import type { DigitTestRequestBody } from '#shared/schemas/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { buildDigitQuery, columnByName, rawSelect, selectRows, signCode } from './digit-query'
+import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows, signCode } from './digit-query'
 import type { DigitQuery } from './digit-query'
 
 const SNAKE: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
@@ -183,6 +183,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
       groupCounts = new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }]))
     }
   }
+  if (grouping && groupCounts) groupCounts = await decodeGroups(grouping, groupCounts)
   const input = { counts, profile: await profile }
   const groups: Parameters<typeof runDigitTest>[0]['groups'] = groupCounts
     ? {

@@ -3,7 +3,8 @@ import type { PoolClient } from 'pg'
 import { detectNumberStyle, recordOf, readNumber } from '#shared/digits'
 import type { NumberStyle } from '#shared/digits'
 import { ColumnProfile } from './column-profile'
-import { CopyWriter, DIGIT_COLUMNS, ROW_COLUMNS, digitLine, rowLine } from './bulk-copy'
+import { CopyWriter, DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS, digitLine, rowLine } from './bulk-copy'
+import { GroupCodes } from './group-codes'
 import { openRows } from './readers'
 import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat } from './sniff'
@@ -59,6 +60,11 @@ async function withConnections<T>(work: (c: Connections) => Promise<T>): Promise
   }
 }
 
+/** Drops an import's standalone tables: nothing of a failed import stays behind. */
+async function dropStaging(client: PoolClient, names: ReturnType<typeof partitionNames>) {
+  await client.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits}; DROP TABLE IF EXISTS ${names.groupValues};`).catch(() => {})
+}
+
 /**
  * Reads a stored upload into standalone tables, then attaches them as the dataset's partitions
  * in one transaction with its columns and its "ready" status: a reader sees all of it or nothing.
@@ -87,6 +93,7 @@ export async function importDataset(datasetId: string): Promise<void> {
     let header: string[] | null = null
     let named = false
     let plan: ReturnType<typeof planColumns> | null = null
+    let groupCodes: GroupCodes | null = null
     const sample: string[][] = []
     let rowNo = 0
     let ragged = 0
@@ -99,6 +106,7 @@ export async function importDataset(datasetId: string): Promise<void> {
       const cells = raw.length === width ? raw : Array.from({ length: width }, (_, i) => raw[i] ?? '')
       rowNo++
       rowsOut.add(rowLine(datasetId, rowNo, cells))
+      const codes = groupCodes!.literal(cells)
       for (let c = 0; c < width; c++) {
         const column = plan![c]!
         const cell = cells[c]!
@@ -108,7 +116,7 @@ export async function importDataset(datasetId: string): Promise<void> {
         }
         const record = recordOf(readNumber(cell, column.style))
         column.profile.addNumber(cell, record)
-        digitsOut.add(digitLine(datasetId, c, rowNo, record))
+        digitsOut.add(digitLine(datasetId, c, rowNo, record, codes))
       }
     }
     const afterBatch = async () => {
@@ -132,6 +140,7 @@ export async function importDataset(datasetId: string): Promise<void> {
             sample.push(raw)
             if (sample.length < SAMPLE_ROWS) continue
             plan = planColumns(header, sample)
+            groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric))
             for (const row of sample.splice(0)) write(row)
             continue
           }
@@ -142,6 +151,7 @@ export async function importDataset(datasetId: string): Promise<void> {
       if (!header) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
       if (!plan) {
         plan = planColumns(header, sample)
+        groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric))
         for (const row of sample.splice(0)) write(row)
         await afterBatch()
       }
@@ -153,16 +163,30 @@ export async function importDataset(datasetId: string): Promise<void> {
     }
     catch (error) {
       await Promise.all([rowsOut.abort(), digitsOut.abort()])
-      await db.rows.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};`).catch(() => {})
+      await dropStaging(db.rows, names)
       throw error
     }
 
-    const columns = plan!
+    try {
+      await finish(db, plan!, groupCodes!, rowNo, ragged, source.meta, encoding)
+    }
+    catch (error) {
+      await dropStaging(db.rows, names)
+      throw error
+    }
+  })
+
+  async function finish(db: Connections, columns: NonNullable<ReturnType<typeof planColumns>>, groupCodes: GroupCodes, rowNo: number, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
     // The most frequent value per column and sign needs every distinct value: counted once here.
     const tops = await db.digits.query<{ column_pos: number, sign: number, top: number }>(
       `SELECT column_pos, sign, max(c)::int AS top FROM (SELECT column_pos, sign, count(*) AS c FROM ${names.digits} WHERE status = 3 GROUP BY column_pos, sign, value) t GROUP BY 1, 2`,
     )
     const topOf = (position: number, sign: number) => tops.rows.find(r => r.column_pos === position && r.sign === sign)?.top ?? 0
+    await db.rows.query(`DROP TABLE IF EXISTS ${names.groupValues}; CREATE TABLE ${names.groupValues} (LIKE dataset_group_values)`)
+    const dictionary = new CopyWriter(db.rows, names.groupValues, GROUP_VALUE_COLUMNS)
+    for (const line of groupCodes.dictionaryLines(datasetId)) dictionary.add(line)
+    await dictionary.end()
+    const ready = dataset!
     await sequelize.transaction(async (transaction) => {
       // The CHECK lets ATTACH skip its validation scan; the indexes serve drill-down and counting.
       await sequelize.query(`
@@ -173,6 +197,8 @@ export async function importDataset(datasetId: string): Promise<void> {
         ALTER TABLE dataset_rows ATTACH PARTITION ${names.rows} FOR VALUES IN ('${datasetId}');
         ALTER TABLE digit_records ATTACH PARTITION ${names.digits} FOR VALUES IN ('${datasetId}');
         ANALYZE ${names.rows}; ANALYZE ${names.digits};
+        INSERT INTO dataset_group_values SELECT * FROM ${names.groupValues};
+        DROP TABLE ${names.groupValues};
       `, { transaction })
       await models.DatasetColumn.bulkCreate(columns.map(({ profile }, position) => ({
         datasetId,
@@ -189,19 +215,20 @@ export async function importDataset(datasetId: string): Promise<void> {
         max: profile.max?.text ?? null,
         magnitudeSpan: profile.magnitudeSpan,
         samples: profile.samples,
+        coded: groupCodes.isCoded(position),
         profiles: profile.numeric
           ? { positive: profile.bySign.positive.toProfile(topOf(position, 1)), negative: profile.bySign.negative.toProfile(topOf(position, -1)) }
           : null,
       })), { transaction })
-      await dataset.update({
-        status: 'ready', progress: 1, rowCount: rowNo, raggedRows: ragged + source.meta.extraFields,
-        encoding, delimiter: source.meta.delimiter, readyAt: new Date(),
+      await ready.update({
+        status: 'ready', progress: 1, rowCount: rowNo, raggedRows: ragged + meta.extraFields,
+        encoding, delimiter: meta.delimiter, readyAt: new Date(),
       }, { transaction })
       await recordAudit({
-        newsroomId: dataset.newsroomId, actorId: dataset.createdBy, action: 'dataset.imported',
+        newsroomId: ready.newsroomId, actorId: ready.createdBy, action: 'dataset.imported',
         subjectType: 'dataset', subjectId: datasetId,
-        detail: { title: dataset.title, sha256: dataset.sha256, rows: rowNo, columns: columns.length, ragged },
+        detail: { title: ready.title, sha256: ready.sha256, rows: rowNo, columns: columns.length, ragged },
       }, transaction)
     })
-  })
+  }
 }

@@ -78,9 +78,9 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   const bin = binCondition(request.test, request.key, request.threshold)
   let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
   const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
-  if (query.group && request.group !== undefined) {
-    where += ` AND ${query.group} = btrim(:group)`
-    replacements.group = request.group
+  if (query.groupEquals && request.group !== undefined) {
+    where += ` AND ${query.groupEquals}`
+    replacements.group = query.groupCodesOf === null ? request.group : request.group.trim()
   }
   const from = query.from.includes('dataset_rows r') ? query.from : `${query.from} JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = d.row_no`
   const [items, [total]] = await Promise.all([
