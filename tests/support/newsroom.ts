@@ -52,12 +52,17 @@ export async function createTestNewsroom(label = 'Test desk'): Promise<TestNewsr
   return newsroom
 }
 
-/** Invites `email` with `role` as the newsroom's admin and joins through the e-mailed link. */
-export async function inviteMember(admin: Client, newsroomId: string, email: string, role: Role, name: string): Promise<Client> {
+/** Invites `email` with `role` as the newsroom's admin: the invitation's id and the token its e-mailed link carries. */
+export async function invite(admin: Client, newsroomId: string, email: string, role: Role): Promise<{ id: string, token: string }> {
   const invited = await admin.post(`/api/newsrooms/${newsroomId}/invitations`, { email, role })
   if (invited.status !== 201) throw new Error(`invitation answered ${invited.status}`)
   const mail = await waitForMail(email, 'invites you')
-  return join(linkIn(mail.text, '/join/').split('/join/')[1]!, name)
+  return { id: invited.body.id, token: linkIn(mail.text, '/join/').split('/join/')[1]! }
+}
+
+/** Invites `email` with `role` as the newsroom's admin and joins through the e-mailed link. */
+export async function inviteMember(admin: Client, newsroomId: string, email: string, role: Role, name: string): Promise<Client> {
+  return join((await invite(admin, newsroomId, email, role)).token, name)
 }
 
 export { signedIn }

@@ -51,12 +51,20 @@ export interface RoleCase {
   effect: (reply: Reply, story: Story, desk: Desk) => void | Promise<void>
 }
 
-/** DESIGN.md "Who does what": allowed roles succeed, other members 403, other newsrooms 404 (as if missing), no session 401. */
-export function expectedStatus(who: Who, row: RoleCase): number {
-  if (row.allowed.includes(who)) return row.success
+/**
+ * How a refused caller is answered (DESIGN.md, rules the server enforces): another newsroom's
+ * things answer 404 as if missing, no session 401, a member whose role does not allow it 403.
+ * A public-link visitor holds no session, so is answered as anonymous.
+ */
+export function refusalFor(who: Who | 'visitor'): 401 | 403 | 404 {
   if (who === 'outsider') return 404
-  if (who === 'anonymous') return 401
+  if (who === 'anonymous' || who === 'visitor') return 401
   return 403
+}
+
+/** DESIGN.md "Who does what": allowed roles succeed, everyone else gets their refusal. */
+export function expectedStatus(who: Who, row: RoleCase): number {
+  return row.allowed.includes(who) ? row.success : refusalFor(who)
 }
 
 /** `[label, row, who]` for every row and every caller, for `it.each`. */
