@@ -19,6 +19,8 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
   declare samples: string[]
   /** Whether digit records carry this text column as group codes (see group-codes.ts). */
   declare coded: CreationOptional<boolean>
+  /** Text column positions (-1: none) whose digit counts were kept at import (digit-cube.ts); null: scan. */
+  declare cubeGroups: CreationOptional<number[] | null>
   /** Per sign, the suitability facts of the whole column (null for text columns). */
   declare profiles: CreationOptional<Record<'positive' | 'negative', SuitabilityProfile | null> | null>
 
@@ -40,6 +42,7 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
       samples: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
       profiles: { type: DataTypes.JSONB, allowNull: true },
       coded: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      cubeGroups: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
     }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })
   }
 }

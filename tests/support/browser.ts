@@ -16,9 +16,18 @@ export function launchBrowser(): Promise<Browser> {
 /** Signs in through the page, as a person would. */
 export async function signInThroughPage(page: Page, email: string, password: string) {
   await page.goto(`${baseUrl}/login`)
+  await waitForApp(page)
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
+}
+
+/**
+ * Waits until Vue has taken over the server-rendered page: a click before that reaches no handler
+ * (on a loaded machine the sign-in button was pressed before it could do anything).
+ */
+export async function waitForApp(page: Page) {
+  await page.waitForFunction(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))
 }
 
 export async function screenshot(page: Page, name: string) {

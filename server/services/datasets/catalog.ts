@@ -1,6 +1,6 @@
 import type { ColumnDTO, ColumnKind, DatasetDTO, DatasetSummaryDTO } from '#shared/types/dataset'
 import type { Dataset, DatasetColumn } from '../../models'
-import { partitionNames } from './partitions'
+import { dropPartitionsSql } from './partitions'
 
 function summary(dataset: Dataset, creator: string): DatasetSummaryDTO {
   return {
@@ -68,9 +68,8 @@ export async function deleteDataset(actor: Actor, dataset: Dataset) {
   const used = await models.Block.count({ where: { kind: 'analysis', deletedAt: null, settings: { datasetId: dataset.id } } })
   if (used > 0) throw fail(409, { message: 'An investigation uses this dataset, so it cannot be deleted. Archive it instead.' })
   if (dataset.status === 'importing') throw fail(409, { message: 'This dataset is still importing. Wait until it is ready or failed.' })
-  const names = partitionNames(dataset.id)
   await sequelize.transaction(async (transaction) => {
-    await sequelize.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};`, { transaction })
+    await sequelize.query(dropPartitionsSql(dataset.id), { transaction })
     await models.Dataset.update({ replacesId: null }, { where: { replacesId: dataset.id }, transaction })
     await dataset.destroy({ transaction })
     await recordAudit({ newsroomId: actor.newsroomId, actorId: actor.userId, action: 'dataset.deleted', subjectType: 'dataset', subjectId: dataset.id, detail: { title: dataset.title, sha256: dataset.sha256 } }, transaction)

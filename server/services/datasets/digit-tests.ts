@@ -6,6 +6,7 @@ import type {
 import type { DigitTestRequestBody } from '#shared/schemas/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
+import { cubeSlices, countsFromCube } from './digit-cube'
 import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows, signCode } from './digit-query'
 import type { DigitQuery } from './digit-query'
 
@@ -115,16 +116,29 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
   return { buckets }
 }
 
+/** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
+function storedColumn(datasetId: string, position: number) {
+  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups'] })
+}
+
 /**
  * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
  * for a whole column, counted here when filters narrow the rows.
  */
-async function profileOf(datasetId: string, position: number, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
-  if (!filtered) {
-    const column = await useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles'] })
-    if (column?.profiles) return column.profiles[sign]
-  }
+async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
+  if (!filtered && stored?.profiles) return stored.profiles[sign]
   return profileCounts(query, sign)
+}
+
+/** A distribution test's counts as the import kept them (digit-cube.ts), whole or per group, without a scan. */
+async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter): Promise<Grouped<DistributionCounts>> {
+  const slices = cubeSlices(test, sign)
+  const rows = await rawSelect<{ grp: number, status: number[], keys: number[], arc: number[] }>(
+    `SELECT group_code AS grp, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc
+     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos`,
+    { datasetId, columnPos, groupPos },
+  )
+  return new Map(rows.map(row => [groupPos < 0 ? null : String(row.grp), countsFromCube(test, sign, row)]))
 }
 
 async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<CountedProfile | null> {
@@ -164,14 +178,19 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   const sign = body.sign ?? 'positive'
   const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
   const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
-  const profile = profileOf(dataset.id, tested.position, whole, sign, Boolean(body.filters?.length))
+  const stored = await storedColumn(dataset.id, tested.position)
+  const profile = profileOf(stored, whole, sign, Boolean(body.filters?.length))
 
   let counts: TestCountsMap[TestName]
   let groupCounts: Grouped<{ status: StatusCounts }> | null = null
   if (body.test in DISTRIBUTIONS) {
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
+    // Unfiltered, the counts the import kept answer without a scan.
     const test = body.test as DistributionTest
-    const scanned = await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping))
+    const groupPos = body.groupBy ? columnByName(columns, body.groupBy, 'groupBy').position : -1
+    const scanned = !body.filters?.length && stored?.cubeGroups?.includes(groupPos)
+      ? await cubeDistribution(test, dataset.id, tested.position, groupPos, sign)
+      : await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping))
     counts = grouping ? mergeGroups(scanned) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }

@@ -1,51 +1,65 @@
 /** More distinct values than this and a column is not coded: grouping by it falls back to a join. */
 export const MAX_CODES = 100_000
 
+const unprintable = (code: number) => code <= 32 || code >= 127
+
+/** In the sample, a column where nearly every value differs (references, ids, notes) is not coded. */
+const UNIQUE_SHARE = 0.9
+const SAMPLE_MINIMUM = 100
+
 /**
  * Gives each distinct (trimmed) text of a column a small integer, so digit records can carry
  * their row's text columns as codes. A column with too many distinct values stops being coded.
  */
 export class GroupCodes {
   private readonly codes: (Map<string, number> | null)[]
+  private readonly row: Int32Array
 
-  constructor(textPositions: boolean[]) {
-    this.codes = textPositions.map(isText => (isText ? new Map() : null))
+  constructor(textPositions: boolean[], sample: readonly string[][]) {
+    this.codes = textPositions.map((isText, i) => {
+      if (!isText) return null
+      const distinct = new Set(sample.map(row => (row[i] ?? '').trim())).size
+      return sample.length >= SAMPLE_MINIMUM && distinct > UNIQUE_SHARE * sample.length ? null : new Map()
+    })
+    this.row = new Int32Array(textPositions.length)
   }
 
-  /** The row's codes as a PostgreSQL int[] literal, one per column (NULL for number columns). */
-  literal(cells: readonly string[]): string {
-    const parts: string[] = []
+  /**
+   * The row's codes, one per column: 0 for number columns and for a column that is not coded.
+   * The array is reused for the next row: read it before asking again.
+   */
+  codesOf(cells: readonly string[]): Int32Array {
+    const codes = this.row
+    codes.fill(0)
     for (let i = 0; i < this.codes.length; i++) {
       const map = this.codes[i]
-      if (!map) {
-        parts.push('NULL')
-        continue
-      }
-      const text = cells[i]!.trim()
+      if (!map) continue
+      const cell = cells[i]!
+      // Most cells start and end in a printable ASCII character and need no trimming (which copies).
+      const text = cell.length && (unprintable(cell.charCodeAt(0)) || unprintable(cell.charCodeAt(cell.length - 1))) ? cell.trim() : cell
       let code = map.get(text)
       if (code === undefined) {
         if (map.size >= MAX_CODES) {
           this.codes[i] = null
-          parts.push('NULL')
           continue
         }
         code = map.size + 1
         map.set(text, code)
       }
-      parts.push(String(code))
+      codes[i] = code
     }
-    return `"{${parts.join(',')}}"`
+    return codes
   }
 
   isCoded(position: number): boolean {
     return this.codes[position] !== null && this.codes[position] !== undefined
   }
 
-  /** Dictionary rows for COPY: dataset_id, column_pos, code, value. */
-  * dictionaryLines(datasetId: string): Generator<string> {
+  /** Every coded text with its column position and code, for the dictionary table. */
+  * dictionary(): Generator<[position: number, code: number, value: string]> {
     for (const [position, map] of this.codes.entries()) {
       if (!map) continue
-      for (const [value, code] of map) yield `${datasetId},${position},${code},"${value.replaceAll('\0', '').replaceAll('"', '""')}"\n`
+      for (const [value, code] of map) yield [position, code, value]
     }
   }
 }

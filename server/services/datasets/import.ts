@@ -1,14 +1,17 @@
 import { open } from 'node:fs/promises'
 import type { PoolClient } from 'pg'
+import { QueryTypes } from 'sequelize'
 import { detectNumberStyle, recordOf, readNumber } from '#shared/digits'
 import type { NumberStyle } from '#shared/digits'
 import { ColumnProfile } from './column-profile'
-import { CopyWriter, DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS, digitLine, rowLine } from './bulk-copy'
+import { CopyWriter, DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS, uuidBytes, writeDigits, writeGroupValue, writeRow } from './bulk-copy'
+import { CUBE_COLUMNS, DigitCubeCounter } from './digit-cube'
+import { FrequentValues } from './frequent-values'
 import { GroupCodes } from './group-codes'
 import { openRows } from './readers'
 import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat } from './sniff'
-import { partitionNames } from './partitions'
+import { dropPartitionsSql, partitionNames } from './partitions'
 
 export const MAX_COLUMNS = 2000
 const SAMPLE_ROWS = 1000
@@ -61,8 +64,20 @@ async function withConnections<T>(work: (c: Connections) => Promise<T>): Promise
 }
 
 /** Drops an import's standalone tables: nothing of a failed import stays behind. */
-async function dropStaging(client: PoolClient, names: ReturnType<typeof partitionNames>) {
-  await client.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits}; DROP TABLE IF EXISTS ${names.groupValues};`).catch(() => {})
+async function dropStaging(client: PoolClient, datasetId: string) {
+  // A COPY that failed half-way leaves its transaction open: end it before the connection goes back.
+  await client.query('ROLLBACK').catch(() => {})
+  await client.query(dropPartitionsSql(datasetId)).catch(() => {})
+}
+
+/** Once the sample is read: how each column is read, the text columns' codes, and the digit counts. */
+function startCounting(header: string[], sample: string[][]) {
+  const plan = planColumns(header, sample)
+  const numbers = plan.flatMap(({ profile }, position) => (profile.numeric ? [position] : []))
+  const texts = plan.flatMap(({ profile }, position) => (profile.numeric ? [] : [position]))
+  // Per number column, the most frequent positive and negative value (the suitability check's repeated amounts).
+  const frequent = plan.map(({ profile }) => (profile.numeric ? [new FrequentValues(), new FrequentValues()] as const : null))
+  return { plan, groupCodes: new GroupCodes(plan.map(c => !c.profile.numeric), sample), cube: new DigitCubeCounter(numbers, texts), frequent }
 }
 
 /**
@@ -83,17 +98,21 @@ export async function importDataset(datasetId: string): Promise<void> {
     ? detectEncoding(head.subarray(0, bytesRead))
     : await detectFileEncoding(path, head.subarray(0, bytesRead))
   const names = partitionNames(datasetId)
+  // The CHECK constraints, made while the tables are empty, let ATTACH PARTITION skip its scan.
+  const onlyThis = `CHECK (dataset_id = '${datasetId}')`
 
   await withConnections(async (db) => {
-    await db.rows.query(`DROP TABLE IF EXISTS ${names.rows}; DROP TABLE IF EXISTS ${names.digits};
-      CREATE TABLE ${names.rows} (LIKE dataset_rows); CREATE TABLE ${names.digits} (LIKE digit_records);`)
-    const rowsOut = new CopyWriter(db.rows, names.rows, ROW_COLUMNS)
-    const digitsOut = new CopyWriter(db.digits, names.digits, DIGIT_COLUMNS)
+    await db.rows.query(dropPartitionsSql(datasetId))
+    const datasetBytes = uuidBytes(datasetId)
+    const rowsOut = await CopyWriter.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, onlyThis)
+    const digitsOut = await CopyWriter.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, onlyThis)
     const source = openRows(dataset.format as DatasetFormat, path, encoding, bomLength)
     let header: string[] | null = null
     let named = false
     let plan: ReturnType<typeof planColumns> | null = null
     let groupCodes: GroupCodes | null = null
+    let cube: DigitCubeCounter | null = null
+    let frequent: ReturnType<typeof startCounting>['frequent'] = []
     const sample: string[][] = []
     let rowNo = 0
     let ragged = 0
@@ -105,8 +124,8 @@ export async function importDataset(datasetId: string): Promise<void> {
       if (raw.length !== width) ragged++
       const cells = raw.length === width ? raw : Array.from({ length: width }, (_, i) => raw[i] ?? '')
       rowNo++
-      rowsOut.add(rowLine(datasetId, rowNo, cells))
-      const codes = groupCodes!.literal(cells)
+      writeRow(rowsOut, datasetBytes, rowNo, cells)
+      const codes = groupCodes!.codesOf(cells)
       for (let c = 0; c < width; c++) {
         const column = plan![c]!
         const cell = cells[c]!
@@ -114,9 +133,12 @@ export async function importDataset(datasetId: string): Promise<void> {
           column.profile.addText(cell)
           continue
         }
-        const record = recordOf(readNumber(cell, column.style))
+        const read = readNumber(cell, column.style)
+        const record = recordOf(read)
         column.profile.addNumber(cell, record)
-        digitsOut.add(digitLine(datasetId, c, rowNo, record, codes))
+        writeDigits(digitsOut, datasetBytes, c, rowNo, read, record, codes)
+        cube!.add(c, record, codes)
+        if (record.status === 'number') frequent[c]![record.sign > 0 ? 0 : 1].add(record.value!)
       }
     }
     const afterBatch = async () => {
@@ -139,8 +161,7 @@ export async function importDataset(datasetId: string): Promise<void> {
           if (!plan) {
             sample.push(raw)
             if (sample.length < SAMPLE_ROWS) continue
-            plan = planColumns(header, sample)
-            groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric))
+            ;({ plan, groupCodes, cube, frequent } = startCounting(header, sample))
             for (const row of sample.splice(0)) write(row)
             continue
           }
@@ -150,8 +171,7 @@ export async function importDataset(datasetId: string): Promise<void> {
       }
       if (!header) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
       if (!plan) {
-        plan = planColumns(header, sample)
-        groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric))
+        ;({ plan, groupCodes, cube, frequent } = startCounting(header, sample))
         for (const row of sample.splice(0)) write(row)
         await afterBatch()
       }
@@ -163,40 +183,63 @@ export async function importDataset(datasetId: string): Promise<void> {
     }
     catch (error) {
       await Promise.all([rowsOut.abort(), digitsOut.abort()])
-      await dropStaging(db.rows, names)
+      await dropStaging(db.rows, datasetId)
       throw error
     }
 
     try {
-      await finish(db, plan!, groupCodes!, rowNo, ragged, source.meta, encoding)
+      await finish(db, datasetBytes, plan!, groupCodes!, cube!, frequent, rowNo, ragged, source.meta, encoding)
     }
     catch (error) {
-      await dropStaging(db.rows, names)
+      await dropStaging(db.rows, datasetId)
       throw error
     }
   })
 
-  async function finish(db: Connections, columns: NonNullable<ReturnType<typeof planColumns>>, groupCodes: GroupCodes, rowNo: number, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
-    // The most frequent value per column and sign needs every distinct value: counted once here.
-    const tops = await db.digits.query<{ column_pos: number, sign: number, top: number }>(
-      `SELECT column_pos, sign, max(c)::int AS top FROM (SELECT column_pos, sign, count(*) AS c FROM ${names.digits} WHERE status = 3 GROUP BY column_pos, sign, value) t GROUP BY 1, 2`,
+  /** How often each column's leading value (per sign) occurs, counted over its digit records. */
+  async function leaderCounts(frequent: ReturnType<typeof startCounting>['frequent']) {
+    const replacements: Record<string, unknown> = {}
+    const candidates = frequent.flatMap((signs, position) => (signs ?? []).flatMap((values, side) => {
+      const leader = values.leader()
+      if (leader === null) return []
+      const i = Object.keys(replacements).length
+      replacements[`v${i}`] = leader
+      return [`(${position}::smallint, ${side === 0 ? 1 : -1}::smallint, CAST(:v${i} AS numeric))`]
+    }))
+    if (!candidates.length) return []
+    return sequelize.query<{ column_pos: number, sign: number, top: number }>(
+      `SELECT column_pos, sign, count(*)::int AS top FROM ${names.digits}
+       WHERE status = 3 AND (column_pos, sign, value) IN (VALUES ${candidates.join(', ')}) GROUP BY 1, 2`,
+      { replacements, type: QueryTypes.SELECT },
     )
-    const topOf = (position: number, sign: number) => tops.rows.find(r => r.column_pos === position && r.sign === sign)?.top ?? 0
-    await db.rows.query(`DROP TABLE IF EXISTS ${names.groupValues}; CREATE TABLE ${names.groupValues} (LIKE dataset_group_values)`)
-    const dictionary = new CopyWriter(db.rows, names.groupValues, GROUP_VALUE_COLUMNS)
-    for (const line of groupCodes.dictionaryLines(datasetId)) dictionary.add(line)
-    await dictionary.end()
+  }
+
+  async function finish(db: Connections, datasetBytes: Buffer, columns: NonNullable<ReturnType<typeof planColumns>>, groupCodes: GroupCodes, cube: DigitCubeCounter, frequent: ReturnType<typeof startCounting>['frequent'], rowNo: number, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
+    // The slow parts run side by side on the import's two connections and a third from the pool:
+    // the digit counts and the dictionary, the index for drill-down, planner statistics, and the
+    // exact count of each column's most frequent value (frequent-values.ts).
+    const [tops] = await Promise.all([
+      leaderCounts(frequent),
+      (async () => {
+        const counts = await CopyWriter.open(db.rows, names.cube, 'digit_cube', CUBE_COLUMNS, onlyThis)
+        cube.write(counts, datasetBytes)
+        await counts.end()
+        const dictionary = await CopyWriter.open(db.rows, names.groupValues, 'dataset_group_values', GROUP_VALUE_COLUMNS)
+        for (const [position, code, value] of groupCodes.dictionary()) writeGroupValue(dictionary, datasetBytes, position, code, value)
+        await dictionary.end()
+        await db.rows.query(`CREATE INDEX ON ${names.rows} (row_no); ANALYZE ${names.rows}; ANALYZE ${names.cube};`)
+      })(),
+      // Digit records need no index: counts scan them, and drill-down reaches the rows by row_no.
+      db.digits.query(`ANALYZE ${names.digits}`),
+    ])
+    const topOf = (position: number, sign: number) => tops.find(r => r.column_pos === position && r.sign === sign)?.top ?? 0
+
     const ready = dataset!
     await sequelize.transaction(async (transaction) => {
-      // The CHECK lets ATTACH skip its validation scan; the indexes serve drill-down and counting.
       await sequelize.query(`
-        ALTER TABLE ${names.rows} ADD CONSTRAINT ${names.rows}_one CHECK (dataset_id = '${datasetId}');
-        ALTER TABLE ${names.digits} ADD CONSTRAINT ${names.digits}_one CHECK (dataset_id = '${datasetId}');
-        CREATE INDEX ON ${names.rows} (row_no);
-        CREATE INDEX ON ${names.digits} (column_pos, row_no);
         ALTER TABLE dataset_rows ATTACH PARTITION ${names.rows} FOR VALUES IN ('${datasetId}');
         ALTER TABLE digit_records ATTACH PARTITION ${names.digits} FOR VALUES IN ('${datasetId}');
-        ANALYZE ${names.rows}; ANALYZE ${names.digits};
+        ALTER TABLE digit_cube ATTACH PARTITION ${names.cube} FOR VALUES IN ('${datasetId}');
         INSERT INTO dataset_group_values SELECT * FROM ${names.groupValues};
         DROP TABLE ${names.groupValues};
       `, { transaction })
@@ -216,6 +259,7 @@ export async function importDataset(datasetId: string): Promise<void> {
         magnitudeSpan: profile.magnitudeSpan,
         samples: profile.samples,
         coded: groupCodes.isCoded(position),
+        cubeGroups: profile.numeric ? cube.groupingsOf(position) : null,
         profiles: profile.numeric
           ? { positive: profile.bySign.positive.toProfile(topOf(position, 1)), negative: profile.bySign.negative.toProfile(topOf(position, -1)) }
           : null,

@@ -139,6 +139,8 @@ describe('the binomial 95% range of counts', () => {
 
   it.each([
     [100, Math.log10(2)], [100, Math.log10(10 / 9)], [1000, Math.log10(2)], [1000, Math.log10(1 + 1 / 99)], [50, 0.01], [3147, 0.04576],
+    // Small and large n·p, where a search that starts from the normal approximation has the most steps to take.
+    [5, 0.3], [12, 0.00043451], [20000, 0.00043451], [1000, 0.5],
   ])('matches an exact cumulative sum at n = %i, p = %f', (n, p) => {
     expect(binomialRange(n, p)).toEqual(exactRange(n, p))
   })
