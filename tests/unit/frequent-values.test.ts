@@ -1,0 +1,32 @@
+import { describe, expect, it } from 'vitest'
+import { COUNTERS, FrequentValues } from '../../server/services/datasets/frequent-values'
+
+// Misra & Gries 1982 ("Finding repeated elements", Science of Computer Programming 2(2)): with k
+// counters, any value making up more than 1/(k+1) of the stream survives to the end.
+function stream(length: number, heavy: string, share: number, seed = 1): string[] {
+  let state = seed
+  const next = () => {
+    state = (state * 48271) % 2147483647
+    return state / 2147483647
+  }
+  return Array.from({ length }, (_, i) => (next() < share ? heavy : `${i}.${Math.floor(next() * 100)}`))
+}
+
+describe('the most frequent value in bounded memory', () => {
+  it.each([0.002, 0.01, 0.05, 0.5])('keeps a value that makes up %f of 200,000 distinct others as the leader', (share) => {
+    const values = new FrequentValues()
+    for (const value of stream(200_000, '25000', share)) values.add(value)
+    expect(values.leader()).toBe('25000')
+  })
+
+  it('holds no more than its counters, whatever the stream', () => {
+    const values = new FrequentValues()
+    for (let i = 0; i < 50_000; i++) values.add(String(i))
+    // Every value is distinct, so the leader is one of the last few seen; the point is the size.
+    expect((values as unknown as { counts: Map<string, number> }).counts.size).toBeLessThanOrEqual(COUNTERS)
+  })
+
+  it('has no leader for an empty stream', () => {
+    expect(new FrequentValues().leader()).toBeNull()
+  })
+})
