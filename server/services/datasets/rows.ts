@@ -82,10 +82,13 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
     where += ` AND ${query.groupEquals}`
     replacements.group = query.groupCodesOf === null ? request.group : request.group.trim()
   }
-  const from = query.from.includes('dataset_rows r') ? query.from : `${query.from} JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = d.row_no`
+  // The bin's row numbers first (one pass over the column's records), then only that page's rows:
+  // joining every record to its row before choosing the page costs a lookup per record.
   const [items, [total]] = await Promise.all([
-    rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells FROM ${from} WHERE ${where} ORDER BY r.row_no LIMIT ${PAGE_SIZE} OFFSET :offset`, replacements),
-    rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${from} WHERE ${where}`, replacements),
+    rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells
+      FROM (SELECT d.row_no FROM ${query.from} WHERE ${where} ORDER BY d.row_no LIMIT ${PAGE_SIZE} OFFSET :offset) hit
+      JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = hit.row_no ORDER BY r.row_no`, replacements),
+    rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${query.from} WHERE ${where}`, replacements),
   ])
   return { page: request.page, pageSize: PAGE_SIZE, total: total?.total ?? 0, items, column: tested.name, key: request.key }
 }

@@ -1,0 +1,62 @@
+// Load benchmark (issue 8): 50 connections for 60 s on loopback against the analysis and read
+// routes of a 1M-row dataset, on a fresh Mantissa with its own PostgreSQL. Prints throughput,
+// latency percentiles and errors per route mix; never asserts.
+//
+//   node bench/load.bench.mjs                 # 1,000,000 rows, 50 connections, 60 s
+//   node bench/load.bench.mjs 100000 50 20    # rows, connections, seconds
+import { rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import autocannon from 'autocannon'
+import { memoryOf, signIn, startBench, uploadAndWait, writeLedger } from './support.mjs'
+
+const [rows = 1_000_000, connections = 50, seconds = 60] = process.argv.slice(2).map(Number)
+const file = join(tmpdir(), `mantissa-load-${rows}.csv`)
+await writeLedger(file, rows)
+const bench = await startBench()
+try {
+  const { cookie, request } = await signIn(bench.url)
+  const { dataset } = await uploadAndWait(bench.url, cookie, file, `Load ledger ${rows}`)
+  rmSync(file, { force: true })
+  const me = await request('GET', '/api/me')
+  const story = await request('POST', '/api/investigations', { newsroomId: me.memberships[0].newsroomId, title: 'Load test' })
+  const block = await request('POST', `/api/investigations/${story.id}/blocks`, {
+    kind: 'analysis', settings: { datasetId: dataset.id, column: 'amount', test: 'first-two-digits', groupBy: 'vendor' },
+  })
+  await request('POST', `/api/blocks/${block.id}/run`)
+
+  const json = body => ({ method: 'POST', path: `/api/datasets/${dataset.id}/digit-tests`, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) })
+  // What a newsroom does all day: open a story and its blocks, run tests, read the rows behind a bin.
+  const mix = {
+    'analysis: digit tests': [
+      json({ column: 'amount', test: 'first-digit' }),
+      json({ column: 'amount', test: 'first-two-digits', groupBy: 'vendor' }),
+      json({ column: 'amount', test: 'second-digit', groupBy: 'department' }),
+      json({ column: 'amount', test: 'last-two-digits' }),
+      { method: 'POST', path: `/api/blocks/${block.id}/run` },
+    ],
+    'read: story, dataset, rows': [
+      { method: 'GET', path: `/api/investigations/${story.id}` },
+      { method: 'GET', path: `/api/blocks/${block.id}/analysis` },
+      { method: 'GET', path: `/api/datasets/${dataset.id}` },
+      { method: 'GET', path: `/api/datasets/${dataset.id}/rows?column=amount&key=48&test=first-two-digits&page=2` },
+      { method: 'GET', path: `/api/datasets/${dataset.id}/preview?page=3` },
+    ],
+  }
+  for (const [name, requests] of Object.entries(mix)) {
+    const before = memoryOf(bench.server.pid)
+    const result = await autocannon({ url: bench.url, connections, duration: seconds, headers: { cookie }, requests })
+    const after = memoryOf(bench.server.pid)
+    const errors = result.errors + result.timeouts + result.non2xx
+    console.log(`
+${name} (${connections} connections, ${seconds} s, ${rows.toLocaleString('en-GB')} rows)
+  requests:    ${result.requests.total.toLocaleString('en-GB')} (${result.requests.average.toFixed(0)} per second)
+  latency:     p50 ${result.latency.p50} ms, p99 ${result.latency.p99} ms, max ${result.latency.max} ms
+  errors:      ${errors} (socket ${result.errors}, timeouts ${result.timeouts}, non-2xx ${result.non2xx})
+  server RSS:  ${before.rssMb.toFixed(0)} → ${after.rssMb.toFixed(0)} MB (peak ${after.peakMb.toFixed(0)} MB)`)
+  }
+}
+finally {
+  await bench.stop()
+  rmSync(file, { force: true })
+}

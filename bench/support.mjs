@@ -1,0 +1,115 @@
+// Shared by the benchmarks: an invented payments ledger, a throwaway PostgreSQL with the built app
+// on it, and the signed-in requests a reporter would make. Figures are printed, never asserted.
+import { spawn } from 'node:child_process'
+import { createWriteStream, openAsBlob, readFileSync } from 'node:fs'
+import { once } from 'node:events'
+import { join } from 'node:path'
+import { ensurePostgres } from '../server/cli/postgres.mjs'
+import { buildIfStale, migrate, root, waitForServer } from '../server/cli/prepare.mjs'
+
+export const demo = JSON.parse(readFileSync(join(root, 'server', 'services', 'demo', 'people.json'), 'utf8'))
+
+function random(seed) {
+  let state = seed >>> 0
+  return () => {
+    state = (state + 0x6D2B79F5) >>> 0
+    let t = state
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+/** Writes `rows` invented payments (200 vendors, 9 departments, amounts over four orders of magnitude). */
+export async function writeLedger(path, rows) {
+  const next = random(7)
+  const out = createWriteStream(path)
+  out.write('payment_ref,paid_on,vendor,department,amount\n')
+  let chunk = ''
+  for (let i = 0; i < rows; i++) {
+    const amount = (10 ** (1.5 + 4 * next())).toFixed(2)
+    chunk += `P${100000 + i},2025-${String(1 + (i % 12)).padStart(2, '0')}-15,Vendor ${Math.floor(next() * 200)},Dept ${i % 9},${amount}\n`
+    if (chunk.length > 1 << 20) {
+      if (!out.write(chunk)) await once(out, 'drain')
+      chunk = ''
+    }
+  }
+  out.end(chunk)
+  await once(out, 'finish')
+}
+
+/** Resident and peak memory of a process, from /proc. */
+export function memoryOf(pid) {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8')
+  const kb = name => Number(status.match(new RegExp(`${name}:\\s+(\\d+)`))?.[1] ?? 0)
+  return { rssMb: kb('VmRSS') / 1024, peakMb: kb('VmHWM') / 1024 }
+}
+
+export const median = list => [...list].sort((a, b) => a - b)[Math.floor(list.length / 2)]
+
+/** A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. */
+export async function startBench(port = 3201) {
+  const database = ensurePostgres({ name: 'bench', port: 54349, database: 'mantissa_bench', throwaway: true })
+  database.recreate()
+  migrate(database.url)
+  buildIfStale()
+  const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], {
+    cwd: root,
+    stdio: ['ignore', 'ignore', 'inherit'],
+    env: {
+      ...process.env, PORT: String(port), NITRO_HOST: '127.0.0.1', NUXT_DATABASE_URL: database.url,
+      NUXT_SESSION_PASSWORD: 'bench-only-session-password-of-32-characters', NUXT_DEMO_SEED: 'true',
+      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: '2725', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
+      NUXT_STORAGE_BASE: join(root, '.data', 'bench-files'),
+    },
+  })
+  const url = `http://localhost:${port}`
+  await waitForServer(url, 120)
+  return {
+    url,
+    server,
+    async stop() {
+      // The app first, so that no request still running sees its database go away.
+      const exited = once(server, 'exit')
+      server.kill('SIGTERM')
+      await exited
+      database.stop()
+    },
+  }
+}
+
+/** Signs in as a demo member and returns a function for JSON requests with the session cookie. */
+export async function signIn(url, role = 'reporter') {
+  const login = await fetch(`${url}/api/auth/login`, {
+    method: 'POST', headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email: demo.people.find(p => p.role === role).email, password: demo.password }),
+  })
+  const cookie = login.headers.getSetCookie().map(c => c.split(';')[0]).join('; ')
+  const request = async (method, path, body) => {
+    const reply = await fetch(`${url}${path}`, {
+      method, headers: { cookie, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+      body: body === undefined ? undefined : JSON.stringify(body),
+    })
+    if (!reply.ok) throw new Error(`${method} ${path} answered ${reply.status}: ${await reply.text()}`)
+    return reply.json()
+  }
+  return { cookie, request }
+}
+
+/** Uploads a file and waits until its import settles; `onPoll` sees each status. */
+export async function uploadAndWait(url, cookie, file, title, onPoll = () => {}) {
+  const form = new FormData()
+  form.append('title', title)
+  form.append('file', await openAsBlob(file), 'ledger.csv')
+  const upload = await fetch(`${url}/api/datasets`, { method: 'POST', headers: { cookie }, body: form })
+  const { id } = await upload.json()
+  const uploadedAt = performance.now()
+  let dataset
+  do {
+    await new Promise(r => setTimeout(r, 200))
+    dataset = await (await fetch(`${url}/api/datasets/${id}`, { headers: { cookie } })).json()
+    onPoll(dataset)
+  } while (dataset.status === 'importing')
+  if (dataset.status !== 'ready') throw new Error(`import ${dataset.status}: ${dataset.error}`)
+  return { dataset, uploadedAt }
+}
