@@ -96,7 +96,10 @@ export const useDocumentStore = defineStore('document', () => {
     inFlight.add(blockId)
     saveState.value[blockId] = 'saving'
     try {
-      replace(await $fetch<BlockDTO>(`/api/blocks/${blockId}`, { method: 'PATCH', body: { version: block.version, ...patch } }))
+      const saved = await $fetch<BlockDTO>(`/api/blocks/${blockId}`, { method: 'PATCH', body: { version: block.version, ...patch } })
+      // Changes made while this save travelled stay on screen: the form builds its next change from them.
+      const pending = queued.get(blockId)
+      replace(pending ? { ...saved, ...pending } : saved)
       saveState.value[blockId] = 'saved'
     }
     catch (error) {

@@ -205,3 +205,9 @@ export function countsFromCube(test: DistributionTest, sign: SignFilter, row: { 
   if (withoutKey > 0) keys.push({ key: null, count: withoutKey })
   return { status, keys, arc: { cos: row.arc[0]!, sin: row.arc[1]! } }
 }
+
+/** Where one key of a test and sign sits in a cube row's counts, as a PostgreSQL array index (from 1). */
+export function cubeKeyIndex(test: DistributionTest, sign: SignFilter, key: number): number {
+  const f = TESTS.indexOf(test as typeof TESTS[number])
+  return STATUS_SLOTS + (sign === 'positive' ? 0 : PER_SIGN) + OFFSETS[f]! + key - FIELDS[f]!.low + 1
+}

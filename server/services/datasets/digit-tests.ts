@@ -4,9 +4,10 @@ import type {
   SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
 } from '#shared/digits'
 import type { DigitTestRequestBody } from '#shared/schemas/dataset'
+import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { cubeSlices, countsFromCube } from './digit-cube'
+import { cubeKeyIndex, cubeSlices, countsFromCube } from './digit-cube'
 import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows, signCode } from './digit-query'
 import type { DigitQuery } from './digit-query'
 
@@ -117,7 +118,7 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
 }
 
 /** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
-function storedColumn(datasetId: string, position: number) {
+export function storedColumn(datasetId: string, position: number) {
   return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups'] })
 }
 
@@ -139,6 +140,24 @@ async function cubeDistribution(test: DistributionTest, datasetId: string, colum
     { datasetId, columnPos, groupPos },
   )
   return new Map(rows.map(row => [groupPos < 0 ? null : String(row.grp), countsFromCube(test, sign, row)]))
+}
+
+/**
+ * How many values one bin holds, as the import counted them: for the drill-down of an unfiltered
+ * distribution test, whole or in one group, so its page count needs no scan. Null when not kept.
+ */
+export async function cubeBinCount(datasetId: string, tested: ColumnDTO, bin: { test: DistributionTest, key: number, sign: SignFilter }, group?: { column: ColumnDTO, value: string }): Promise<number | null> {
+  const stored = await storedColumn(datasetId, tested.position)
+  const groupPos = group ? group.column.position : -1
+  if (!stored?.cubeGroups?.includes(groupPos)) return null
+  const [row] = await rawSelect<{ count: number }>(
+    `SELECT coalesce((SELECT counts[${cubeKeyIndex(bin.test, bin.sign, bin.key)}] FROM digit_cube
+       WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos AND group_code = ${group
+          ? '(SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :groupPos AND value = :group)'
+          : '0'}), 0) AS count`,
+    { datasetId, columnPos: tested.position, groupPos, group: group?.value.trim() },
+  )
+  return row?.count ?? 0
 }
 
 async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<CountedProfile | null> {

@@ -216,7 +216,7 @@ export async function importDataset(datasetId: string): Promise<void> {
 
   async function finish(db: Connections, datasetBytes: Buffer, columns: NonNullable<ReturnType<typeof planColumns>>, groupCodes: GroupCodes, cube: DigitCubeCounter, frequent: ReturnType<typeof startCounting>['frequent'], rowNo: number, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
     // The slow parts run side by side on the import's two connections and a third from the pool:
-    // the digit counts and the dictionary, the index for drill-down, planner statistics, and the
+    // the digit counts and the dictionary, the indexes for drill-down, planner statistics, and the
     // exact count of each column's most frequent value (frequent-values.ts).
     const [tops] = await Promise.all([
       leaderCounts(frequent),
@@ -229,8 +229,8 @@ export async function importDataset(datasetId: string): Promise<void> {
         await dictionary.end()
         await db.rows.query(`CREATE INDEX ON ${names.rows} (row_no); ANALYZE ${names.rows}; ANALYZE ${names.cube};`)
       })(),
-      // Digit records need no index: counts scan them, and drill-down reaches the rows by row_no.
-      db.digits.query(`ANALYZE ${names.digits}`),
+      // Drill-down walks a column's records in row order and stops after a page.
+      db.digits.query(`CREATE INDEX ON ${names.digits} (column_pos, row_no); ANALYZE ${names.digits};`),
     ])
     const topOf = (position: number, sign: number) => tops.find(r => r.column_pos === position && r.sign === sign)?.top ?? 0
 

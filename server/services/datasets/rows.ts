@@ -5,6 +5,7 @@ import type { PageDTO, RowDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
 import { buildDigitQuery, columnByName, rawSelect, signCode } from './digit-query'
+import { cubeBinCount } from './digit-tests'
 
 export const PAGE_SIZE = 50
 
@@ -82,13 +83,18 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
     where += ` AND ${query.groupEquals}`
     replacements.group = query.groupCodesOf === null ? request.group : request.group.trim()
   }
-  // The bin's row numbers first (one pass over the column's records), then only that page's rows:
-  // joining every record to its row before choosing the page costs a lookup per record.
-  const [items, [total]] = await Promise.all([
+  // The bin's row numbers first, then only that page's rows: joining every record to its row
+  // before choosing the page costs a lookup per record. Unfiltered, the import's counts give the total.
+  const distribution = request.test === 'summation' ? 'first-two-digits' : request.test in DISTRIBUTIONS ? request.test as DistributionTest : null
+  const groupColumn = request.groupBy && request.group !== undefined ? columnByName(columns, request.groupBy, 'groupBy') : null
+  const [items, counted] = await Promise.all([
     rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells
       FROM (SELECT d.row_no FROM ${query.from} WHERE ${where} ORDER BY d.row_no LIMIT ${PAGE_SIZE} OFFSET :offset) hit
       JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = hit.row_no ORDER BY r.row_no`, replacements),
-    rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${query.from} WHERE ${where}`, replacements),
+    distribution && !request.filters?.length
+      ? cubeBinCount(dataset.id, tested, { test: distribution, key: Number(request.key), sign: request.sign ?? 'positive' }, groupColumn ? { column: groupColumn, value: request.group! } : undefined)
+      : null,
   ])
-  return { page: request.page, pageSize: PAGE_SIZE, total: total?.total ?? 0, items, column: tested.name, key: request.key }
+  const total = counted ?? (await rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${query.from} WHERE ${where}`, replacements))[0]?.total ?? 0
+  return { page: request.page, pageSize: PAGE_SIZE, total, items, column: tested.name, key: request.key }
 }
