@@ -2,16 +2,19 @@ import type { DatasetSummaryDTO } from '#shared/types/dataset'
 
 /** The newsroom's datasets; checks again every second while any of them is importing. */
 export function useDatasets(newsroomId: Ref<string>) {
+  // No `default`: during hydration useFetch takes any value it already holds as fetched, so a
+  // form first drawn in the browser (an analysis block's) kept an empty default list and said the
+  // newsroom had no dataset.
   const { data, refresh, status, error } = useFetch<DatasetSummaryDTO[]>('/api/datasets', {
     key: computed(() => `datasets-${newsroomId.value}`),
     query: { newsroomId },
-    default: () => [],
   })
+  const datasets = computed(() => data.value ?? [])
   let timer: ReturnType<typeof setTimeout> | undefined
-  watch(data, (list) => {
+  watch(datasets, (list) => {
     clearTimeout(timer)
     if (import.meta.client && list.some(d => d.status === 'importing')) timer = setTimeout(() => refresh(), 1000)
   }, { immediate: true })
   onBeforeUnmount(() => clearTimeout(timer))
-  return { datasets: data, refresh, pending: computed(() => status.value === 'pending'), error }
+  return { datasets, refresh, pending: computed(() => status.value === 'pending'), error }
 }

@@ -1,9 +1,46 @@
 import type { H3Event } from 'h3'
 import type { z } from 'zod'
 
-/** Reads and validates the JSON body; a bad body answers 400 with field messages. */
+/** Deeper than this, a body is no form of Mantissa's: refused before anything walks it recursively. */
+const MAX_DEPTH = 200
+
+const NUL = /\0/
+// A high surrogate not followed by a low one, or a low one not preceded by a high one.
+const HALF_PAIR = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/
+
+/**
+ * Field errors for text PostgreSQL cannot store: NUL, and half of a surrogate pair (jsonb refuses
+ * both, and a text column kept NUL as the two characters "\0"). Walks without recursion, so a
+ * body nested 100,000 levels deep is refused here instead of overflowing the stack later.
+ */
+export function unstorableText(value: unknown): FieldError[] {
+  const errors: FieldError[] = []
+  const stack: { value: unknown, path: (string | number)[] }[] = [{ value, path: [] }]
+  while (stack.length && errors.length < 10) {
+    const { value: item, path } = stack.pop()!
+    if (path.length > MAX_DEPTH) {
+      errors.push({ path: path.slice(0, 1).join('.'), message: `This is nested more than ${MAX_DEPTH} levels deep.` })
+      break
+    }
+    if (typeof item === 'string') {
+      if (NUL.test(item)) errors.push({ path: path.join('.'), message: 'This text holds a NUL character (\\u0000), which cannot be stored. Remove it and try again.' })
+      else if (HALF_PAIR.test(item)) errors.push({ path: path.join('.'), message: 'This text holds half of a character (an unpaired UTF-16 surrogate), which cannot be stored. Copy it again from its source.' })
+    }
+    else if (item && typeof item === 'object') {
+      for (const [key, child] of Object.entries(item)) stack.push({ value: child, path: [...path, Array.isArray(item) ? Number(key) : key] })
+    }
+  }
+  return errors
+}
+
+/** Reads and validates the JSON body; a body that is not JSON, or a bad one, answers 400 with field messages. */
 export async function readInput<T extends z.ZodType>(event: H3Event, schema: T): Promise<z.output<T>> {
+  const type = getRequestHeader(event, 'content-type')
+  // A form post is a request any page can send without asking; the API takes JSON only.
+  if (type && !/^application\/([\w.+-]+\+)?json\b/i.test(type)) throw fail(400, { message: 'Send the body as JSON, with content-type: application/json.' })
   const body = await readBody(event).catch(() => undefined)
+  const unstorable = unstorableText(body)
+  if (unstorable.length) throw fail(400, unstorable)
   const result = schema.safeParse(body ?? {})
   if (!result.success) throw fail(400, fieldErrors(result.error))
   return result.data
@@ -18,7 +55,10 @@ export function readParams<T extends z.ZodType>(event: H3Event, schema: T): z.ou
 
 /** Reads and validates the query string; a bad query answers 400 with field messages. */
 export function readQuery<T extends z.ZodType>(event: H3Event, schema: T): z.output<T> {
-  const result = schema.safeParse(getQuery(event))
+  const query = getQuery(event)
+  const unstorable = unstorableText(query)
+  if (unstorable.length) throw fail(400, unstorable)
+  const result = schema.safeParse(query)
   if (!result.success) throw fail(400, fieldErrors(result.error))
   return result.data
 }

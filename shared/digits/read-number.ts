@@ -18,6 +18,13 @@ export const COMMA_STYLE: NumberStyle = { decimalMark: ',' }
  */
 export const MAX_MAGNITUDE = 1000
 
+/**
+ * More significant digits than this are unreadable too: no amount has them, and with the limit
+ * above a value keeps under 2,000 digits after the point, which the stored records can hold
+ * (a 1 MB run of digits after "0." overflowed them and failed the import).
+ */
+export const MAX_SIGNIFICANT_DIGITS = 1000
+
 const BLANK: ReadNumber = { status: 'blank', negative: false, digits: '', exponent: 0 }
 const UNREADABLE: ReadNumber = { status: 'unreadable', negative: false, digits: '', exponent: 0 }
 const ZERO: ReadNumber = { status: 'zero', negative: false, digits: '', exponent: 0 }
@@ -155,6 +162,6 @@ function fromParts(negative: boolean, integer: string, fraction: string, shift: 
   let last = all.length - 1
   while (all.charCodeAt(last) === 48) last--
   const exponent = integer.length - 1 - first + shift
-  if (!(Math.abs(exponent) <= MAX_MAGNITUDE)) return UNREADABLE
+  if (!(Math.abs(exponent) <= MAX_MAGNITUDE) || last + 1 - first > MAX_SIGNIFICANT_DIGITS) return UNREADABLE
   return { status: 'number', negative, digits: all.slice(first, last + 1), exponent }
 }

@@ -3,13 +3,25 @@ import { TEST_NAMES } from '../digits/types'
 
 const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)
 
+/**
+ * A day that exists, in years PostgreSQL's date holds: Date.parse alone takes 2026-02-30 (it rolls
+ * over to March) and year 0000, which the database refused with a 500.
+ */
+function isCalendarDate(text: string): boolean {
+  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(text)
+  if (!match) return false
+  const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])]
+  const date = new Date(Date.UTC(year, month - 1, day))
+  return year >= 1 && date.getUTCFullYear() === year && date.getUTCMonth() === month - 1 && date.getUTCDate() === day
+}
+
 export const datasetUploadSchema = z.object({
   title: z.string().trim().min(1, 'Give the dataset a title').max(200),
   sourceNote: optionalText(2000),
   sourceUrl: z.string().trim().max(2000).optional().transform(v => v || undefined)
     .refine(v => !v || /^https?:\/\//i.test(v), 'A source link starts with http:// or https://'),
   obtainedOn: z.string().trim().optional().transform(v => v || undefined)
-    .refine(v => !v || (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(v))), 'Use a date like 2026-03-31'),
+    .refine(v => !v || isCalendarDate(v), 'Use a date that exists, like 2026-03-31'),
   replacesId: z.string().uuid().optional().or(z.literal('').transform(() => undefined)),
 })
 export type DatasetUpload = z.output<typeof datasetUploadSchema>

@@ -87,8 +87,8 @@ export async function partitionTablesOf(datasetId: string): Promise<string[]> {
 }
 
 /**
- * Partition tables whose dataset row is gone. An import creates its tables after the dataset
- * row and drops them before the row, so at any moment there should be none.
+ * Partition and staging tables whose dataset row is gone. An import creates its tables after the
+ * dataset row and drops them before the row, so at any moment there should be none.
  */
 export async function orphanPartitionTables(): Promise<string[]> {
   const result = await sql<{ relname: string }>(`

@@ -1,5 +1,5 @@
 import type { DigitRecord } from '#shared/digits'
-import { SignProfile } from './sign-profile'
+import { SignProfile, compareValues } from './sign-profile'
 
 export const COLUMN_KINDS = ['amount', 'count', 'date', 'text', 'identifier'] as const
 export type ColumnKind = typeof COLUMN_KINDS[number]
@@ -8,6 +8,13 @@ const SAMPLES = 5
 const ID_NAME = /(^|[\s_-])(id|code|zip|postcode|phone|account|iban|ref|reference|no|nr|number)($|[\s_.-])/i
 const DATE_TEXT = /^(\d{4}-\d{1,2}-\d{1,2}([T ][\d:.]+Z?)?|\d{1,2}[./-]\d{1,2}[./-]\d{2,4}|\d{4}\/\d{1,2}\/\d{1,2})$/
 const CODE_TEXT = /^[A-Za-z]{0,6}[-_/ ]?\d{3,}[A-Za-z]?$/
+
+/** The first `length` UTF-16 units of `text`, never ending on half of a surrogate pair (an emoji), which jsonb refuses. */
+export function clip(text: string, length: number): string {
+  if (text.length <= length) return text
+  const code = text.charCodeAt(length - 1)
+  return text.slice(0, code >= 0xD800 && code <= 0xDBFF ? length - 1 : length)
+}
 
 /** What an import learns about one column while the rows stream past. */
 export class ColumnProfile {
@@ -32,7 +39,7 @@ export class ColumnProfile {
   constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null) {}
 
   private sample(cell: string) {
-    if (this.samples.length < SAMPLES && !this.samples.includes(cell)) this.samples.push(cell.slice(0, 200))
+    if (this.samples.length < SAMPLES && !this.samples.includes(cell)) this.samples.push(clip(cell, 200))
   }
 
   addText(cell: string) {
@@ -77,8 +84,8 @@ export class ColumnProfile {
   }
 
   private track(n: number, text: string) {
-    if (!this.min || n < this.min.n) this.min = { n, text }
-    if (!this.max || n > this.max.n) this.max = { n, text }
+    if (!this.min || compareValues(n, text, this.min.n, this.min.text) < 0) this.min = { n, text }
+    if (!this.max || compareValues(n, text, this.max.n, this.max.text) > 0) this.max = { n, text }
   }
 
   /** Orders of magnitude between the smallest and largest non-zero absolute value. */

@@ -8,8 +8,15 @@ const UNIQUE_SHARE = 0.9
 const SAMPLE_MINIMUM = 100
 
 /**
+ * A text longer than this stops its column being coded too: the dictionary's values are indexed,
+ * and PostgreSQL refuses an index entry over about 2,700 bytes (a 1 MB cell failed the import).
+ * 500 characters are at most 2,000 bytes of UTF-8; no vendor or department name is that long.
+ */
+export const MAX_CODED_LENGTH = 500
+
+/**
  * Gives each distinct (trimmed) text of a column a small integer, so digit records can carry
- * their row's text columns as codes. A column with too many distinct values stops being coded.
+ * their row's text columns as codes. A column with too many distinct values, or one too long, stops being coded.
  */
 export class GroupCodes {
   private readonly codes: (Map<string, number> | null)[]
@@ -39,7 +46,7 @@ export class GroupCodes {
       const text = cell.length && (unprintable(cell.charCodeAt(0)) || unprintable(cell.charCodeAt(cell.length - 1))) ? cell.trim() : cell
       let code = map.get(text)
       if (code === undefined) {
-        if (map.size >= MAX_CODES) {
+        if (map.size >= MAX_CODES || text.length > MAX_CODED_LENGTH) {
           this.codes[i] = null
           continue
         }

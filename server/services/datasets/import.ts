@@ -3,7 +3,7 @@ import type { PoolClient } from 'pg'
 import { QueryTypes } from 'sequelize'
 import { detectNumberStyle, recordOf, readNumber } from '#shared/digits'
 import type { NumberStyle } from '#shared/digits'
-import { ColumnProfile } from './column-profile'
+import { ColumnProfile, clip } from './column-profile'
 import { CopyWriter, DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS, uuidBytes, writeDigits, writeGroupValue, writeRow } from './bulk-copy'
 import { CUBE_COLUMNS, DigitCubeCounter } from './digit-cube'
 import { FrequentValues } from './frequent-values'
@@ -17,13 +17,18 @@ export const MAX_COLUMNS = 2000
 const SAMPLE_ROWS = 1000
 const PROGRESS_EVERY_MS = 500
 
+/** The longest column name a digit-test request can name (digitTestRequestSchema). */
+const MAX_NAME = 200
+
+/** Distinct names of at most MAX_NAME characters: "amount", "amount" and "amount (2)" become "amount", "amount (2)", "amount (2) (2)". */
 function headerNames(raw: string[]): string[] {
-  const seen = new Map<string, number>()
+  const taken = new Set<string>()
   return raw.map((cell, i) => {
-    const base = cell.replace(/\s+/g, ' ').trim().slice(0, 200) || `Column ${i + 1}`
-    const count = (seen.get(base) ?? 0) + 1
-    seen.set(base, count)
-    return count === 1 ? base : `${base} (${count})`
+    const base = cell.replace(/\s+/g, ' ').trim() || `Column ${i + 1}`
+    let name = clip(base, MAX_NAME)
+    for (let n = 2; taken.has(name); n++) name = `${clip(base, MAX_NAME - ` (${n})`.length)} (${n})`
+    taken.add(name)
+    return name
   })
 }
 

@@ -20,16 +20,38 @@ export interface RowSource {
 const PAUSE_AT = 2000
 const JSON_HEADER_SAMPLE = 1000
 
-function decoding(encoding: TextEncoding) {
+/**
+ * PostgreSQL text holds neither NUL nor half of a surrogate pair (a JSON "\\ud800" escape): both
+ * failed the import when they reached a column name or a sampled cell. NUL is dropped, a broken
+ * pair becomes U+FFFD, as a text decoder does with broken bytes.
+ */
+function storable(text: string): string {
+  return (text.includes('\0') ? text.replaceAll('\0', '') : text).toWellFormed()
+}
+
+/**
+ * Decodes bytes to strings, so a character split between two chunks is never cut in half. With
+ * `oneLineEnd`, CRLF becomes LF: the CSV parser takes the line end of the first row for the whole
+ * file, and a file edited on two systems (CRLF rows, then LF rows) read its LF rows as one cell.
+ * A CR at the end of a chunk waits for the next, which may start with its LF.
+ */
+function decoding(encoding: TextEncoding, oneLineEnd: boolean) {
   const decoder = new TextDecoder(encoding)
-  // Emits strings, so a character split between two chunks is never cut in half.
+  let held = ''
+  const lines = (text: string) => (oneLineEnd ? text.replaceAll('\r\n', '\n') : text)
   return new Transform({
     readableObjectMode: true,
     transform(chunk: Buffer, _encoding, done) {
-      done(null, decoder.decode(chunk, { stream: true }))
+      let text = held + storable(decoder.decode(chunk, { stream: true }))
+      held = ''
+      if (oneLineEnd && text.endsWith('\r')) {
+        held = '\r'
+        text = text.slice(0, -1)
+      }
+      done(null, lines(text))
     },
     flush(done) {
-      done(null, decoder.decode())
+      done(null, lines(held + storable(decoder.decode())))
     },
   })
 }
@@ -105,40 +127,62 @@ const EXCEL_DIGITS = 15
 function excelCellText(value: ExcelJS.CellValue): string {
   if (value === null || value === undefined) return ''
   if (typeof value === 'number') return numberText(Number(value.toPrecision(EXCEL_DIGITS)))
-  if (typeof value === 'string') return value
+  if (typeof value === 'string') return storable(value)
   if (typeof value === 'boolean') return value ? 'TRUE' : 'FALSE'
   if (value instanceof Date) return value.toISOString().replace(/T00:00:00\.000Z$/, '')
-  if ('richText' in value) return value.richText.map(part => part.text).join('')
-  if ('result' in value) return excelCellText(value.result as ExcelJS.CellValue)
+  if ('richText' in value) return storable(value.richText.map(part => part.text).join(''))
+  if ('result' in value && value.result !== undefined) return excelCellText(value.result as ExcelJS.CellValue)
+  // A formula whose value was never saved (scripts write such workbooks): shown as the formula, so
+  // the cell counts as unreadable instead of passing for a blank.
+  if ('formula' in value && value.formula) return storable(`=${value.formula}`)
   if ('text' in value) return String(value.text)
   if ('error' in value) return String(value.error)
   return ''
 }
 
+const DAMAGED_WORKBOOK = 'This workbook cannot be read: it is damaged, cut off, or not an Excel .xlsx file. Open it in the spreadsheet program and save it again as .xlsx, or export the sheet as CSV.'
+
 async function* workbookRows(input: Readable) {
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(input, { sharedStrings: 'cache', hyperlinks: 'ignore', styles: 'cache', worksheets: 'emit' })
-  // The first worksheet holds the data; a workbook with several sheets is read from its first one.
-  for await (const worksheet of reader) {
-    for await (const row of worksheet as AsyncIterable<ExcelJS.Row>) {
-      const values = row.values as ExcelJS.CellValue[]
-      const cells: string[] = []
-      for (let i = 1; i < values.length; i++) cells.push(excelCellText(values[i]))
-      yield cells
+  try {
+    // The first worksheet holds the data; a workbook with several sheets is read from its first one.
+    for await (const worksheet of reader) {
+      for await (const row of worksheet as AsyncIterable<ExcelJS.Row>) {
+        const values = row.values as ExcelJS.CellValue[]
+        const cells: string[] = []
+        for (let i = 1; i < values.length; i++) cells.push(excelCellText(values[i]))
+        yield cells
+      }
+      return
     }
-    return
+  }
+  catch (error) {
+    // A zip that is no workbook, or a workbook cut off, fails inside the unzipping.
+    if (error instanceof UnreadableFile) throw error
+    throw new UnreadableFile(DAMAGED_WORKBOOK)
+  }
+  throw new UnreadableFile('This .xlsx file holds no worksheet. Save the sheet with the data as .xlsx again, or export it as CSV.')
+}
+
+/** stream-json's Assembler option, missing from its types: numbers arrive as the text the file wrote. */
+const JSON_PARSING: Parameters<typeof StreamArray.withParser>[0] & { numberAsString: boolean } = { numberAsString: true }
+
+/** Numbers come as their text in the file (JSON_PARSING), so 12.50 stays 12.50 and 1e400 is not Infinity. */
+function jsonCellText(value: unknown): string {
+  if (value === null || value === undefined) return ''
+  if (typeof value === 'string') return storable(value)
+  if (typeof value === 'boolean') return String(value)
+  try {
+    return storable(JSON.stringify(value))
+  }
+  catch (error) {
+    if (!(error instanceof RangeError)) throw error
+    throw new UnreadableFile('A value in this JSON file is nested too deeply to show as a cell. A JSON dataset must be an array of flat records, like [{"vendor": "…", "amount": 120.5}, …].')
   }
 }
 
-function jsonCellText(value: unknown): string {
-  if (value === null || value === undefined) return ''
-  if (typeof value === 'string') return value
-  if (typeof value === 'number') return numberText(value)
-  if (typeof value === 'boolean') return String(value)
-  return JSON.stringify(value)
-}
-
 async function* jsonRows(input: Readable, meta: RowSource['meta']) {
-  const records = input.pipe(StreamArray.withParser())
+  const records = input.pipe(StreamArray.withParser(JSON_PARSING))
   const sample: Record<string, unknown>[] = []
   let header: string[] | null = null
   let index: Map<string, number> = new Map()
@@ -156,7 +200,7 @@ async function* jsonRows(input: Readable, meta: RowSource['meta']) {
     for (const record of sample) for (const key of Object.keys(record)) keys.add(key)
     header = [...keys]
     index = new Map(header.map((key, i) => [key, i]))
-    yield header
+    yield header.map(storable)
     for (const record of sample) yield toCells(record)
   }
   try {
@@ -173,7 +217,7 @@ async function* jsonRows(input: Readable, meta: RowSource['meta']) {
   }
   catch (error) {
     if (error instanceof UnreadableFile) throw error
-    throw new UnreadableFile(`This JSON file cannot be read: ${(error as Error).message.split('\n')[0]}. A JSON dataset must be one complete array of records.`)
+    throw new UnreadableFile(`This JSON file cannot be read: ${(error as Error).message.split('\n')[0]!.replace(/\.$/, '')}. A JSON dataset must be one complete array of records.`)
   }
   if (!header) yield* start()
 }
@@ -197,7 +241,7 @@ async function* inBatches(rows: AsyncIterable<string[]>): AsyncIterable<string[]
 export function openRows(format: DatasetFormat, path: string, encoding: TextEncoding, bomLength: number): RowSource {
   const meta: RowSource['meta'] = { delimiter: null, extraFields: 0 }
   const file = createReadStream(path, { start: format === 'xlsx' ? 0 : bomLength, highWaterMark: 1 << 20 })
-  const text = () => file.pipe(decoding(encoding))
+  const text = () => file.pipe(decoding(encoding, format !== 'json'))
   const rows = format === 'xlsx'
     ? inBatches(workbookRows(file))
     : format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)

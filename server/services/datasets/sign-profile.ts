@@ -1,6 +1,17 @@
+import { compareDecimal, toDecimal } from '#shared/digits'
 import type { ColumnProfile as SuitabilityProfile, DigitRecord } from '#shared/digits'
 
 interface Extreme { abs: number, text: string, count: number }
+
+/**
+ * Orders two stored values (a double and the exact decimal text it came from). The double decides
+ * unless it ties on different texts: 1e309 and 1e999 are both Infinity, and beyond 17 digits
+ * doubles of different values are equal.
+ */
+export function compareValues(a: number, aText: string, b: number, bText: string): number {
+  if (a !== b) return a < b ? -1 : 1
+  return aText === bText ? 0 : compareDecimal(toDecimal(aText), toDecimal(bText))
+}
 
 /**
  * The column facts the suitability check reads (the engine's ColumnProfile), for the values of one
@@ -24,10 +35,12 @@ export class SignProfile {
     this.lengths.set(record.integerDigits, (this.lengths.get(record.integerDigits) ?? 0) + 1)
     const text = record.value!.replace(/^-/, '')
     const abs = Number(text)
-    if (!this.min || abs < this.min.abs) this.min = { abs, text, count: 1 }
-    else if (abs === this.min.abs) this.min.count++
-    if (!this.max || abs > this.max.abs) this.max = { abs, text, count: 1 }
-    else if (abs === this.max.abs) this.max.count++
+    const toMin = this.min ? compareValues(abs, text, this.min.abs, this.min.text) : -1
+    if (toMin < 0) this.min = { abs, text, count: 1 }
+    else if (toMin === 0) this.min!.count++
+    const toMax = this.max ? compareValues(abs, text, this.max.abs, this.max.text) : 1
+    if (toMax > 0) this.max = { abs, text, count: 1 }
+    else if (toMax === 0) this.max!.count++
   }
 
   toProfile(topValue: number): SuitabilityProfile | null {

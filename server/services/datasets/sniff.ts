@@ -26,15 +26,45 @@ function startsWith(head: Uint8Array, bytes: number[]) {
   return bytes.every((b, i) => head[i] === b)
 }
 
-/** Text encoding from the byte-order mark, else UTF-8 when the start decodes cleanly, else Latin-1 (Windows-1252). */
+const UTF32_MARKS = [[0xFF, 0xFE, 0x00, 0x00], [0x00, 0x00, 0xFE, 0xFF]]
+
+/**
+ * UTF-16 without a byte-order mark (some database and PowerShell exports): text of Latin letters
+ * and digits has a NUL in every other byte, on one side only. Null when the bytes do not say so.
+ */
+function unmarkedUtf16(head: Uint8Array): 'utf-16le' | 'utf-16be' | null {
+  const pairs = Math.floor(Math.min(head.length, 4096) / 2)
+  if (pairs < 4) return null
+  const text = (b: number) => b === 0x09 || b === 0x0A || b === 0x0D || (b >= 0x20 && b < 0x7F)
+  let little = 0
+  let big = 0
+  let zeros = 0
+  for (let i = 0; i < pairs; i++) {
+    const [a, b] = [head[2 * i]!, head[2 * i + 1]!]
+    if (a === 0 && b === 0) zeros++
+    else if (b === 0 && text(a)) little++
+    else if (a === 0 && text(b)) big++
+  }
+  if (zeros > 0.02 * pairs) return null
+  if (little >= 0.5 * pairs && big === 0) return 'utf-16le'
+  if (big >= 0.5 * pairs && little === 0) return 'utf-16be'
+  return null
+}
+
+/**
+ * Text encoding from the byte-order mark, else UTF-16 when its NULs show, else UTF-8 when the
+ * start decodes cleanly, else Latin-1 (Windows-1252).
+ */
 export function detectEncoding(head: Uint8Array): { encoding: TextEncoding, bomLength: number } {
   if (startsWith(head, [0xEF, 0xBB, 0xBF])) return { encoding: 'utf-8', bomLength: 3 }
   if (startsWith(head, [0xFF, 0xFE])) return { encoding: 'utf-16le', bomLength: 2 }
   if (startsWith(head, [0xFE, 0xFF])) return { encoding: 'utf-16be', bomLength: 2 }
-  // A multi-byte character may be cut at the end of the sample: leave its last bytes out of the check.
-  const sample = head.subarray(0, Math.max(0, head.length - 3))
+  const utf16 = unmarkedUtf16(head)
+  if (utf16) return { encoding: utf16, bomLength: 0 }
   try {
-    new TextDecoder('utf-8', { fatal: true }).decode(sample)
+    // Streaming: a multi-byte character cut at the end of the sample is not an error, and one
+    // that ends the file is still checked (cutting bytes off the end read "Café\r\n" as Latin-1).
+    new TextDecoder('utf-8', { fatal: true }).decode(head, { stream: true })
     return { encoding: 'utf-8', bomLength: 0 }
   }
   catch {
@@ -69,6 +99,10 @@ export function checkContent(format: DatasetFormat, head: Uint8Array) {
     return
   }
   if (isZip) throw new UnreadableFile('This file is a compressed archive or a workbook, not text. Upload workbooks with the .xlsx extension.', 415)
+  // Checked before UTF-16, whose mark begins UTF-32 little-endian's.
+  if (UTF32_MARKS.some(mark => startsWith(head, mark))) {
+    throw new UnreadableFile('This file is UTF-32 text, which Mantissa does not read. Save it again as UTF-8 (or UTF-16) and upload it.', 415)
+  }
   const { encoding } = detectEncoding(head)
   if (encoding.startsWith('utf-16')) return
   const controls = head.reduce((n, b) => n + (b === 0 || (b < 0x09) || (b > 0x0D && b < 0x20 && b !== 0x1B) ? 1 : 0), 0)

@@ -85,6 +85,8 @@ export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id:
   if (!file) throw fail(400, [{ path: 'file', message: 'Choose a file to upload.' }])
   const { models } = useDb()
   try {
+    const unstorable = unstorableText(fields)
+    if (unstorable.length) throw fail(400, unstorable)
     const parsed = datasetUploadSchema.safeParse(fields)
     if (!parsed.success) throw fail(400, fieldErrors(parsed.error))
     if (file.byteSize === 0) throw fail(422, { message: 'The file is empty.' })

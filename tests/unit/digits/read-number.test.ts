@@ -128,6 +128,15 @@ describe('reading numbers from text', () => {
     expect(read('1e99999999999999999999')).toBe('unreadable')
   })
 
+  it('reads up to a thousand significant digits and no more', () => {
+    // MAX_SIGNIFICANT_DIGITS in read-number.ts: a value beyond it could not be stored exactly.
+    const most = `0.${'3'.repeat(1000)}`
+    expect(read(most)).toBe(`${'3'.repeat(1000)}e-1`)
+    expect(read(`${most}3`)).toBe('unreadable')
+    expect(read(`0.${'3'.repeat(1 << 20)}`)).toBe('unreadable')
+    expect(read(`${'1'.repeat(1001)}e-995`)).toBe('unreadable')
+  })
+
   it('gives back every double exactly (property)', () => {
     fc.assert(fc.property(fc.double({ noNaN: true, noDefaultInfinity: true }).filter(x => x !== 0), (x) => {
       expect(Number(decimalText(readNumber(x)))).toBe(x)
