@@ -18,6 +18,10 @@ describe('writing an investigation', () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 1000 } })
     const errors: string[] = []
     page.on('pageerror', error => errors.push(error.message))
+    // Vue reports a page the server drew differently from the browser's first render as a console error.
+    page.on('console', (message) => {
+      if (message.type() === 'error' && /hydration/i.test(message.text())) errors.push(message.text())
+    })
     await signInThroughPage(page, reporter.email, demo.password)
     await page.waitForURL(/\/newsrooms\//)
     await page.getByLabel('Working title').fill('Browser test story')
