@@ -48,8 +48,8 @@ export function memoryOf(pid) {
 export const median = list => [...list].sort((a, b) => a - b)[Math.floor(list.length / 2)]
 
 /** A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. */
-export async function startBench(port = 3201) {
-  const database = ensurePostgres({ name: 'bench', port: 54349, database: 'mantissa_bench', throwaway: true })
+export async function startBench(port = 3601) {
+  const database = ensurePostgres({ name: 'bench', port: 54369, database: 'mantissa_bench', throwaway: true })
   database.recreate()
   migrate(database.url)
   buildIfStale()
@@ -59,7 +59,7 @@ export async function startBench(port = 3201) {
     env: {
       ...process.env, PORT: String(port), NITRO_HOST: '127.0.0.1', NUXT_DATABASE_URL: database.url,
       NUXT_SESSION_PASSWORD: 'bench-only-session-password-of-32-characters', NUXT_DEMO_SEED: 'true',
-      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: '2725', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
+      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: '2765', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
       NUXT_STORAGE_BASE: join(root, '.data', 'bench-files'),
     },
   })
