@@ -24,3 +24,8 @@ export function formatStatistic(value: number | null | undefined, digits = 4): s
   if (value !== 0 && Math.abs(value) < 10 ** -digits) return value.toExponential(1)
   return value.toFixed(digits)
 }
+
+/** "1 live link", "3 live links": a count with its noun in the right number. */
+export function countOf(count: number, singular: string, plural = `${singular}s`): string {
+  return `${formatCount(count)} ${count === 1 ? singular : plural}`
+}

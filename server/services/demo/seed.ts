@@ -3,8 +3,8 @@ import { importDataset } from '../datasets/import'
 import { runAnalysis } from '../investigations/analysis'
 import { DEMO_NEWSROOM, DEMO_PASSWORD, DEMO_PEOPLE } from './people'
 import { demoLedgerCsv } from './payments'
-import { DEMO_CLAIMS, DEMO_STORY } from './story'
-import { decideReview } from '../investigations/review'
+import { DEMO_CLAIMS, DEMO_FOLLOW_UP, DEMO_STORY } from './story'
+import { decideReview, requestReview } from '../investigations/review'
 import { createClaim, disputeClaim, findClaim, verifyClaim } from '../investigations/claims'
 import { publish } from '../publishing/publish'
 import type { Actor } from '../../utils/permissions'
@@ -49,7 +49,7 @@ function actorOf(people: DemoPeople, userId: string, role: Actor['role']): Actor
   return { userId, name: person.name, email: person.email, newsroomId: people.newsroomId, role }
 }
 
-/** The draft with its blocks run, a claim in each state, reviews in each state, and a published version. */
+/** The draft with its blocks run, a claim in each state, reviews in each state, a published version, and work since, back in review. */
 async function seedStory(people: DemoPeople, datasetId: string) {
   const { models } = useDb()
   const { newsroomId, reporterId } = people
@@ -80,6 +80,10 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   const { claim: disputed } = await findClaim(DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
   const published = await publish(editor, investigation, { reason: 'Demo newsroom: published with checks still open, to show the public page.' })
+  await models.Block.create({
+    investigationId: investigation.id, kind: 'prose', position: blocks.length, content: DEMO_FOLLOW_UP, createdBy: reporterId, updatedBy: reporterId,
+  })
+  await requestReview(reporter, investigation)
   return published.url
 }
 

@@ -47,3 +47,9 @@ export const DEMO_STORY: StoryBlock[] = [
     content: doc(paragraph('None of this shows wrongdoing. It tells us which invoices to request and which questions to put to the council and the supplier before anything is published.')),
   },
 ]
+
+/** Written after the first publication: the draft moves on while the public page stays frozen. */
+export const DEMO_FOLLOW_UP: ProseContent = doc(
+  heading('Still to do before the next version'),
+  paragraph('The council\u2019s finance office has been asked for the approval records of every invoice between 24,000 and 25,000. Its answer goes here, and back to the desk for review, before this page is published again.'),
+)
