@@ -6,7 +6,7 @@ import type { TestNewsroom } from '../support/newsroom'
 import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// The notices issue 6 lists: review requested, block sent back, claim disputed, lock lifted; a member can turn them off.
+// The notices issue 6 lists: review requested, block sent back, claim disputed, lock lifted, investigation published; a member can turn them off.
 
 async function deskWithStory(label: string): Promise<{ newsroom: TestNewsroom, story: Story }> {
   const newsroom = await createTestNewsroom(label)
@@ -66,6 +66,20 @@ describe('e-mail notices', () => {
       const mail = await waitForMail(email, `Lock lifted: ${story.title}`)
       expect(mail.text).toContain('A supplier was renamed after checking.')
     }
+  })
+
+  it('tells every other member that the investigation is published, with the reason for open checks, never the public link', async () => {
+    const published = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { reason: 'The council confirmed the figures by phone.' })
+    expectStatus(published, 201)
+    const token = published.body.url.split('/p/')[1]
+    for (const role of ['admin', 'fact-checker', 'reporter'] as const) {
+      const mail = await waitForMail(newsroom.emails[role], `Published: ${story.title}`)
+      expect(mail.text).toContain('The council confirmed the figures by phone.')
+      expect(mail.text).toContain(`/investigations/${story.id}`)
+      // DESIGN.md: only the token's hash is stored; the link is shown once to the one who published.
+      expect(mail.text).not.toContain(token)
+    }
+    expect(await noticesAbout(newsroom.emails['data-editor'], story)).not.toContain(`Published: ${story.title}`)
   })
 })
 

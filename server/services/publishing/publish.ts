@@ -99,7 +99,7 @@ export async function publish(actor: Actor, investigation: Investigation, option
   const url = `${useRuntimeConfig().publicUrl}/p/${token}`
   await notifyUsers(await membersWithRoles(actor.newsroomId, ['admin', 'data-editor', 'fact-checker', 'reporter']), {
     subject: `Published: ${investigation.title}`,
-    lines: [`${actor.name} published “${investigation.title}”.${blockers.length ? ` They published with ${blockers.length} check(s) open, giving this reason: ${options.reason}` : ''}`, 'The public link is in the investigation, under Publishing.'],
+    lines: [`${actor.name} published “${investigation.title}”.${blockers.length ? ` They published with ${blockers.length} ${blockers.length === 1 ? 'check' : 'checks'} open, giving this reason: ${options.reason}` : ''}`, 'The public link is in the investigation, under Publishing.'],
     path: `/investigations/${investigation.id}`,
   }, actor.userId)
   return { url, link: shareLinkDTO(link, publication.publishedAt, publication.overrideReason, await userNames([actor.userId])) }
