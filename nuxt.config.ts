@@ -19,7 +19,12 @@ export default defineNuxtConfig({
     publicUrl: 'http://localhost:3000',
     demoSeed: false,
     uploadLimitBytes: 200 * 1024 * 1024,
-    storage: { driver: 'fs', base: '.data/files' },
+    // driver "fs" keeps files under base; "s3" keeps them in the bucket and stages uploads under base.
+    storage: {
+      driver: 'fs', base: '.data/files',
+      bucket: '', region: '', endpoint: '', forcePathStyle: false, accessKeyId: '', secretAccessKey: '', prefix: '',
+    },
+    jobs: { schema: 'pgboss' },
     session: {
       maxAge: 60 * 60 * 12,
       cookie: { sameSite: 'lax', httpOnly: true },

@@ -1,66 +1,22 @@
-import { createHash, randomUUID } from 'node:crypto'
-import { createWriteStream } from 'node:fs'
-import { mkdir, rename, rm, stat } from 'node:fs/promises'
-import { dirname, join, resolve } from 'node:path'
-import type { Readable } from 'node:stream'
-import { pipeline } from 'node:stream/promises'
-import { Transform } from 'node:stream'
+import { join, resolve } from 'node:path'
+import { createFileStore } from './file-drivers/store'
+import type { FileStore } from './file-drivers/store'
+import { fsDriver } from './file-drivers/fs'
+import { s3Driver } from './file-drivers/s3'
 
-export class TooLarge extends Error {}
-
-export interface StoredFile {
-  key: string
-  sha256: string
-  byteSize: number
-  head: Buffer
-}
-
-const HEAD_BYTES = 64 * 1024
+let store: FileStore | undefined
 
 /**
  * Original uploads, kept byte for byte under their SHA-256 (identical files are stored once).
- * The folder comes from runtime config (NUXT_STORAGE_BASE); several app servers share it
- * through a network file system.
+ * Runtime config chooses where (NUXT_STORAGE_DRIVER): a folder (`fs`, NUXT_STORAGE_BASE), which
+ * several app servers share through a network file system, or an S3 bucket (`s3`). Uploads stage
+ * in the folder's `incoming/` either way.
  */
-export function useFileStore() {
-  const base = resolve(useRuntimeConfig().storage.base)
-  const pathOf = (key: string) => join(base, key)
-
-  /** Streams `input` to storage while hashing it; refuses more than `limit` bytes. */
-  async function save(input: Readable, limit: number): Promise<StoredFile> {
-    const incoming = pathOf(`incoming/${randomUUID()}`)
-    await mkdir(dirname(incoming), { recursive: true })
-    const hash = createHash('sha256')
-    let byteSize = 0
-    const heads: Buffer[] = []
-    let headLength = 0
-    const meter = new Transform({
-      transform(chunk: Buffer, _encoding, done) {
-        byteSize += chunk.length
-        if (byteSize > limit) return done(new TooLarge())
-        if (headLength < HEAD_BYTES) {
-          heads.push(chunk.subarray(0, HEAD_BYTES - headLength))
-          headLength += Math.min(chunk.length, HEAD_BYTES - headLength)
-        }
-        hash.update(chunk)
-        done(null, chunk)
-      },
-    })
-    try {
-      await pipeline(input, meter, createWriteStream(incoming))
-    }
-    catch (error) {
-      await rm(incoming, { force: true })
-      throw error
-    }
-    const sha256 = hash.digest('hex')
-    const key = `datasets/${sha256.slice(0, 2)}/${sha256}`
-    const target = pathOf(key)
-    await mkdir(dirname(target), { recursive: true })
-    if (await stat(target).then(() => true, () => false)) await rm(incoming, { force: true })
-    else await rename(incoming, target)
-    return { key, sha256, byteSize, head: Buffer.concat(heads) }
-  }
-
-  return { save, pathOf, remove: (key: string) => rm(pathOf(key), { force: true }) }
+export function useFileStore(): FileStore {
+  if (store) return store
+  const { driver, base, ...s3 } = useRuntimeConfig().storage
+  const folder = resolve(base)
+  if (driver !== 'fs' && driver !== 's3') throw new Error(`NUXT_STORAGE_DRIVER must be "fs" or "s3", not "${driver}".`)
+  store = createFileStore(driver === 's3' ? s3Driver(s3) : fsDriver(folder), join(folder, 'incoming'))
+  return store
 }

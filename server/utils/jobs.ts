@@ -5,12 +5,13 @@ export const IMPORT_QUEUE = 'dataset-import'
 let starting: Promise<PgBoss> | undefined
 
 /**
- * The durable job queue, kept in PostgreSQL (schema "pgboss"), so that every app server
- * shares it and a job survives a restart.
+ * The durable job queue, kept in PostgreSQL (schema NUXT_JOBS_SCHEMA, "pgboss"), so that every
+ * app server shares it and a job survives a restart. Servers that share a queue must share file
+ * storage too: any of them may import any upload.
  */
 export function useJobs(): Promise<PgBoss> {
   starting ??= (async () => {
-    const boss = new PgBoss({ connectionString: useRuntimeConfig().databaseUrl, max: 4 })
+    const boss = new PgBoss({ connectionString: useRuntimeConfig().databaseUrl, schema: useRuntimeConfig().jobs.schema, max: 4 })
     boss.on('error', error => console.error('[jobs]', error.message))
     await boss.start()
     await boss.createQueue(IMPORT_QUEUE, {

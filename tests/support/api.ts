@@ -10,6 +10,9 @@ export interface Reply<T = any> {
 export class Client {
   cookie = ''
 
+  /** `base`: another app server than the one `npm test` starts (e.g. one configured differently). */
+  constructor(readonly base = baseUrl) {}
+
   /** `body`: FormData, a ReadableStream (sent as it streams, with `headers` naming its type), or JSON. */
   async request<T = any>(method: string, path: string, body?: unknown, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
     const headers: Record<string, string> = { accept: 'application/json', ...extraHeaders }
@@ -20,7 +23,7 @@ export class Client {
       headers['content-type'] = 'application/json'
       payload = JSON.stringify(body)
     }
-    const response = await fetch(`${baseUrl}${path}`, { method, headers, body: payload, redirect: 'manual', ...(payload instanceof ReadableStream ? { duplex: 'half' } : {}) })
+    const response = await fetch(`${this.base}${path}`, { method, headers, body: payload, redirect: 'manual', ...(payload instanceof ReadableStream ? { duplex: 'half' } : {}) })
     const setCookie = response.headers.getSetCookie()
     if (setCookie.length) this.cookie = setCookie.map(c => c.split(';')[0]).join('; ')
     const text = await response.text()
@@ -50,8 +53,8 @@ export class Client {
 }
 
 /** A client signed in with e-mail and password; fails the test when sign-in does not answer 200. */
-export async function signedIn(email: string, password: string): Promise<Client> {
-  const client = new Client()
+export async function signedIn(email: string, password: string, base = baseUrl): Promise<Client> {
+  const client = new Client(base)
   const reply = await client.post('/api/auth/login', { email, password })
   if (reply.status !== 200) throw new Error(`sign-in as ${email} answered ${reply.status}: ${JSON.stringify(reply.body)}`)
   return client

@@ -1,4 +1,4 @@
-import { open } from 'node:fs/promises'
+import { buffer } from 'node:stream/consumers'
 import type { PoolClient } from 'pg'
 import { QueryTypes } from 'sequelize'
 import { detectNumberStyle, recordOf, readNumber } from '#shared/digits'
@@ -94,14 +94,12 @@ export async function importDataset(datasetId: string): Promise<void> {
   const { sequelize, models } = useDb()
   const dataset = await models.Dataset.findByPk(datasetId)
   if (!dataset || dataset.status !== 'importing') return
-  const path = useFileStore().pathOf(dataset.storageKey)
-  const handle = await open(path)
-  const head = Buffer.alloc(64 * 1024)
-  const { bytesRead } = await handle.read(head, 0, head.length, 0)
-  await handle.close()
+  const files = useFileStore()
+  const openStored = (start = 0) => files.open(dataset.storageKey, start)
+  const head = await buffer(await files.open(dataset.storageKey, 0, 64 * 1024 - 1))
   const { encoding, bomLength } = dataset.format === 'xlsx'
-    ? detectEncoding(head.subarray(0, bytesRead))
-    : await detectFileEncoding(path, head.subarray(0, bytesRead))
+    ? detectEncoding(head)
+    : await detectFileEncoding(openStored, head)
   const names = partitionNames(datasetId)
   // The CHECK constraints, made while the tables are empty, let ATTACH PARTITION skip its scan.
   const onlyThis = `CHECK (dataset_id = '${datasetId}')`
@@ -111,7 +109,7 @@ export async function importDataset(datasetId: string): Promise<void> {
     const datasetBytes = uuidBytes(datasetId)
     const rowsOut = await CopyWriter.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, onlyThis)
     const digitsOut = await CopyWriter.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, onlyThis)
-    const source = openRows(dataset.format as DatasetFormat, path, encoding, bomLength)
+    const source = openRows(dataset.format as DatasetFormat, openStored, encoding, bomLength)
     let header: string[] | null = null
     let named = false
     let plan: ReturnType<typeof planColumns> | null = null

@@ -1,5 +1,5 @@
-import { createReadStream } from 'node:fs'
 import { Transform } from 'node:stream'
+import { pipeline } from 'node:stream/promises'
 import type { Readable } from 'node:stream'
 import Papa from 'papaparse'
 import ExcelJS from 'exceljs'
@@ -237,13 +237,41 @@ async function* inBatches(rows: AsyncIterable<string[]>): AsyncIterable<string[]
   if (batch.length) yield batch
 }
 
-/** Opens a stored file as rows of text cells, whatever its format. */
-export function openRows(format: DatasetFormat, path: string, encoding: TextEncoding, bomLength: number): RowSource {
+/**
+ * Ends the rows with the stored file's error (a dropped connection to the store) instead of
+ * waiting for the parser, which does not hear of it, and lets go of the file once the rows stop.
+ */
+async function* untilFailure<T>(file: Readable, rows: AsyncIterable<T>): AsyncIterable<T> {
+  const failed = new Promise<never>((_, reject) => file.once('error', reject))
+  failed.catch(() => {})
+  const iterator = rows[Symbol.asyncIterator]()
+  try {
+    while (true) {
+      const next = await Promise.race([iterator.next(), failed])
+      if (next.done) return
+      yield next.value
+    }
+  }
+  finally {
+    file.destroy()
+  }
+}
+
+/** Opens a stored file (`open` reads it from an offset) as rows of text cells, whatever its format. */
+export function openRows(format: DatasetFormat, open: (start: number) => Promise<Readable>, encoding: TextEncoding, bomLength: number): RowSource {
   const meta: RowSource['meta'] = { delimiter: null, extraFields: 0 }
-  const file = createReadStream(path, { start: format === 'xlsx' ? 0 : bomLength, highWaterMark: 1 << 20 })
+  let bytesRead = 0
+  const file = new Transform({
+    highWaterMark: 1 << 20,
+    transform(chunk: Buffer, _encoding, done) {
+      bytesRead += chunk.length
+      done(null, chunk)
+    },
+  })
+  open(format === 'xlsx' ? 0 : bomLength).then(input => pipeline(input, file)).catch(error => file.destroy(error))
   const text = () => file.pipe(decoding(encoding, format !== 'json'))
   const rows = format === 'xlsx'
     ? inBatches(workbookRows(file))
     : format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)
-  return { rows, meta, bytesRead: () => file.bytesRead }
+  return { rows: untilFailure(file, rows), meta, bytesRead: () => bytesRead }
 }

@@ -1,4 +1,4 @@
-import { createReadStream } from 'node:fs'
+import type { Readable } from 'node:stream'
 
 export const FORMATS = ['csv', 'tsv', 'xlsx', 'json'] as const
 export type DatasetFormat = typeof FORMATS[number]
@@ -77,18 +77,23 @@ export function detectEncoding(head: Uint8Array): { encoding: TextEncoding, bomL
  * whose start reads as UTF-8 but holds invalid bytes further on (a Latin-1 accent first met on
  * row 5,000) is Latin-1. One streamed pass over the file, never held in memory.
  */
-export async function detectFileEncoding(path: string, head: Uint8Array): Promise<{ encoding: TextEncoding, bomLength: number }> {
+export async function detectFileEncoding(open: () => Promise<Readable>, head: Uint8Array): Promise<{ encoding: TextEncoding, bomLength: number }> {
   const detected = detectEncoding(head)
   if (detected.encoding !== 'utf-8' || detected.bomLength > 0) return detected
   const decoder = new TextDecoder('utf-8', { fatal: true })
-  try {
-    for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 })) decoder.decode(chunk as Buffer, { stream: true })
-    decoder.decode()
-    return detected
+  const latin1 = { encoding: 'windows-1252', bomLength: 0 } as const
+  // Only a decoding error means Latin-1; a failed read is passed on.
+  const decodes = (chunk?: Buffer) => {
+    try {
+      decoder.decode(chunk, { stream: chunk !== undefined })
+      return true
+    }
+    catch {
+      return false
+    }
   }
-  catch {
-    return { encoding: 'windows-1252', bomLength: 0 }
-  }
+  for await (const chunk of await open()) if (!decodes(chunk as Buffer)) return latin1
+  return decodes() ? detected : latin1
 }
 
 /** Checks that the first bytes fit the promised format; a spreadsheet renamed .csv or a binary file is refused. */

@@ -5,8 +5,8 @@ import type { Actor } from '../../utils/permissions'
 import { importDataset } from './import'
 import { IMPORT_QUEUE } from '../../utils/jobs'
 import { UnreadableFile, checkContent, formatFromName } from './sniff'
-import type { StoredFile } from '../../utils/file-store'
-import { TooLarge } from '../../utils/file-store'
+import type { StoredFile } from '../../utils/file-drivers/store'
+import { TooLarge } from '../../utils/file-drivers/store'
 
 /** Files up to this size are imported while the upload waits, so errors come back as 4xx at once. */
 const INLINE_BYTES = 8 * 1024 * 1024
