@@ -44,7 +44,7 @@ export default defineNuxtConfig({
     build: { target: 'es2022' },
     esbuild: { target: 'es2022' },
     optimizeDeps: {
-      include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', 'vega-embed', 'vega-lite', 'vega', 'vega-interpreter', 'arquero', 'papaparse'],
+      include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', '@tiptap/pm/view', 'vega-embed', 'vega-lite', 'vega', 'vega-interpreter', 'arquero', 'papaparse', 'zod'],
     },
   },
   typescript: {

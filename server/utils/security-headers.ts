@@ -14,22 +14,28 @@ export function createCspNonce(): string {
 export function contentSecurityPolicy(nonce: string, { dev = false } = {}): string {
   const directives: Record<string, string[]> = {
     'default-src': ['\'self\''],
-    // Vite's development client injects and replaces modules with eval-based source maps; the
-    // built app never evaluates strings (charts draw through vega-interpreter).
-    'script-src': ['\'self\'', `'nonce-${nonce}'`, ...(dev ? ['\'unsafe-eval\''] : [])],
+    // Development only: Nuxt's error overlay is appended to an error page after rendering, so its
+    // inline scripts miss the nonce; they need 'unsafe-inline', which a nonce would switch off.
+    // Hot module updates need nothing more. Nothing ever needs 'unsafe-eval'.
+    'script-src': ['\'self\'', dev ? '\'unsafe-inline\'' : `'nonce-${nonce}'`],
     // Vue renders bound styles as `style="…"` attributes and vega-embed and Tiptap add <style>
     // elements at run time; none of them can carry a nonce (and a nonce here would switch
     // 'unsafe-inline' off). Styles cannot run code, so this is the usual trade.
     'style-src': ['\'self\'', '\'unsafe-inline\''],
-    // Vega hands its chart images (the PNG and SVG downloads) over as data: and blob: addresses.
+    // The chart images Vega makes (PNG and SVG) are data: and blob: addresses; showing one in a
+    // page must not need a change here.
     'img-src': ['\'self\'', 'data:', 'blob:'],
-    'font-src': ['\'self\'', 'data:'],
-    // Vite's hot-reload socket; in the built app 'self' is all the page talks to.
-    'connect-src': ['\'self\'', ...(dev ? ['ws:', 'wss:'] : [])],
+    // Merriweather and Inter ship with the app (@fontsource).
+    'font-src': ['\'self\''],
+    // 'self' covers the development server's hot-reload socket too (same host and port).
+    'connect-src': ['\'self\''],
     'object-src': ['\'none\''],
     'base-uri': ['\'none\''],
     'form-action': ['\'self\''],
     'frame-ancestors': ['\'none\''],
+    // Development only: when the server restarts, Vite's client waits for it in a worker made
+    // from a blob: address; Nuxt's error overlay shows the error page in a data: frame.
+    ...(dev ? { 'worker-src': ['\'self\'', 'blob:'], 'frame-src': ['\'self\'', 'data:'] } : {}),
   }
   return Object.entries(directives).map(([name, sources]) => `${name} ${sources.join(' ')}`).join('; ')
 }
