@@ -27,7 +27,10 @@ export default defineNuxtConfig({
     jobs: { schema: 'pgboss' },
     session: {
       maxAge: 60 * 60 * 12,
-      cookie: { sameSite: 'lax', httpOnly: true },
+      // Secure everywhere, not only in production: browsers keep Secure cookies on http://localhost,
+      // so development and the tests sign in, and a deployment without HTTPS fails at sign-in
+      // instead of sending the session in clear.
+      cookie: { sameSite: 'lax', httpOnly: true, secure: true },
     },
   },
   // Static files live with the app, keeping the repository's top level to its fixed folders.
@@ -46,7 +49,7 @@ export default defineNuxtConfig({
     build: { target: 'es2022' },
     esbuild: { target: 'es2022' },
     optimizeDeps: {
-      include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', 'vega-embed', 'vega-lite', 'vega', 'arquero', 'papaparse'],
+      include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', '@tiptap/pm/view', 'vega-embed', 'vega-lite', 'vega', 'vega-interpreter', 'arquero', 'papaparse', 'zod'],
     },
   },
   typescript: {

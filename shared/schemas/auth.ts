@@ -1,4 +1,4 @@
-import { z } from 'zod'
+import { z } from './zod'
 import { ROLES } from '../auth/roles'
 
 export const emailSchema = z.string().trim().toLowerCase().email('Enter an e-mail address such as name@newsroom.org').max(254)

@@ -1,4 +1,4 @@
-import { z } from 'zod'
+import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
 
 const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)

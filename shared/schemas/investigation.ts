@@ -1,4 +1,4 @@
-import { z } from 'zod'
+import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
 import { filterSchema } from './dataset'
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import demo from '../../server/services/demo/people.json'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { launchBrowser, screenshot, signInThroughPage, watchCspViolations } from '../support/browser'
 
 let browser: Browser
 beforeAll(async () => {
@@ -22,6 +22,7 @@ describe('writing an investigation', () => {
     page.on('console', (message) => {
       if (message.type() === 'error' && /hydration/i.test(message.text())) errors.push(message.text())
     })
+    const cspViolations = await watchCspViolations(page)
     await signInThroughPage(page, reporter.email, demo.password)
     await page.waitForURL(/\/newsrooms\//)
     await page.getByLabel('Working title').fill('Browser test story')
@@ -51,11 +52,14 @@ describe('writing an investigation', () => {
     await rowsPanel.getByText(/Page 1 of/).waitFor({ timeout: 10_000 })
     expect(await rowsPanel.locator('tbody tr').count()).toBe(50)
     await screenshot(page, 'investigation-analysis')
+    // The chart drew under the Content-Security-Policy, which forbids evaluating strings: nothing was blocked.
+    expect(await cspViolations()).toEqual([])
 
     // The paragraph survived: reload and read it back from the server.
     await page.reload()
     await expect(page.locator('.ProseMirror').first().textContent({ timeout: 10_000 })).resolves.toContain('Suppliers were paid thousands of times last year.')
     expect(errors).toEqual([])
+    expect(await cspViolations()).toEqual([])
     await page.close()
   })
 })

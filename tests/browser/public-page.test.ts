@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { baseUrl, signedIn } from '../support/api'
 import demo from '../../server/services/demo/people.json'
-import { artifacts, launchBrowser, screenshot } from '../support/browser'
+import { artifacts, launchBrowser, screenshot, watchCspViolations } from '../support/browser'
 
 let browser: Browser
 let publicUrl: string
@@ -29,6 +29,7 @@ describe('the published page', () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } })
     expect(await context.cookies()).toEqual([])
     const page = await context.newPage()
+    const cspViolations = await watchCspViolations(page)
     await page.goto(publicUrl)
     await page.getByRole('heading', { level: 1, name: /Invoices that stop just short/ }).waitFor()
     await page.locator('figure svg').first().waitFor({ timeout: 20_000 })
@@ -37,6 +38,14 @@ describe('the published page', () => {
     await expect(page.getByText(/Methodology: Invoices that stop/).count()).resolves.toBe(1)
     expect(await page.locator('.ProseMirror, [contenteditable="true"]').count()).toBe(0)
     await screenshot(page, 'public-page')
+
+    // The chart downloads render the chart again, off screen, under the same policy.
+    const [png] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Chart as PNG' }).first().click()])
+    expect(readFileSync(await png.path()).subarray(1, 4).toString()).toBe('PNG') // PNG signature (RFC 2083, 3.1)
+    const [svg] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Chart as SVG' }).first().click()])
+    expect(readFileSync(await svg.path(), 'utf8')).toMatch(/^<svg[^>]*xmlns="http:\/\/www.w3.org\/2000\/svg"/)
+    // The charts drew under the Content-Security-Policy, which forbids evaluating strings: nothing was blocked.
+    expect(await cspViolations()).toEqual([])
 
     const pdf = join(artifacts, 'public-page.pdf')
     await page.emulateMedia({ media: 'print' })

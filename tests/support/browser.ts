@@ -30,6 +30,22 @@ export async function waitForApp(page: Page) {
   await page.waitForFunction(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))
 }
 
+/**
+ * Collects the Content-Security-Policy violations a page reports, as the browser's
+ * `securitypolicyviolation` events and its console lines, for the test to expect none.
+ */
+export async function watchCspViolations(page: Page): Promise<() => Promise<string[]>> {
+  const lines: string[] = []
+  page.on('console', (message) => {
+    if (/Content Security Policy/i.test(message.text())) lines.push(message.text())
+  })
+  await page.addInitScript(() => {
+    const seen: string[] = ((window as { cspViolations?: string[] }).cspViolations = [])
+    document.addEventListener('securitypolicyviolation', event => seen.push(`${event.effectiveDirective} blocked ${event.blockedURI || 'inline'}`))
+  })
+  return async () => [...lines, ...await page.evaluate(() => (window as { cspViolations?: string[] }).cspViolations ?? [])]
+}
+
 export async function screenshot(page: Page, name: string) {
   mkdirSync(artifacts, { recursive: true })
   await page.screenshot({ path: join(artifacts, `${name}.png`), fullPage: true })

@@ -1,0 +1,61 @@
+import { randomBytes } from 'node:crypto'
+
+/** A fresh nonce for the inline scripts of one response (128 random bits). */
+export function createCspNonce(): string {
+  return randomBytes(16).toString('base64')
+}
+
+/**
+ * The Content-Security-Policy of every response. Scripts run only from this origin or with the
+ * response's nonce, which the renderer adds to the scripts Nuxt writes into the page
+ * (`server/plugins/security-headers.ts`). To allow a new source, add it to the one directive
+ * that needs it here, never to `default-src`.
+ */
+export function contentSecurityPolicy(nonce: string, { dev = false } = {}): string {
+  const directives: Record<string, string[]> = {
+    'default-src': ['\'self\''],
+    // Development only: Nuxt's error overlay is appended to an error page after rendering, so its
+    // inline scripts miss the nonce; they need 'unsafe-inline', which a nonce would switch off.
+    // Hot module updates need nothing more. Nothing ever needs 'unsafe-eval'.
+    'script-src': ['\'self\'', dev ? '\'unsafe-inline\'' : `'nonce-${nonce}'`],
+    // Vue renders bound styles as `style="…"` attributes and vega-embed and Tiptap add <style>
+    // elements at run time; none of them can carry a nonce (and a nonce here would switch
+    // 'unsafe-inline' off). Styles cannot run code, so this is the usual trade.
+    'style-src': ['\'self\'', '\'unsafe-inline\''],
+    // The chart images Vega makes (PNG and SVG) are data: and blob: addresses; showing one in a
+    // page must not need a change here.
+    'img-src': ['\'self\'', 'data:', 'blob:'],
+    // Merriweather and Inter ship with the app (@fontsource).
+    'font-src': ['\'self\''],
+    // 'self' covers the development server's hot-reload socket too (same host and port).
+    'connect-src': ['\'self\''],
+    'object-src': ['\'none\''],
+    'base-uri': ['\'none\''],
+    'form-action': ['\'self\''],
+    'frame-ancestors': ['\'none\''],
+    // Development only: when the server restarts, Vite's client waits for it in a worker made
+    // from a blob: address; Nuxt's error overlay shows the error page in a data: frame.
+    ...(dev ? { 'worker-src': ['\'self\'', 'blob:'], 'frame-src': ['\'self\'', 'data:'] } : {}),
+  }
+  return Object.entries(directives).map(([name, sources]) => `${name} ${sources.join(' ')}`).join('; ')
+}
+
+/**
+ * Every header Mantissa sends with every response, pages, API replies and static files alike.
+ * `https`: the configured public address is https, so browsers may be told to stay on it.
+ */
+export function securityHeaders(nonce: string, { dev = false, https = false } = {}): Record<string, string> {
+  return {
+    'Content-Security-Policy': contentSecurityPolicy(nonce, { dev }),
+    // For browsers that predate frame-ancestors.
+    'X-Frame-Options': 'DENY',
+    'X-Content-Type-Options': 'nosniff',
+    // A public link's address holds its token: no other site may see it in Referer. Same-origin
+    // requests keep their referrer (and their Origin header, which the origin check reads).
+    'Referrer-Policy': 'same-origin',
+    'Permissions-Policy': 'camera=(), microphone=(), geolocation=(), payment=(), usb=()',
+    'Cross-Origin-Opener-Policy': 'same-origin',
+    'Cross-Origin-Resource-Policy': 'same-origin',
+    ...(https ? { 'Strict-Transport-Security': 'max-age=31536000' } : {}),
+  }
+}
