@@ -4,7 +4,7 @@ import type { ZodError } from 'zod'
 export const STATUS_TEXT = {
   400: 'Invalid input',
   401: 'Sign in first',
-  403: 'Not allowed for your role',
+  403: 'Not allowed',
   404: 'Not found',
   409: 'Changed by someone else',
   413: 'File too large',

@@ -1,6 +1,7 @@
 import type { H3Event } from 'h3'
 import { can } from '#shared/auth/permissions'
 import type { Action } from '#shared/auth/permissions'
+import { ROLE_LABELS } from '#shared/auth/roles'
 import type { Role } from '#shared/auth/roles'
 
 export interface Actor {
@@ -31,7 +32,7 @@ export async function requirePermission(
   const user = await requireSignedIn(event)
   const membership = await useDb().models.Membership.findOne({ where: { userId: user.id, newsroomId: resource.newsroomId } })
   if (!membership) throw fail(404)
-  if (!can(membership.role, action, resource.ownerId === user.id)) throw fail(403)
+  if (!can(membership.role, action, resource.ownerId === user.id)) throw fail(403, { message: `Your role in this newsroom (${ROLE_LABELS[membership.role]}) does not allow this.` })
   return { userId: user.id, name: user.name, email: user.email, newsroomId: resource.newsroomId, role: membership.role }
 }
 

@@ -13,7 +13,7 @@ const FROM_ELSEWHERE = { origin: ELSEWHERE }
 
 function expectRefused(reply: Reply, from: string) {
   expect(reply.status, JSON.stringify(reply.body)).toBe(403)
-  expect(reply.body).toMatchObject({ statusCode: 403, statusMessage: 'Not allowed for your role' })
+  expect(reply.body).toMatchObject({ statusCode: 403, statusMessage: 'Not allowed' })
   expect(reply.body.data.message).toContain('only from its own pages')
   expect(reply.body.data.message).toContain(from)
 }
