@@ -10,6 +10,9 @@ export interface Reply<T = any> {
 export class Client {
   cookie = ''
 
+  /** `base`: the app to talk to; the fault tests run an app of their own beside the shared one. */
+  constructor(readonly base = baseUrl) {}
+
   /** `body`: FormData, a ReadableStream (sent as it streams, with `headers` naming its type), or JSON. */
   async request<T = any>(method: string, path: string, body?: unknown, extraHeaders: Record<string, string> = {}): Promise<Reply<T>> {
     const headers: Record<string, string> = { accept: 'application/json', ...extraHeaders }
@@ -20,7 +23,7 @@ export class Client {
       headers['content-type'] = 'application/json'
       payload = JSON.stringify(body)
     }
-    const response = await fetch(`${baseUrl}${path}`, { method, headers, body: payload, redirect: 'manual', ...(payload instanceof ReadableStream ? { duplex: 'half' } : {}) })
+    const response = await fetch(`${this.base}${path}`, { method, headers, body: payload, redirect: 'manual', ...(payload instanceof ReadableStream ? { duplex: 'half' } : {}) })
     const setCookie = response.headers.getSetCookie()
     if (setCookie.length) this.cookie = setCookie.map(c => c.split(';')[0]).join('; ')
     const text = await response.text()
