@@ -21,6 +21,7 @@ export const FAULT_PORT = portOf('MANTISSA_FAULT_PORT', 'MANTISSA_TEST_PORT', 31
 export const FAULT_MAIL_PORT = portOf('MANTISSA_FAULT_MAIL_PORT', 'MANTISSA_TEST_MAIL_PORT', 2625, 1)
 
 const STOP_WAIT_MS = 15_000
+const LOG_LINES = 80
 
 export interface FaultStack {
   url: string
@@ -82,9 +83,12 @@ export async function startFaultStack(): Promise<FaultStack> {
     const child = spawn(process.execPath, [server], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] })
     for (const stream of [child.stdout!, child.stderr!]) {
       stream.on('data', (chunk: Buffer) => {
-        output = [...output, ...chunk.toString().split('\n').filter(Boolean)].slice(-60)
+        output = [...output, ...chunk.toString().split('\n').filter(Boolean)].slice(-LOG_LINES)
       })
     }
+    child.on('exit', (code, signal) => {
+      output = [...output, `[the app exited: ${signal ?? `code ${code}`}]`].slice(-LOG_LINES)
+    })
     stack.app = child
     await waitForServer(url, 60)
   }
