@@ -75,6 +75,8 @@ export async function startFaultStack(): Promise<FaultStack> {
     NUXT_DEMO_SEED: 'false',
     NUXT_PUBLIC_URL: url,
     NUXT_STORAGE_BASE: storage,
+    // Set here, not inherited: `npm test` lowers the limit for the shared app below the queued upload's size.
+    NUXT_UPLOAD_LIMIT_BYTES: String(64 * 1024 * 1024),
     PORT: String(FAULT_PORT),
     NITRO_HOST: '127.0.0.1',
   }
