@@ -19,6 +19,8 @@ export function useAnalysisBlock(block: Ref<BlockDTO>) {
     error.value = ''
     fields.value = {}
     try {
+      // The server runs the settings it holds: choices still on their way to it must land first.
+      await useDocumentStore().whenSaved(block.value.id)
       data.value = await $fetch<AnalysisRunDTO>(`/api/blocks/${block.value.id}/run`, { method: 'POST' })
     }
     catch (e) {

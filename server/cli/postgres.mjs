@@ -92,13 +92,16 @@ export function ensurePostgres({ name, port, database, throwaway = false }) {
     appendFileSync(join(dataDir, 'postgresql.conf'), `\n# Mantissa\n${settings.join('\n')}\n`)
   }
 
-  const status = pgRun(bin, 'pg_ctl', ['-D', dataDir, 'status'])
-  if (status.status !== 0) {
-    log(`starting on 127.0.0.1:${port}`)
-    if (isRoot && !existsSync(logFile)) execFileSync('install', ['-o', 'postgres', '-m', '0644', '/dev/null', logFile])
-    mustRun(bin, 'pg_ctl', ['-D', dataDir, '-w', '-t', '60', '-l', logFile, 'start'])
+  const start = () => {
+    const status = pgRun(bin, 'pg_ctl', ['-D', dataDir, 'status'])
+    if (status.status !== 0) {
+      log(`starting on 127.0.0.1:${port}`)
+      if (isRoot && !existsSync(logFile)) execFileSync('install', ['-o', 'postgres', '-m', '0644', '/dev/null', logFile])
+      mustRun(bin, 'pg_ctl', ['-D', dataDir, '-w', '-t', '60', '-l', logFile, 'start'])
+    }
+    mustRun(bin, 'pg_isready', ['-h', '127.0.0.1', '-p', String(port), '-t', '30'])
   }
-  mustRun(bin, 'pg_isready', ['-h', '127.0.0.1', '-p', String(port), '-t', '30'])
+  start()
 
   const psql = sql => mustRun(bin, 'psql', ['-h', socketDir, '-p', String(port), '-U', 'postgres', '-d', 'postgres', '-tAc', sql]).trim()
   if (psql(`SELECT 1 FROM pg_roles WHERE rolname = '${database}'`) !== '1') {
@@ -117,5 +120,11 @@ export function ensurePostgres({ name, port, database, throwaway = false }) {
     stop() {
       pgRun(bin, 'pg_ctl', ['-D', dataDir, '-m', 'fast', 'stop'])
     },
+    /** Stops the server the way a crash would: every backend killed, no checkpoint (fault tests). */
+    crash() {
+      mustRun(bin, 'pg_ctl', ['-D', dataDir, '-m', 'immediate', 'stop'])
+    },
+    /** Starts the server again after stop() or crash(); it replays its log like after a crash. */
+    start,
   }
 }

@@ -10,7 +10,7 @@ export interface Reply<T = any> {
 export class Client {
   cookie = ''
 
-  /** `base`: another app server than the one `npm test` starts (e.g. one configured differently). */
+  /** `base`: another app server than the one `npm test` starts (the fault and S3 tests run their own). */
   constructor(readonly base = baseUrl) {}
 
   /** `body`: FormData, a ReadableStream (sent as it streams, with `headers` naming its type), or JSON. */

@@ -80,9 +80,9 @@ export function storedFileExists(sha256: string): boolean {
 }
 
 /** The dataset's own partition tables (partitions.ts names them from the uuid's hex). */
-export async function partitionTablesOf(datasetId: string): Promise<string[]> {
+export async function partitionTablesOf(datasetId: string, url?: string): Promise<string[]> {
   const hex = datasetId.replaceAll('-', '')
-  const result = await sql<{ relname: string }>(`SELECT relname FROM pg_class WHERE relname = ANY($1)`, [['dataset_rows', 'digit_records', 'digit_cube', 'import_group_values'].map(table => `${table}_${hex}`)])
+  const result = await sql<{ relname: string }>(`SELECT relname FROM pg_class WHERE relname = ANY($1)`, [['dataset_rows', 'digit_records', 'digit_cube', 'import_group_values'].map(table => `${table}_${hex}`)], url)
   return result.rows.map(r => r.relname).sort()
 }
 
@@ -90,11 +90,11 @@ export async function partitionTablesOf(datasetId: string): Promise<string[]> {
  * Partition and staging tables whose dataset row is gone. An import creates its tables after the
  * dataset row and drops them before the row, so at any moment there should be none.
  */
-export async function orphanPartitionTables(): Promise<string[]> {
+export async function orphanPartitionTables(url?: string): Promise<string[]> {
   const result = await sql<{ relname: string }>(`
     SELECT c.relname FROM pg_class c
     WHERE c.relkind IN ('r', 'p') AND c.relname ~ '^(dataset_rows|digit_records|digit_cube|import_group_values)_[0-9a-f]{32}$'
-      AND NOT EXISTS (SELECT 1 FROM datasets d WHERE replace(d.id::text, '-', '') = substring(c.relname from '[0-9a-f]{32}$'))`)
+      AND NOT EXISTS (SELECT 1 FROM datasets d WHERE replace(d.id::text, '-', '') = substring(c.relname from '[0-9a-f]{32}$'))`, [], url)
   return result.rows.map(r => r.relname)
 }
 

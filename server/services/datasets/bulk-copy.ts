@@ -1,4 +1,3 @@
-import { once } from 'node:events'
 import { finished } from 'node:stream/promises'
 import type { PoolClient } from 'pg'
 import { from as copyFrom } from 'pg-copy-streams'
@@ -27,9 +26,15 @@ export class CopyWriter {
   private at = 0
   private readonly full: Buffer[] = []
   private readonly stream
+  // A write that fails (the connection died) is kept here and thrown by the next flush, instead
+  // of escaping as an unhandled 'error' event and leaving the import waiting for a 'drain'.
+  private failure: Error | null = null
 
   private constructor(private readonly client: PoolClient, table: string, columns: string[]) {
     this.stream = client.query(copyFrom(`COPY ${table} (${columns.join(', ')}) FROM STDIN WITH (FORMAT binary, FREEZE)`))
+    this.stream.on('error', (error: Error) => {
+      this.failure ??= error
+    })
     this.room(SIGNATURE.length + 8)
     this.at += SIGNATURE.copy(this.buffer, this.at)
     this.view.setInt32(this.at, 0)
@@ -223,8 +228,26 @@ export class CopyWriter {
     return at + 4 + bytes
   }
 
+  /** Resolves on `event`; rejects when the stream fails or closes first, so a dead connection never leaves it waiting. */
+  private until(event: 'drain' | 'finish'): Promise<void> {
+    return new Promise((resolve, reject) => {
+      const settle = (error?: Error) => {
+        this.stream.off(event, onEvent)
+        this.stream.off('close', onClose)
+        if (error) reject(error)
+        else resolve()
+      }
+      const onEvent = () => settle()
+      const onClose = () => settle(this.failure ?? new Error('The connection to the database closed during a COPY.'))
+      this.stream.on(event, onEvent)
+      this.stream.on('close', onClose)
+      if (this.failure || this.stream.destroyed) onClose()
+    })
+  }
+
   /** Sends what was written so far, waiting when PostgreSQL falls behind. */
   async flush() {
+    if (this.failure) throw this.failure
     if (this.at) {
       this.full.push(this.buffer.subarray(0, this.at))
       this.buffer = Buffer.allocUnsafe(CHUNK_BYTES)
@@ -234,7 +257,7 @@ export class CopyWriter {
     for (const chunk of this.full.splice(0)) this.stream.write(chunk)
     // Waiting for every chunk to drain would leave the reader and PostgreSQL taking turns; a few
     // megabytes in flight keep both busy while memory stays bounded.
-    if (this.stream.writableLength > IN_FLIGHT_BYTES) await once(this.stream, 'drain')
+    if (this.stream.writableLength > IN_FLIGHT_BYTES) await this.until('drain')
   }
 
   /** Finishes the COPY and commits the table. */
@@ -243,7 +266,7 @@ export class CopyWriter {
     this.view.setInt16(this.at, -1)
     this.at += 2
     await this.flush()
-    const done = once(this.stream, 'finish')
+    const done = this.until('finish')
     this.stream.end()
     await done
     await this.client.query('COMMIT')

@@ -9,7 +9,7 @@ import type { StoredFile } from '../../utils/file-drivers/store'
 import { TooLarge } from '../../utils/file-drivers/store'
 
 /** Files up to this size are imported while the upload waits, so errors come back as 4xx at once. */
-const INLINE_BYTES = 8 * 1024 * 1024
+export const INLINE_BYTES = 8 * 1024 * 1024
 
 interface Received {
   fields: Record<string, string>

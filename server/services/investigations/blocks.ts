@@ -54,40 +54,46 @@ export async function createBlock(actor: Actor, investigation: Investigation, in
 /**
  * Saves a block against the version the editor last saw. A stale version answers 409 with the
  * block as it now is, so the editor can show both and nothing is lost silently.
+ *
+ * The block's row is locked for the whole save: the version check, the lock and review checks and
+ * the write all see the same row, and a fact-checker's verification (which locks the same row)
+ * either comes before the save and is respected, or waits until the save is done.
  */
 export async function updateBlock(actor: Actor, block: Block, input: z.output<typeof blockUpdateSchema>) {
   const { sequelize, models } = useDb()
   if (input.content && block.kind !== 'prose') throw fail(400, [{ path: 'content', message: 'Only prose blocks hold text.' }])
   if (input.settings && block.kind !== 'analysis') throw fail(400, [{ path: 'settings', message: 'Only analysis blocks hold settings.' }])
   await checkDataset(input.settings, (await findInvestigation(block.investigationId)).newsroomId)
-  // jsonb hands keys back in its own order, so a plain string comparison would see a change in every resave.
-  const settingsChanged = input.settings !== undefined && canonicalJson(input.settings) !== canonicalJson(block.settings)
-  await assertUnlocked(block, { content: input.content, settings: settingsChanged ? input.settings : undefined })
-  // A reviewed method that changes needs a fresh review.
-  const resetReview = settingsChanged && block.reviewStatus !== 'unreviewed'
-  const saved = await sequelize.transaction(async (transaction) => {
-    const [count, rows] = await models.Block.update({
+  const outcome = await sequelize.transaction(async (transaction) => {
+    const current = await models.Block.findByPk(block.id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!current || current.deletedAt) throw fail(404)
+    if (current.version !== input.version) return { stale: true, block: current }
+    // jsonb hands keys back in its own order, so a plain string comparison would see a change in every resave.
+    const settingsChanged = input.settings !== undefined && canonicalJson(input.settings) !== canonicalJson(current.settings)
+    await assertUnlocked(current, { content: input.content, settings: settingsChanged ? input.settings : undefined }, transaction)
+    // A reviewed method that changes needs a fresh review.
+    const resetReview = settingsChanged && current.reviewStatus !== 'unreviewed'
+    const was = current.reviewStatus
+    await current.update({
       ...(input.content ? { content: input.content } : {}),
       ...(input.settings ? { settings: input.settings } : {}),
       ...(resetReview ? { reviewStatus: 'unreviewed' as const, reviewNote: null, reviewedBy: null, reviewedAt: null } : {}),
       version: input.version + 1,
       updatedBy: actor.userId,
-    }, { where: { id: block.id, version: input.version, deletedAt: null, ...(settingsChanged ? { lockedAt: null } : {}) }, returning: true, transaction })
-    if (count !== 1) return null
+    }, { transaction })
     if (resetReview) {
       await recordAudit({
         newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action: 'review.reset',
-        subjectType: 'block', subjectId: block.id, detail: { was: block.reviewStatus, reason: 'settings changed' },
+        subjectType: 'block', subjectId: block.id, detail: { was, reason: 'settings changed' },
       }, transaction)
     }
     await touchInvestigation(block.investigationId, actor.userId, transaction)
-    return rows[0]!
+    return { stale: false, block: current }
   })
-  if (!saved) {
-    const current = await models.Block.findByPk(block.id)
-    throw fail(409, { message: 'Someone else saved this block after you opened it.', current: current ? await describeBlock(current) : null })
+  if (outcome.stale) {
+    throw fail(409, { message: 'Someone else saved this block after you opened it.', current: await describeBlock(outcome.block) })
   }
-  return describeBlock(saved)
+  return describeBlock(outcome.block)
 }
 
 /** Removes a block from the document; it is kept so that "undo" can bring it back. */
