@@ -62,6 +62,8 @@ export const useDocumentStore = defineStore('document', () => {
     }
     catch (error) {
       message.value = describeApiError(error).message
+      // A 409 means the document moved on: show it as it now is, beside the message.
+      if ((error as { statusCode?: number }).statusCode === 409) await refreshLayout().catch(() => {})
       return false
     }
   }
@@ -79,7 +81,8 @@ export const useDocumentStore = defineStore('document', () => {
   const verify = (claimId: string) => act(post(`/api/claims/${claimId}/verify`))
   const dispute = (claimId: string, note: string) => act(post(`/api/claims/${claimId}/dispute`, { note }))
   const unlock = (claimId: string, reason: string) => act(post(`/api/claims/${claimId}/unlock`, { reason }))
-  const review = (blockId: string, decision: 'approved' | 'changes-requested', note?: string) => act(post(`/api/blocks/${blockId}/review`, { decision, note }))
+  const review = (blockId: string, decision: 'approved' | 'changes-requested', note?: string) =>
+    act(post(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }))
   const requestReview = () => act(post(`/api/investigations/${investigation.value!.id}/review-request`))
 
   function replace(block: BlockDTO) {

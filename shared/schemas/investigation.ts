@@ -49,6 +49,8 @@ const note = z.string().trim().max(4000)
 export const reviewDecisionSchema = z.object({
   decision: z.enum(['approved', 'changes-requested']),
   note: note.optional(),
+  // The block's version the editor read; a block saved since answers 409.
+  version: z.number().int().positive().optional(),
 }).refine(v => v.decision === 'approved' || Boolean(v.note), { path: ['note'], message: 'Say what should change' })
 
 export const claimCreateSchema = z.object({

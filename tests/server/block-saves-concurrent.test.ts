@@ -131,3 +131,36 @@ describe('a save racing a fact-checker\'s verification', () => {
     }
   })
 })
+
+describe('saves racing new blocks and removals in the same investigation', () => {
+  it('answers every request with 200 or 201, never a deadlock\'s 500, and keeps every change', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    const prose = await freshBlock(story, 'prose')
+    const analysis = await freshBlock(story, 'analysis')
+    const before = (await readStory(newsroom.reporter, story)).blocks.length
+    // Insertions lock the investigation and then move later blocks; saves and removals lock a block
+    // and touch the investigation. Taken in opposite orders, PostgreSQL ends one with an error.
+    const replies: Reply[] = []
+    for (let round = 0; round < 5; round++) {
+      const [p, a] = await Promise.all([freshBlock(story, 'prose'), freshBlock(story, 'analysis')])
+      const spare = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'prose', afterBlockId: prose.id })
+      expectStatus(spare, 201)
+      replies.push(...await Promise.all([
+        newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'prose', afterBlockId: prose.id }),
+        newsroom.reporter.patch(`/api/blocks/${prose.id}`, { version: p.version, ...EDITS.prose(round, p) }),
+        newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'analysis', afterBlockId: null }),
+        newsroom.reporter.patch(`/api/blocks/${analysis.id}`, { version: a.version, ...EDITS.analysis(round, a) }),
+        newsroom.reporter.delete(`/api/blocks/${spare.body.id}`),
+      ]))
+    }
+    for (const reply of replies) expect([200, 201, 204], JSON.stringify(reply.body).slice(0, 300)).toContain(reply.status)
+    const [p, a] = await Promise.all([freshBlock(story, 'prose'), freshBlock(story, 'analysis')])
+    expect(p.version).toBe(prose.version + 5)
+    expect(a.version).toBe(analysis.version + 5)
+    expect(p.content.content.slice(-5)).toEqual([0, 1, 2, 3, 4].map(i => paragraph(`Edit by tab ${i}`)))
+    // Ten blocks inserted; the five spares were inserted and removed.
+    const now = await readStory(newsroom.reporter, story)
+    expect(now.blocks.length).toBe(before + 10)
+    expect(new Set(now.blocks.map((b: { id: string }) => b.id)).size).toBe(before + 10)
+  })
+})

@@ -68,4 +68,17 @@ describe('a review after the method changes', () => {
     expect(noNote.body.data[0].path).toBe('note')
     expect((await reviewOf(story)).status).toBe('unreviewed')
   })
+
+  it('refuses to approve settings saved after the data editor read them (409 with the block as it now is)', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    const seen = (await blockOf(newsroom['data-editor'], story, story.analysisBlockId)).version
+    expectStatus(await saveBlock(newsroom.reporter, story, story.analysisBlockId, { settings: { ...story.settings, test: 'last-two-digits' } }), 200)
+    const stale = await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'approved', version: seen })
+    expectStatus(stale, 409)
+    expect(stale.body.data.current).toMatchObject({ id: story.analysisBlockId, version: seen + 1, settings: { test: 'last-two-digits' } })
+    expect((await reviewOf(story)).status).toBe('unreviewed')
+    // Read again, the same decision goes through.
+    expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'approved', version: seen + 1 }), 200)
+    expect((await reviewOf(story)).status).toBe('approved')
+  })
 })

@@ -1,3 +1,4 @@
+import type { Transaction } from 'sequelize'
 import type { z } from 'zod'
 import type { blockCreateSchema, blockUpdateSchema } from '#shared/schemas/investigation'
 import type { AnalysisSettings } from '#shared/types/investigation'
@@ -52,6 +53,20 @@ export async function createBlock(actor: Actor, investigation: Investigation, in
 }
 
 /**
+ * Locks the investigation's row, then the block's, for a change to the block, and answers the block
+ * as it now is (404 when removed, unless `includeRemoved`). Every change that touches both rows
+ * takes them in this order; a save that took the block first and the investigation second could
+ * wait on a block insertion doing the reverse, a deadlock PostgreSQL ends with an error.
+ */
+export async function lockBlockForChange(block: Block, transaction: Transaction, { includeRemoved = false } = {}): Promise<Block> {
+  const { models } = useDb()
+  await models.Investigation.findByPk(block.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
+  const current = await models.Block.findByPk(block.id, { transaction, lock: transaction.LOCK.UPDATE })
+  if (!current || (current.deletedAt && !includeRemoved)) throw fail(404)
+  return current
+}
+
+/**
  * Saves a block against the version the editor last saw. A stale version answers 409 with the
  * block as it now is, so the editor can show both and nothing is lost silently.
  *
@@ -60,13 +75,12 @@ export async function createBlock(actor: Actor, investigation: Investigation, in
  * either comes before the save and is respected, or waits until the save is done.
  */
 export async function updateBlock(actor: Actor, block: Block, input: z.output<typeof blockUpdateSchema>) {
-  const { sequelize, models } = useDb()
+  const { sequelize } = useDb()
   if (input.content && block.kind !== 'prose') throw fail(400, [{ path: 'content', message: 'Only prose blocks hold text.' }])
   if (input.settings && block.kind !== 'analysis') throw fail(400, [{ path: 'settings', message: 'Only analysis blocks hold settings.' }])
   await checkDataset(input.settings, (await findInvestigation(block.investigationId)).newsroomId)
   const outcome = await sequelize.transaction(async (transaction) => {
-    const current = await models.Block.findByPk(block.id, { transaction, lock: transaction.LOCK.UPDATE })
-    if (!current || current.deletedAt) throw fail(404)
+    const current = await lockBlockForChange(block, transaction)
     if (current.version !== input.version) return { stale: true, block: current }
     // jsonb hands keys back in its own order, so a plain string comparison would see a change in every resave.
     const settingsChanged = input.settings !== undefined && canonicalJson(input.settings) !== canonicalJson(current.settings)
@@ -99,9 +113,11 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
 /** Removes a block from the document; it is kept so that "undo" can bring it back. */
 export async function removeBlock(actor: Actor, block: Block) {
   const { sequelize } = useDb()
-  await assertUnlocked(block, { removing: true })
   await sequelize.transaction(async (transaction) => {
-    await block.update({ deletedAt: new Date(), updatedBy: actor.userId }, { transaction })
+    // Checked under the row lock, so a verification that locks the block cannot slip in between.
+    const current = await lockBlockForChange(block, transaction)
+    await assertUnlocked(current, { removing: true }, transaction)
+    await current.update({ deletedAt: new Date(), updatedBy: actor.userId }, { transaction })
     await useDb().models.Investigation.increment('layoutVersion', { where: { id: block.investigationId }, transaction })
     await touchInvestigation(block.investigationId, actor.userId, transaction)
   })
@@ -110,12 +126,14 @@ export async function removeBlock(actor: Actor, block: Block) {
 export async function restoreBlock(actor: Actor, block: Block) {
   const { sequelize } = useDb()
   if (!block.deletedAt) return describeBlock(block)
-  await sequelize.transaction(async (transaction) => {
-    await block.update({ deletedAt: null, updatedBy: actor.userId }, { transaction })
+  const restored = await sequelize.transaction(async (transaction) => {
+    const current = await lockBlockForChange(block, transaction, { includeRemoved: true })
+    await current.update({ deletedAt: null, updatedBy: actor.userId }, { transaction })
     await useDb().models.Investigation.increment('layoutVersion', { where: { id: block.investigationId }, transaction })
     await touchInvestigation(block.investigationId, actor.userId, transaction)
+    return current
   })
-  return describeBlock(block)
+  return describeBlock(restored)
 }
 
 /** Puts the blocks in the given order; the list must name exactly the live blocks, at the current layout version. */

@@ -3,6 +3,7 @@ import type { QueueItemDTO } from '#shared/types/investigation'
 import { TEST_LABELS } from '#shared/charts/labels'
 import type { Block, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
+import { lockBlockForChange } from './blocks'
 import { describeBlock, describeInvestigation } from './catalog'
 
 /** The reporter asks the desk to review the method of every analysis block. */
@@ -20,26 +21,37 @@ export async function requestReview(actor: Actor, investigation: Investigation) 
   return describeInvestigation(investigation)
 }
 
-/** A data editor approves an analysis block's method or sends it back with a note. */
-export async function decideReview(actor: Actor, block: Block, investigation: Investigation, decision: 'approved' | 'changes-requested', note?: string) {
+/**
+ * A data editor approves an analysis block's method or sends it back with a note. With `version`,
+ * the decision holds only for the settings the editor saw: a block saved since answers 409 with
+ * the block as it now is, so nobody approves settings they never read.
+ */
+export async function decideReview(actor: Actor, block: Block, investigation: Investigation, decision: 'approved' | 'changes-requested', note?: string, version?: number) {
   if (block.kind !== 'analysis') throw fail(400, [{ path: 'decision', message: 'Only analysis blocks have a method to review.' }])
   const { sequelize } = useDb()
-  await sequelize.transaction(async (transaction) => {
-    await block.update({ reviewStatus: decision, reviewNote: note ?? null, reviewedBy: actor.userId, reviewedAt: new Date() }, { transaction })
+  const outcome = await sequelize.transaction(async (transaction) => {
+    const current = await lockBlockForChange(block, transaction)
+    if (version !== undefined && current.version !== version) return { stale: true, block: current }
+    await current.update({ reviewStatus: decision, reviewNote: note ?? null, reviewedBy: actor.userId, reviewedAt: new Date() }, { transaction })
     await recordAudit({
       newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
       action: decision === 'approved' ? 'block.approved' : 'block.sent-back', subjectType: 'block', subjectId: block.id,
-      detail: { note: note ?? null, settings: block.settings },
+      detail: { note: note ?? null, settings: current.settings },
     }, transaction)
+    return { stale: false, block: current }
   })
+  if (outcome.stale) {
+    throw fail(409, { message: 'The block was changed after you opened it. Read its settings again before deciding.', current: await describeBlock(outcome.block) })
+  }
+  const decided = outcome.block
   if (decision === 'changes-requested') {
     await notifyUsers([investigation.createdBy], {
       subject: `Method sent back: ${investigation.title}`,
-      lines: [`${actor.name} sent back an analysis block (${block.settings?.test ? TEST_LABELS[block.settings.test] : 'analysis'}) in “${investigation.title}”.`, `Their note: ${note}`],
+      lines: [`${actor.name} sent back an analysis block (${decided.settings?.test ? TEST_LABELS[decided.settings.test] : 'analysis'}) in “${investigation.title}”.`, `Their note: ${note}`],
       path: `/investigations/${investigation.id}`,
     }, actor.userId)
   }
-  return describeBlock(block)
+  return describeBlock(decided)
 }
 
 /** What waits for a data editor: analysis blocks of investigations in review that are not approved. */

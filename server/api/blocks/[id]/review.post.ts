@@ -5,8 +5,8 @@ import { decideReview } from '../../../services/investigations/review'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)
-  const { decision, note } = await readInput(event, reviewDecisionSchema)
+  const { decision, note, version } = await readInput(event, reviewDecisionSchema)
   const { block, investigation } = await findBlock(id)
   const actor = await requirePermission(event, 'block.review', { newsroomId: investigation.newsroomId })
-  return decideReview(actor, block, investigation, decision, note)
+  return decideReview(actor, block, investigation, decision, note, version)
 })
