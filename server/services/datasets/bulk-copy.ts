@@ -228,19 +228,25 @@ export class CopyWriter {
     return at + 4 + bytes
   }
 
-  /** Resolves on `event`; rejects when the stream fails or closes first, so a dead connection never leaves it waiting. */
+  /**
+   * Resolves on `event`; rejects when the stream fails or closes first, so a dead connection never
+   * leaves it waiting. pg-copy-streams reports a lost connection by emitting 'error' without
+   * destroying the stream, so no 'close' follows: the error itself must end the wait.
+   */
   private until(event: 'drain' | 'finish'): Promise<void> {
     return new Promise((resolve, reject) => {
       const settle = (error?: Error) => {
         this.stream.off(event, onEvent)
         this.stream.off('close', onClose)
+        this.stream.off('error', onClose)
         if (error) reject(error)
         else resolve()
       }
       const onEvent = () => settle()
-      const onClose = () => settle(this.failure ?? new Error('The connection to the database closed during a COPY.'))
+      const onClose = (error?: Error) => settle(this.failure ?? error ?? new Error('The connection to the database closed during a COPY.'))
       this.stream.on(event, onEvent)
       this.stream.on('close', onClose)
+      this.stream.on('error', onClose)
       if (this.failure || this.stream.destroyed) onClose()
     })
   }
