@@ -2,8 +2,8 @@
 // freshly started Mantissa on its own PostgreSQL, and measures upload-to-ready time, the server's
 // memory, and a first-two-digits test grouped by vendor. Figures are printed, never asserted.
 //
-//   node bench/import.bench.mjs            # 1,000,000 rows
-//   node bench/import.bench.mjs 10000000   # 10,000,000 rows
+//   npx tsx bench/import.bench.mjs            # 1,000,000 rows
+//   npx tsx bench/import.bench.mjs 10000000   # 10,000,000 rows
 import { rmSync, statSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'

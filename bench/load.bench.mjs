@@ -2,8 +2,8 @@
 // routes of a 1M-row dataset, on a fresh Mantissa with its own PostgreSQL. Prints throughput,
 // latency percentiles and errors per route mix; never asserts.
 //
-//   node bench/load.bench.mjs                 # 1,000,000 rows, 50 connections, 60 s
-//   node bench/load.bench.mjs 100000 50 20    # rows, connections, seconds
+//   npx tsx bench/load.bench.mjs                 # 1,000,000 rows, 50 connections, 60 s
+//   npx tsx bench/load.bench.mjs 100000 50 20    # rows, connections, seconds
 import { rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'

@@ -6,23 +6,13 @@ import { once } from 'node:events'
 import { join } from 'node:path'
 import { ensurePostgres } from '../server/cli/postgres.mjs'
 import { buildIfStale, migrate, root, waitForServer } from '../server/cli/prepare.mjs'
+import { seededRandom } from '../server/services/demo/seeded-random.ts'
 
 export const demo = JSON.parse(readFileSync(join(root, 'server', 'services', 'demo', 'people.json'), 'utf8'))
 
-function random(seed) {
-  let state = seed >>> 0
-  return () => {
-    state = (state + 0x6D2B79F5) >>> 0
-    let t = state
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
-
 /** Writes `rows` invented payments (200 vendors, 9 departments, amounts over four orders of magnitude). */
 export async function writeLedger(path, rows) {
-  const next = random(7)
+  const next = seededRandom(7)
   const out = createWriteStream(path)
   out.write('payment_ref,paid_on,vendor,department,amount\n')
   let chunk = ''

@@ -3,6 +3,8 @@
  * to invented suppliers over one year. One supplier's invoices bunch just under the approval
  * limit — the planted anomaly the demo investigation finds. No real people, firms or figures.
  */
+import { seededRandom } from './seeded-random'
+
 export const APPROVAL_LIMIT = 25_000
 export const PLANTED_VENDOR = 'Quillmere Facilities Ltd'
 
@@ -15,18 +17,6 @@ const VENDORS = [
 ]
 const ITEMS = ['Maintenance works', 'Supplies', 'Consultancy', 'Repairs', 'Equipment hire', 'Service contract', 'Cleaning', 'Transport']
 
-/** A small seeded generator (mulberry32), so the demo ledger is the same on every machine. */
-function random(seed: number) {
-  let state = seed >>> 0
-  return () => {
-    state = (state + 0x6D2B79F5) >>> 0
-    let t = state
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
-
 const money = new Intl.NumberFormat('en-GB', { minimumFractionDigits: 2, maximumFractionDigits: 2 })
 
 function csvCell(text: string) {
@@ -35,7 +25,7 @@ function csvCell(text: string) {
 
 /** The ledger as CSV text: about `rows` payments plus the planted supplier's, in date order. */
 export function demoLedgerCsv(rows = 24_000): string {
-  const next = random(20260301)
+  const next = seededRandom(20260301)
   const payments: { day: number, vendor: string, amount: number }[] = []
   const add = (vendor: string, amount: number) => payments.push({ day: Math.floor(next() * 365), vendor, amount })
   for (let i = 0; i < rows; i++) {

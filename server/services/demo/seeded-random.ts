@@ -1,0 +1,14 @@
+/**
+ * A small seeded generator (mulberry32), so invented data is the same on every machine: the demo
+ * ledger and the benchmarks' ledgers (bench/support.mjs, run through tsx) draw from it.
+ */
+export function seededRandom(seed: number): () => number {
+  let state = seed >>> 0
+  return () => {
+    state = (state + 0x6D2B79F5) >>> 0
+    let t = state
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
