@@ -1,3 +1,6 @@
+import { fileURLToPath } from 'node:url'
+import { threadScripts } from './server/build/thread-scripts'
+
 export default defineNuxtConfig({
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
   devtools: { enabled: false },
@@ -37,6 +40,7 @@ export default defineNuxtConfig({
   dir: { public: 'app/public' },
   compatibilityDate: '2026-11-01',
   nitro: {
+    rollupConfig: { plugins: [threadScripts(fileURLToPath(new URL('./shared', import.meta.url)))] },
     // The engine's exact decimal arithmetic uses BigInt literals.
     esbuild: { options: { target: 'es2022' } },
     externals: {

@@ -1,4 +1,4 @@
-import { IMPORT_QUEUE } from '../utils/jobs'
+import { IMPORT_QUEUE, setImportWorker } from '../utils/jobs'
 import { failAbandonedImports, runImportJob } from '../services/datasets/import-job'
 
 // Often enough that an import left behind by a dead server does not sit "importing" for long.
@@ -16,9 +16,10 @@ async function sweep() {
 
 export default defineNitroPlugin(async (nitro) => {
   const boss = await useJobs()
-  await boss.work<{ datasetId: string }>(IMPORT_QUEUE, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+  const worker = await boss.work<{ datasetId: string }>(IMPORT_QUEUE, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
     if (job) await runImportJob(job.data.datasetId)
   })
+  setImportWorker(worker)
   await sweep()
   const timer = setInterval(sweep, SWEEP_EVERY_MS)
   timer.unref()

@@ -25,3 +25,17 @@ export function useJobs(): Promise<PgBoss> {
   })()
   return starting
 }
+
+let importWorker: string | undefined
+
+/** This server's import worker: a job queued here then starts at once instead of at the next poll. */
+export function setImportWorker(id: string) {
+  importWorker = id
+}
+
+/** Queues a dataset's import, to be run by whichever server's worker takes it first. */
+export async function queueImport(datasetId: string): Promise<void> {
+  const boss = await useJobs()
+  await boss.send(IMPORT_QUEUE, { datasetId })
+  if (importWorker) boss.notifyWorker(importWorker)
+}

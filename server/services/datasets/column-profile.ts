@@ -8,6 +8,8 @@ const SAMPLES = 5
 const ID_NAME = /(^|[\s_-])(id|code|zip|postcode|phone|account|iban|ref|reference|no|nr|number)($|[\s_.-])/i
 const DATE_TEXT = /^(\d{4}-\d{1,2}-\d{1,2}([T ][\d:.]+Z?)?|\d{1,2}[./-]\d{1,2}[./-]\d{2,4}|\d{4}\/\d{1,2}\/\d{1,2})$/
 const CODE_TEXT = /^[A-Za-z]{0,6}[-_/ ]?\d{3,}[A-Za-z]?$/
+const DATE_LIKE = 1
+const CODE_LIKE = 2
 
 /** The first `length` UTF-16 units of `text`, never ending on half of a surrogate pair (an emoji), which jsonb refuses. */
 export function clip(text: string, length: number): string {
@@ -34,6 +36,7 @@ export class ColumnProfile {
   textOnly = 0
   readonly lengths = new Map<number, number>()
   readonly samples: string[] = []
+  private readonly looksByCode: number[] = []
   readonly bySign = { positive: new SignProfile(), negative: new SignProfile() }
 
   constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null) {}
@@ -42,7 +45,8 @@ export class ColumnProfile {
     if (this.samples.length < SAMPLES && !this.samples.includes(cell)) this.samples.push(clip(cell, 200))
   }
 
-  addText(cell: string) {
+  /** `code` is the cell's group code (group-codes.ts), 0 when it has none: a coded text's looks are worked out once. */
+  addText(cell: string, code = 0) {
     const text = cell.trim()
     if (!text) {
       this.blank++
@@ -50,8 +54,13 @@ export class ColumnProfile {
     }
     this.textOnly++
     this.sample(text)
-    if (DATE_TEXT.test(text)) this.dateLike++
-    if (CODE_TEXT.test(text)) this.codeLike++
+    let looks = code ? this.looksByCode[code] : undefined
+    if (looks === undefined) {
+      looks = (DATE_TEXT.test(text) ? DATE_LIKE : 0) | (CODE_TEXT.test(text) ? CODE_LIKE : 0)
+      if (code) this.looksByCode[code] = looks
+    }
+    if (looks & DATE_LIKE) this.dateLike++
+    if (looks & CODE_LIKE) this.codeLike++
   }
 
   addNumber(cell: string, record: DigitRecord) {

@@ -1,6 +1,6 @@
 import { DISTRIBUTIONS } from '#shared/digits'
 import type { DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
-import type { CopyWriter } from './bulk-copy'
+import type { CopyEncoder } from './copy-encoder'
 
 /**
  * The digit counts of every distribution test, per number column, for the whole column and for
@@ -147,7 +147,7 @@ export class DigitCubeCounter {
     return cube ? [-1, ...cube.groupings.map(g => g.position)] : []
   }
 
-  write(out: CopyWriter, dataset: Buffer) {
+  write(out: CopyEncoder, dataset: Buffer) {
     this.columns.forEach((cube, columnPos) => {
       if (!cube) return
       writeCell(out, dataset, columnPos, -1, 0, cube.whole)
@@ -160,7 +160,7 @@ export class DigitCubeCounter {
   }
 }
 
-function writeCell(out: CopyWriter, dataset: Buffer, columnPos: number, groupPos: number, code: number, cell: Cell) {
+function writeCell(out: CopyEncoder, dataset: Buffer, columnPos: number, groupPos: number, code: number, cell: Cell) {
   out.row(6)
   out.raw(dataset)
   out.int16(columnPos)

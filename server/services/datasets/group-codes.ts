@@ -32,16 +32,16 @@ export class GroupCodes {
   }
 
   /**
-   * The row's codes, one per column: 0 for number columns and for a column that is not coded.
+   * The codes of the row whose cells start at `from`, one per column: 0 for number columns and for a column that is not coded.
    * The array is reused for the next row: read it before asking again.
    */
-  codesOf(cells: readonly string[]): Int32Array {
+  codesOf(cells: readonly string[], from = 0): Int32Array {
     const codes = this.row
     codes.fill(0)
     for (let i = 0; i < this.codes.length; i++) {
       const map = this.codes[i]
       if (!map) continue
-      const cell = cells[i]!
+      const cell = cells[from + i]!
       // Most cells start and end in a printable ASCII character and need no trimming (which copies).
       const text = cell.length && (unprintable(cell.charCodeAt(0)) || unprintable(cell.charCodeAt(cell.length - 1))) ? cell.trim() : cell
       let code = map.get(text)

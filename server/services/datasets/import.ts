@@ -1,54 +1,21 @@
 import { buffer } from 'node:stream/consumers'
 import type { PoolClient } from 'pg'
 import { QueryTypes } from 'sequelize'
-import { detectNumberStyle, recordOf, readNumber } from '#shared/digits'
-import type { NumberStyle } from '#shared/digits'
-import { ColumnProfile, clip } from './column-profile'
-import { CopyWriter, DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS, uuidBytes, writeDigits, writeGroupValue, writeRow } from './bulk-copy'
-import { CUBE_COLUMNS, DigitCubeCounter } from './digit-cube'
-import { FrequentValues } from './frequent-values'
-import { GroupCodes } from './group-codes'
+import type { ColumnProfile as SuitabilityProfile } from '#shared/digits'
+import { CopyStream } from './bulk-copy'
+import { DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS } from './copy-encoder'
+import { CUBE_COLUMNS } from './digit-cube'
 import { openRows } from './readers'
+import type { EncodedImport, TopValue } from './row-encoder'
+import { RowEncoderWorker } from './row-encoder-worker'
+import type { Encoded } from './row-encoder-worker'
 import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat } from './sniff'
 import { dropPartitionsSql, partitionNames } from './partitions'
 
-export const MAX_COLUMNS = 2000
-const SAMPLE_ROWS = 1000
 const PROGRESS_EVERY_MS = 500
-
-/** The longest column name a digit-test request can name (digitTestRequestSchema). */
-const MAX_NAME = 200
-
-/** Distinct names of at most MAX_NAME characters: "amount", "amount" and "amount (2)" become "amount", "amount (2)", "amount (2) (2)". */
-function headerNames(raw: string[]): string[] {
-  const taken = new Set<string>()
-  return raw.map((cell, i) => {
-    const base = cell.replace(/\s+/g, ' ').trim() || `Column ${i + 1}`
-    let name = clip(base, MAX_NAME)
-    for (let n = 2; taken.has(name); n++) name = `${clip(base, MAX_NAME - ` (${n})`.length)} (${n})`
-    taken.add(name)
-    return name
-  })
-}
-
-/** A column is tested as numbers when most of its sampled non-blank cells read as numbers. */
-function planColumns(names: string[], sample: string[][]) {
-  return names.map((name, position) => {
-    const cells = sample.map(row => row[position] ?? '')
-    const style: NumberStyle = { decimalMark: detectNumberStyle(cells).decimalMark }
-    let filled = 0
-    let numbers = 0
-    for (const cell of cells) {
-      const status = readNumber(cell, style).status
-      if (status === 'blank') continue
-      filled++
-      if (status === 'number' || status === 'zero') numbers++
-    }
-    const numeric = filled > 0 && numbers >= 0.6 * filled
-    return { style, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null) }
-  })
-}
+/** Batches of rows with the encoding thread at once: enough to keep it busy, few enough to bound memory. */
+const BATCHES_AHEAD = 4
 
 interface Connections {
   rows: PoolClient
@@ -75,19 +42,11 @@ async function dropStaging(client: PoolClient, datasetId: string) {
   await client.query(dropPartitionsSql(datasetId)).catch(() => {})
 }
 
-/** Once the sample is read: how each column is read, the text columns' codes, and the digit counts. */
-function startCounting(header: string[], sample: string[][]) {
-  const plan = planColumns(header, sample)
-  const numbers = plan.flatMap(({ profile }, position) => (profile.numeric ? [position] : []))
-  const texts = plan.flatMap(({ profile }, position) => (profile.numeric ? [] : [position]))
-  // Per number column, the most frequent positive and negative value (the suitability check's repeated amounts).
-  const frequent = plan.map(({ profile }) => (profile.numeric ? [new FrequentValues(), new FrequentValues()] as const : null))
-  return { plan, groupCodes: new GroupCodes(plan.map(c => !c.profile.numeric), sample), cube: new DigitCubeCounter(numbers, texts), frequent }
-}
-
 /**
  * Reads a stored upload into standalone tables, then attaches them as the dataset's partitions
  * in one transaction with its columns and its "ready" status: a reader sees all of it or nothing.
+ * This thread reads and parses the file and talks to PostgreSQL; a worker thread works out the
+ * digits and writes the COPY bytes (row-encoder.ts).
  * Throws UnreadableFile with a reporter-facing reason when the file cannot be used.
  */
 export async function importDataset(datasetId: string): Promise<void> {
@@ -102,112 +61,96 @@ export async function importDataset(datasetId: string): Promise<void> {
     : await detectFileEncoding(openStored, head)
   const names = partitionNames(datasetId)
   // The CHECK constraints, made while the tables are empty, let ATTACH PARTITION skip its scan.
-  const onlyThis = `CHECK (dataset_id = '${datasetId}')`
+  const onlyThis = (table: string) => `ALTER TABLE ${table} ADD CONSTRAINT ${table}_one CHECK (dataset_id = '${datasetId}');`
 
   await withConnections(async (db) => {
     await db.rows.query(dropPartitionsSql(datasetId))
-    const datasetBytes = uuidBytes(datasetId)
-    const rowsOut = await CopyWriter.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, onlyThis)
-    const digitsOut = await CopyWriter.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, onlyThis)
+    const encoder = new RowEncoderWorker(datasetId)
+    const rowsOut = await CopyStream.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, onlyThis(names.rows))
+    const digitsOut = await CopyStream.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, onlyThis(names.digits))
     const source = openRows(dataset.format as DatasetFormat, openStored, encoding, bomLength)
-    let header: string[] | null = null
-    let named = false
-    let plan: ReturnType<typeof planColumns> | null = null
-    let groupCodes: GroupCodes | null = null
-    let cube: DigitCubeCounter | null = null
-    let frequent: ReturnType<typeof startCounting>['frequent'] = []
-    const sample: string[][] = []
-    let rowNo = 0
+    let width = -1
     let ragged = 0
     let lastProgress = Date.now()
+    const ahead: Promise<Encoded>[] = []
 
-    // Synchronous per row; the writers are flushed once per batch of rows.
-    const write = (raw: string[]) => {
-      const width = header!.length
-      if (raw.length !== width) ragged++
-      const cells = raw.length === width ? raw : Array.from({ length: width }, (_, i) => raw[i] ?? '')
-      rowNo++
-      writeRow(rowsOut, datasetBytes, rowNo, cells)
-      const codes = groupCodes!.codesOf(cells)
-      for (let c = 0; c < width; c++) {
-        const column = plan![c]!
-        const cell = cells[c]!
-        if (!column.profile.numeric) {
-          column.profile.addText(cell)
-          continue
-        }
-        const read = readNumber(cell, column.style)
-        const record = recordOf(read)
-        column.profile.addNumber(cell, record)
-        writeDigits(digitsOut, datasetBytes, c, rowNo, read, record, codes)
-        cube!.add(c, record, codes)
-        if (record.status === 'number') frequent[c]![record.sign > 0 ? 0 : 1].add(record.value!)
-      }
-    }
-    const afterBatch = async () => {
-      await Promise.all([rowsOut.flush(), digitsOut.flush()])
+    const send = async ({ rows, digits }: Encoded) => {
+      await Promise.all([rowsOut.send(rows), digitsOut.send(digits)])
       if (Date.now() - lastProgress > PROGRESS_EVERY_MS) {
         lastProgress = Date.now()
         await models.Dataset.update({ progress: Math.min(0.99, source.bytesRead() / Number(dataset.byteSize)) }, { where: { id: datasetId } })
       }
     }
 
+    let encoded: EncodedImport
     try {
       for await (const batch of source.rows) {
-        for (const raw of batch) {
-          if (!header) {
-            if (raw.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${raw.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
-            header = headerNames(raw)
-            named = raw.some(cell => cell.trim())
-            continue
-          }
-          if (!plan) {
-            sample.push(raw)
-            if (sample.length < SAMPLE_ROWS) continue
-            ;({ plan, groupCodes, cube, frequent } = startCounting(header, sample))
-            for (const row of sample.splice(0)) write(row)
-            continue
-          }
-          write(raw)
+        let from = 0
+        if (width < 0) {
+          width = batch[0]!.length
+          encoder.header(batch[0]!)
+          from = 1
         }
-        await afterBatch()
+        const rows: string[][] = []
+        for (let i = from; i < batch.length; i++) {
+          const raw = batch[i]!
+          if (raw.length === width) rows.push(raw)
+          else {
+            ragged++
+            rows.push(Array.from({ length: width }, (_, c) => raw[c] ?? ''))
+          }
+        }
+        if (!rows.length) continue
+        ahead.push(encoder.encode(rows))
+        if (ahead.length >= BATCHES_AHEAD) await send(await ahead.shift()!)
       }
-      if (!header) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
-      if (!plan) {
-        ;({ plan, groupCodes, cube, frequent } = startCounting(header, sample))
-        for (const row of sample.splice(0)) write(row)
-        await afterBatch()
-      }
-      // A header of no names over cells that are all blank (or JSON records without keys) gives nothing to test.
-      if (!named && plan.every(({ profile }) => profile.blank === rowNo)) throw new UnreadableFile('No readable columns: the file has no column names and no values.')
-      if (rowNo === 0) throw new UnreadableFile('The file has a header but no rows of data.')
-      await rowsOut.end()
-      await digitsOut.end()
+      if (width < 0) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
+      for (const next of ahead.splice(0)) await send(await next)
+      const last = await encoder.finish()
+      await rowsOut.end(last.rows)
+      await digitsOut.end(last.digits)
+      encoded = last.encoded
     }
     catch (error) {
-      await Promise.all([rowsOut.abort(), digitsOut.abort()])
+      await Promise.all([rowsOut.abort(), digitsOut.abort(), encoder.stop()])
       await dropStaging(db.rows, datasetId)
       throw error
     }
+    await encoder.stop()
 
     try {
-      await finish(db, datasetBytes, plan!, groupCodes!, cube!, frequent, rowNo, ragged, source.meta, encoding)
+      await finish(db, encoded, ragged, source.meta, encoding)
     }
     catch (error) {
       await dropStaging(db.rows, datasetId)
       throw error
     }
+    await speedUp(db)
   })
 
-  /** How often each column's leading value (per sign) occurs, counted over its digit records. */
-  async function leaderCounts(frequent: ReturnType<typeof startCounting>['frequent']) {
+  /**
+   * The indexes and planner statistics follow once the dataset is ready: they make queries fast
+   * and change no answer, and a reporter need not wait the second per million rows they take. Preview
+   * pages and joins find rows by number; drill-down walks a column's records in row order. Rows
+   * are only ever found by number, so statistics on their cells would tell the planner nothing.
+   * Should this fail, queries stay right, only slower, and autovacuum still gathers statistics.
+   */
+  async function speedUp(db: Connections) {
+    await Promise.all([
+      db.rows.query(`CREATE INDEX IF NOT EXISTS ${names.rows}_row_no ON ${names.rows} (row_no); ANALYZE ${names.rows} (row_no); ANALYZE ${names.cube};`),
+      db.digits.query(`CREATE INDEX IF NOT EXISTS ${names.digits}_column_row ON ${names.digits} (column_pos, row_no); ANALYZE ${names.digits};`),
+    ]).catch(error => console.warn(`[import] ${datasetId}: indexes or statistics not made: ${(error as Error).message}`))
+  }
+
+  /** How often each column's most frequent value (per sign) occurs, where the import could not settle it (row-encoder.ts). */
+  async function topCounts(columns: EncodedImport['columns']) {
     const replacements: Record<string, unknown> = {}
-    const candidates = frequent.flatMap((signs, position) => (signs ?? []).flatMap((values, side) => {
-      const leader = values.leader()
-      if (leader === null) return []
+    const candidates = columns.flatMap((column, position) => (['positive', 'negative'] as const).flatMap((sign) => {
+      const top = column.signs?.top[sign]
+      if (!top?.check) return []
       const i = Object.keys(replacements).length
-      replacements[`v${i}`] = leader
-      return [`(${position}::smallint, ${side === 0 ? 1 : -1}::smallint, CAST(:v${i} AS numeric))`]
+      replacements[`v${i}`] = top.value
+      return [`(${position}::smallint, ${sign === 'positive' ? 1 : -1}::smallint, CAST(:v${i} AS numeric))`]
     }))
     if (!candidates.length) return []
     return sequelize.query<{ column_pos: number, sign: number, top: number }>(
@@ -217,25 +160,23 @@ export async function importDataset(datasetId: string): Promise<void> {
     )
   }
 
-  async function finish(db: Connections, datasetBytes: Buffer, columns: NonNullable<ReturnType<typeof planColumns>>, groupCodes: GroupCodes, cube: DigitCubeCounter, frequent: ReturnType<typeof startCounting>['frequent'], rowNo: number, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
-    // The slow parts run side by side on the import's two connections and a third from the pool:
-    // the digit counts and the dictionary, the indexes for drill-down, planner statistics, and the
-    // exact count of each column's most frequent value (frequent-values.ts).
-    const [tops] = await Promise.all([
-      leaderCounts(frequent),
+  async function finish(db: Connections, encoded: EncodedImport, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
+    // Side by side on the import's connection and one from the pool: the digit counts and the
+    // dictionary, and exact counts of repeated values.
+    const [counted] = await Promise.all([
+      topCounts(encoded.columns),
       (async () => {
-        const counts = await CopyWriter.open(db.rows, names.cube, 'digit_cube', CUBE_COLUMNS, onlyThis)
-        cube.write(counts, datasetBytes)
-        await counts.end()
-        const dictionary = await CopyWriter.open(db.rows, names.groupValues, 'dataset_group_values', GROUP_VALUE_COLUMNS)
-        for (const [position, code, value] of groupCodes.dictionary()) writeGroupValue(dictionary, datasetBytes, position, code, value)
-        await dictionary.end()
-        await db.rows.query(`CREATE INDEX ON ${names.rows} (row_no); ANALYZE ${names.rows}; ANALYZE ${names.cube};`)
+        const counts = await CopyStream.open(db.rows, names.cube, 'digit_cube', CUBE_COLUMNS, onlyThis(names.cube))
+        await counts.end(encoded.cube)
+        const dictionary = await CopyStream.open(db.rows, names.groupValues, 'dataset_group_values', GROUP_VALUE_COLUMNS)
+        await dictionary.end(encoded.dictionary)
       })(),
-      // Drill-down walks a column's records in row order and stops after a page.
-      db.digits.query(`CREATE INDEX ON ${names.digits} (column_pos, row_no); ANALYZE ${names.digits};`),
     ])
-    const topOf = (position: number, sign: number) => tops.find(r => r.column_pos === position && r.sign === sign)?.top ?? 0
+    const withTop = (profile: SuitabilityProfile | null, top: TopValue | null, position: number, sign: number) => {
+      if (!profile) return null
+      const exact = top?.check ? counted.find(r => r.column_pos === position && r.sign === sign)?.top : top?.count
+      return { ...profile, topValue: exact ?? 0 }
+    }
 
     const ready = dataset!
     await sequelize.transaction(async (transaction) => {
@@ -246,35 +187,22 @@ export async function importDataset(datasetId: string): Promise<void> {
         INSERT INTO dataset_group_values SELECT * FROM ${names.groupValues};
         DROP TABLE ${names.groupValues};
       `, { transaction })
-      await models.DatasetColumn.bulkCreate(columns.map(({ profile }, position) => ({
+      await models.DatasetColumn.bulkCreate(encoded.columns.map(({ signs, ...column }, position) => ({
         datasetId,
         position,
-        name: profile.name,
-        kind: profile.kind,
-        decimalMark: profile.decimalMark,
-        parsed: profile.parsed,
-        blank: profile.blank,
-        unreadable: profile.unreadable,
-        zero: profile.zero,
-        negative: profile.negative,
-        min: profile.min?.text ?? null,
-        max: profile.max?.text ?? null,
-        magnitudeSpan: profile.magnitudeSpan,
-        samples: profile.samples,
-        coded: groupCodes.isCoded(position),
-        cubeGroups: profile.numeric ? cube.groupingsOf(position) : null,
-        profiles: profile.numeric
-          ? { positive: profile.bySign.positive.toProfile(topOf(position, 1)), negative: profile.bySign.negative.toProfile(topOf(position, -1)) }
+        ...column,
+        profiles: signs
+          ? { positive: withTop(signs.positive, signs.top.positive, position, 1), negative: withTop(signs.negative, signs.top.negative, position, -1) }
           : null,
       })), { transaction })
       await ready.update({
-        status: 'ready', progress: 1, rowCount: rowNo, raggedRows: ragged + meta.extraFields,
+        status: 'ready', progress: 1, rowCount: encoded.rowCount, raggedRows: ragged + meta.extraFields,
         encoding, delimiter: meta.delimiter, readyAt: new Date(),
       }, { transaction })
       await recordAudit({
         newsroomId: ready.newsroomId, actorId: ready.createdBy, action: 'dataset.imported',
         subjectType: 'dataset', subjectId: datasetId,
-        detail: { title: ready.title, sha256: ready.sha256, rows: rowNo, columns: columns.length, ragged },
+        detail: { title: ready.title, sha256: ready.sha256, rows: encoded.rowCount, columns: encoded.columns.length, ragged },
       }, transaction)
     })
   }

@@ -1,3 +1,4 @@
+import { isUtf8 } from 'node:buffer'
 import type { Readable } from 'node:stream'
 
 export const FORMATS = ['csv', 'tsv', 'xlsx', 'json'] as const
@@ -80,20 +81,28 @@ export function detectEncoding(head: Uint8Array): { encoding: TextEncoding, bomL
 export async function detectFileEncoding(open: () => Promise<Readable>, head: Uint8Array): Promise<{ encoding: TextEncoding, bomLength: number }> {
   const detected = detectEncoding(head)
   if (detected.encoding !== 'utf-8' || detected.bomLength > 0) return detected
-  const decoder = new TextDecoder('utf-8', { fatal: true })
-  const latin1 = { encoding: 'windows-1252', bomLength: 0 } as const
-  // Only a decoding error means Latin-1; a failed read is passed on.
-  const decodes = (chunk?: Buffer) => {
-    try {
-      decoder.decode(chunk, { stream: chunk !== undefined })
-      return true
-    }
-    catch {
-      return false
+  // A character cut between two chunks waits for the rest of its bytes in the next one.
+  let carry: Buffer = Buffer.alloc(0)
+  for await (const chunk of await open()) {
+    const bytes = carry.length ? Buffer.concat([carry, chunk as Buffer]) : chunk as Buffer
+    const cut = completeUpTo(bytes)
+    if (!isUtf8(bytes.subarray(0, cut))) return { encoding: 'windows-1252', bomLength: 0 }
+    carry = bytes.subarray(cut)
+  }
+  return carry.length ? { encoding: 'windows-1252', bomLength: 0 } : detected
+}
+
+/** Where the last UTF-8 character of `bytes` starts if its bytes are not all there yet, else the length. */
+function completeUpTo(bytes: Buffer): number {
+  for (let back = 1; back <= 3 && back <= bytes.length; back++) {
+    const byte = bytes[bytes.length - back]!
+    if (byte < 0x80) return bytes.length
+    if (byte >= 0xC0) {
+      const length = byte >= 0xF0 ? 4 : byte >= 0xE0 ? 3 : 2
+      return length > back ? bytes.length - back : bytes.length
     }
   }
-  for await (const chunk of await open()) if (!decodes(chunk as Buffer)) return latin1
-  return decodes() ? detected : latin1
+  return bytes.length
 }
 
 /** Checks that the first bytes fit the promised format; a spreadsheet renamed .csv or a binary file is refused. */

@@ -3,7 +3,7 @@ import type { H3Event } from 'h3'
 import { datasetUploadSchema } from '#shared/schemas/dataset'
 import type { Actor } from '../../utils/permissions'
 import { importDataset } from './import'
-import { IMPORT_QUEUE } from '../../utils/jobs'
+import { queueImport } from '../../utils/jobs'
 import { UnreadableFile, checkContent, formatFromName } from './sniff'
 import type { StoredFile } from '../../utils/file-drivers/store'
 import { TooLarge } from '../../utils/file-drivers/store'
@@ -103,7 +103,7 @@ export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id:
       storageKey: file.key, replacesId: parsed.data.replacesId ?? null, createdBy: actor.userId,
     })
     if (file.byteSize > INLINE_BYTES) {
-      await (await useJobs()).send(IMPORT_QUEUE, { datasetId: dataset.id })
+      await queueImport(dataset.id)
       return { id: dataset.id, status: 'importing', queued: true }
     }
     try {

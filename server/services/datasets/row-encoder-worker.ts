@@ -1,0 +1,72 @@
+import { Worker } from 'node:worker_threads'
+import threadScript from 'thread-script:./row-encoder-thread'
+import type { EncodedImport } from './row-encoder'
+import type { FromEncoder, ToEncoder } from './row-encoder-messages'
+import { UnreadableFile } from './sniff'
+
+/** Enough for the digit counts (up to 8,000 cells of 9 KB) and the group codes of a wide file. */
+const THREAD_HEAP_MB = 768
+
+export interface Encoded {
+  rows: Buffer[]
+  digits: Buffer[]
+}
+
+const buffers = (list: Uint8Array[]) => list.map(bytes => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.length))
+
+/**
+ * One import's encoding thread (row-encoder-thread.ts), seen from the main thread: rows go in,
+ * COPY bytes come back in the same order, so several batches can be on their way at once.
+ */
+export class RowEncoderWorker {
+  private readonly worker: Worker
+  private readonly waiting: { resolve: (message: FromEncoder) => void, reject: (error: Error) => void }[] = []
+  private failure: Error | null = null
+
+  constructor(datasetId: string) {
+    this.worker = new Worker(threadScript, { eval: true, workerData: { datasetId }, resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB } })
+    this.worker.on('message', (message: FromEncoder) => {
+      if (message.type === 'failed') this.fail(message.status ? new UnreadableFile(message.message, message.status) : new Error(message.message))
+      else this.waiting.shift()?.resolve(message)
+    })
+    this.worker.on('error', (error: Error) => this.fail(error))
+    this.worker.on('exit', code => this.fail(new Error(`The import's encoding thread stopped (exit code ${code}).`)))
+  }
+
+  /** The first failure goes to the oldest waiting request and to every later one; those behind it are abandoned with the import. */
+  private fail(error: Error) {
+    if (this.failure) return
+    this.failure = error
+    this.waiting.shift()?.reject(error)
+  }
+
+  private send(message: ToEncoder): Promise<FromEncoder> {
+    if (this.failure) return Promise.reject(this.failure)
+    this.worker.postMessage(message)
+    return new Promise((resolve, reject) => this.waiting.push({ resolve, reject }))
+  }
+
+  header(cells: string[]) {
+    if (!this.failure) this.worker.postMessage({ type: 'header', cells } satisfies ToEncoder)
+  }
+
+  /** Rows of the header's width. */
+  async encode(rows: readonly string[][]): Promise<Encoded> {
+    const cells: string[] = []
+    for (const row of rows) for (const cell of row) cells.push(cell)
+    const reply = await this.send({ type: 'rows', packed: cells.join('\0'), count: rows.length })
+    if (reply.type !== 'bytes') throw new Error(`The encoding thread answered rows with "${reply.type}".`)
+    return { rows: buffers(reply.rows), digits: buffers(reply.digits) }
+  }
+
+  async finish(): Promise<Encoded & { encoded: EncodedImport }> {
+    const reply = await this.send({ type: 'finish' })
+    if (reply.type !== 'done') throw new Error(`The encoding thread answered the end with "${reply.type}".`)
+    return { rows: buffers(reply.rows), digits: buffers(reply.digits), encoded: reply.encoded }
+  }
+
+  async stop() {
+    this.failure ??= new Error('The import was stopped.')
+    await this.worker.terminate()
+  }
+}
