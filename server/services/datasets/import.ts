@@ -91,17 +91,15 @@ export async function importDataset(datasetId: string): Promise<void> {
           encoder.header(batch[0]!)
           from = 1
         }
-        const rows: string[][] = []
+        // The cells one after another, each row cut or padded to the header's width.
+        const cells: string[] = []
         for (let i = from; i < batch.length; i++) {
           const raw = batch[i]!
-          if (raw.length === width) rows.push(raw)
-          else {
-            ragged++
-            rows.push(Array.from({ length: width }, (_, c) => raw[c] ?? ''))
-          }
+          if (raw.length !== width) ragged++
+          for (let c = 0; c < width; c++) cells.push(raw[c] ?? '')
         }
-        if (!rows.length) continue
-        ahead.push(encoder.encode(rows))
+        if (from === batch.length) continue
+        ahead.push(encoder.encode(cells, batch.length - from))
         if (ahead.length >= BATCHES_AHEAD) await send(await ahead.shift()!)
       }
       if (width < 0) throw new UnreadableFile('No readable columns: the file holds no rows at all.')

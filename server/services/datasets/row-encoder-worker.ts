@@ -50,11 +50,9 @@ export class RowEncoderWorker {
     if (!this.failure) this.worker.postMessage({ type: 'header', cells } satisfies ToEncoder)
   }
 
-  /** Rows of the header's width. */
-  async encode(rows: readonly string[][]): Promise<Encoded> {
-    const cells: string[] = []
-    for (const row of rows) for (const cell of row) cells.push(cell)
-    const reply = await this.send({ type: 'rows', packed: cells.join('\0'), count: rows.length })
+  /** `count` rows, their cells one after another, the header's width to a row. */
+  async encode(cells: readonly string[], count: number): Promise<Encoded> {
+    const reply = await this.send({ type: 'rows', packed: cells.join('\0'), count })
     if (reply.type !== 'bytes') throw new Error(`The encoding thread answered rows with "${reply.type}".`)
     return { rows: buffers(reply.rows), digits: buffers(reply.digits) }
   }
