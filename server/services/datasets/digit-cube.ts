@@ -31,26 +31,32 @@ const MAX_GROUPS = 5000
 /** Cells in memory per import, about 9 KB each, across all column pairs. */
 const MAX_CELLS = 8000
 
+/** Every combination of the tests a value has a key for (a value under 10 has no first two digits). */
+const MASKS = 1 << FIELDS.length
+
 /** Where one digit record counts in a cell: worked out once, then added to every cell it belongs to. */
 class Slots {
   status = 0
   readonly keys = new Int32Array(FIELDS.length)
-  readonly arcs = new Int32Array(FIELDS.length)
   length = 0
+  /** Which sum of cos and sin the record's arc goes to: its sign and the tests it has keys for. */
+  arc = -1
   cos = 0
   sin = 0
   private base = 0
-  private side = 0
+  private mask = 0
 
   of(r: DigitRecord): this {
     this.length = 0
+    this.arc = -1
     if (r.status !== 'number') {
       this.status = STATUS_SLOT[r.status]
       return this
     }
-    this.side = r.sign > 0 ? 0 : 1
-    this.status = 3 + this.side
-    this.base = STATUS_SLOTS + this.side * PER_SIGN
+    const side = r.sign > 0 ? 0 : 1
+    this.status = 3 + side
+    this.base = STATUS_SLOTS + side * PER_SIGN
+    this.mask = 0
     // The arc uses the mantissa as PostgreSQL stores it (real), like a count over the records would.
     const angle = 2 * Math.PI * Math.fround(r.mantissa!)
     this.cos = Math.cos(angle)
@@ -60,28 +66,48 @@ class Slots {
     this.key(2, r.firstTwo)
     this.key(3, r.firstThree)
     this.key(4, r.lastTwo)
+    this.arc = (side * MASKS + this.mask) * 2
     return this
   }
 
   private key(f: number, key: number | null) {
     if (key === null) return
-    this.keys[this.length] = this.base + OFFSETS[f]! + key - FIELDS[f]!.low
-    this.arcs[this.length++] = (this.side * FIELDS.length + f) * 2
+    this.keys[this.length++] = this.base + OFFSETS[f]! + key - FIELDS[f]!.low
+    this.mask |= 1 << f
   }
 }
 
 class Cell {
   readonly counts = new Int32Array(CUBE_LENGTH)
-  readonly arcs = new Float64Array(ARC_LENGTH)
+  /**
+   * Sums of cos and sin per sign and set of tests with a key: one pair per record instead of one
+   * per test, summed into each test's pair as the cell is written (arcs).
+   */
+  private readonly sums = new Float64Array(2 * MASKS * 2)
 
   add(slots: Slots) {
     this.counts[slots.status]!++
-    for (let i = 0; i < slots.length; i++) {
-      this.counts[slots.keys[i]!]!++
-      const arc = slots.arcs[i]!
-      this.arcs[arc]! += slots.cos
-      this.arcs[arc + 1]! += slots.sin
+    for (let i = 0; i < slots.length; i++) this.counts[slots.keys[i]!]!++
+    if (slots.arc < 0) return
+    this.sums[slots.arc]! += slots.cos
+    this.sums[slots.arc + 1]! += slots.sin
+  }
+
+  /** Per sign and test, the sums of cos and sin over the values with a key in that test. */
+  arcs(): Float64Array {
+    const arcs = new Float64Array(ARC_LENGTH)
+    for (let side = 0; side < 2; side++) {
+      for (let mask = 1; mask < MASKS; mask++) {
+        const from = (side * MASKS + mask) * 2
+        for (let f = 0; f < FIELDS.length; f++) {
+          if (!(mask & (1 << f))) continue
+          const to = (side * FIELDS.length + f) * 2
+          arcs[to]! += this.sums[from]!
+          arcs[to + 1]! += this.sums[from + 1]!
+        }
+      }
     }
+    return arcs
   }
 }
 
@@ -167,7 +193,7 @@ function writeCell(out: CopyEncoder, dataset: Buffer, columnPos: number, groupPo
   out.int16(groupPos)
   out.int32(code)
   out.int32Array(cell.counts)
-  out.float8Array(cell.arcs)
+  out.float8Array(cell.arcs())
 }
 
 export const CUBE_COLUMNS = ['dataset_id', 'column_pos', 'group_pos', 'group_code', 'counts', 'arcs']

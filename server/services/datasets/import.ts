@@ -10,7 +10,7 @@ import type { EncodedImport, TopValue } from './row-encoder'
 import { RowEncoderWorker } from './row-encoder-worker'
 import type { Encoded } from './row-encoder-worker'
 import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
-import type { DatasetFormat } from './sniff'
+import type { DatasetFormat, TextEncoding } from './sniff'
 import { dropPartitionsSql, partitionNames } from './partitions'
 
 const PROGRESS_EVERY_MS = 500
@@ -55,76 +55,90 @@ export async function importDataset(datasetId: string): Promise<void> {
   if (!dataset || dataset.status !== 'importing') return
   const files = useFileStore()
   const openStored = (start = 0) => files.open(dataset.storageKey, start)
-  const head = await buffer(await files.open(dataset.storageKey, 0, 64 * 1024 - 1))
-  const { encoding, bomLength } = dataset.format === 'xlsx'
-    ? detectEncoding(head)
-    : await detectFileEncoding(openStored, head)
+  const detectFormatEncoding = async () => {
+    const head = await buffer(await files.open(dataset.storageKey, 0, 64 * 1024 - 1))
+    return dataset.format === 'xlsx' ? detectEncoding(head) : await detectFileEncoding(openStored, head)
+  }
   const names = partitionNames(datasetId)
   // The CHECK constraints, made while the tables are empty, let ATTACH PARTITION skip its scan.
   const onlyThis = (table: string) => `ALTER TABLE ${table} ADD CONSTRAINT ${table}_one CHECK (dataset_id = '${datasetId}');`
+  // Rows and digit records arrive without their dataset (copy-encoder.ts).
+  const byDefault = (table: string) => `${onlyThis(table)} ALTER TABLE ${table} ALTER COLUMN dataset_id SET DEFAULT '${datasetId}';`
 
-  await withConnections(async (db) => {
-    await db.rows.query(dropPartitionsSql(datasetId))
-    const encoder = new RowEncoderWorker(datasetId)
-    const rowsOut = await CopyStream.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, onlyThis(names.rows))
-    const digitsOut = await CopyStream.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, onlyThis(names.digits))
-    const source = openRows(dataset.format as DatasetFormat, openStored, encoding, bomLength)
+  // The encoding thread starts, the file's encoding is found and the tables are made side by side.
+  const encoder = new RowEncoderWorker(datasetId)
+  const detected = detectFormatEncoding()
+  detected.catch(() => {}) // awaited below; a failure before then must not go unhandled
+  try {
+    await withConnections(async (db) => {
+      await db.rows.query(dropPartitionsSql(datasetId))
+      const [rowsOut, digitsOut] = await Promise.all([
+        CopyStream.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, byDefault(names.rows)),
+        CopyStream.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, byDefault(names.digits)),
+      ])
+      let read: Awaited<ReturnType<typeof copyRows>>
+      try {
+        read = await copyRows(rowsOut, digitsOut, await detected)
+      }
+      catch (error) {
+        await Promise.all([rowsOut.abort(), digitsOut.abort(), encoder.stop()])
+        await dropStaging(db.rows, datasetId)
+        throw error
+      }
+      await encoder.stop()
+      try {
+        await finish(db, read.encoded, read.ragged, read.source.meta, read.encoding)
+      }
+      catch (error) {
+        await dropStaging(db.rows, datasetId)
+        throw error
+      }
+      await speedUp(db)
+    })
+  }
+  finally {
+    await encoder.stop()
+  }
+
+  /** Streams the file's rows through the encoding thread into both COPYs; returns what was learnt. */
+  async function copyRows(rowsOut: CopyStream, digitsOut: CopyStream, { encoding, bomLength }: { encoding: TextEncoding, bomLength: number }) {
+    const source = openRows(dataset!.format as DatasetFormat, openStored, encoding, bomLength)
     let width = -1
     let ragged = 0
     let lastProgress = Date.now()
     const ahead: Promise<Encoded>[] = []
-
     const send = async ({ rows, digits }: Encoded) => {
       await Promise.all([rowsOut.send(rows), digitsOut.send(digits)])
       if (Date.now() - lastProgress > PROGRESS_EVERY_MS) {
         lastProgress = Date.now()
-        await models.Dataset.update({ progress: Math.min(0.99, source.bytesRead() / Number(dataset.byteSize)) }, { where: { id: datasetId } })
+        await models.Dataset.update({ progress: Math.min(0.99, source.bytesRead() / Number(dataset!.byteSize)) }, { where: { id: datasetId } })
       }
     }
-
-    let encoded: EncodedImport
-    try {
-      for await (const batch of source.rows) {
-        let from = 0
-        if (width < 0) {
-          width = batch[0]!.length
-          encoder.header(batch[0]!)
-          from = 1
-        }
-        // The cells one after another, each row cut or padded to the header's width.
-        const cells: string[] = []
-        for (let i = from; i < batch.length; i++) {
-          const raw = batch[i]!
-          if (raw.length !== width) ragged++
-          for (let c = 0; c < width; c++) cells.push(raw[c] ?? '')
-        }
-        if (from === batch.length) continue
-        ahead.push(encoder.encode(cells, batch.length - from))
-        if (ahead.length >= BATCHES_AHEAD) await send(await ahead.shift()!)
+    for await (const batch of source.rows) {
+      let from = 0
+      if (width < 0) {
+        width = batch[0]!.length
+        encoder.header(batch[0]!)
+        from = 1
       }
-      if (width < 0) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
-      for (const next of ahead.splice(0)) await send(await next)
-      const last = await encoder.finish()
-      await rowsOut.end(last.rows)
-      await digitsOut.end(last.digits)
-      encoded = last.encoded
+      // The cells one after another, each row cut or padded to the header's width.
+      const cells: string[] = []
+      for (let i = from; i < batch.length; i++) {
+        const raw = batch[i]!
+        if (raw.length !== width) ragged++
+        for (let c = 0; c < width; c++) cells.push(raw[c] ?? '')
+      }
+      if (from === batch.length) continue
+      ahead.push(encoder.encode(cells, batch.length - from))
+      if (ahead.length >= BATCHES_AHEAD) await send(await ahead.shift()!)
     }
-    catch (error) {
-      await Promise.all([rowsOut.abort(), digitsOut.abort(), encoder.stop()])
-      await dropStaging(db.rows, datasetId)
-      throw error
-    }
-    await encoder.stop()
-
-    try {
-      await finish(db, encoded, ragged, source.meta, encoding)
-    }
-    catch (error) {
-      await dropStaging(db.rows, datasetId)
-      throw error
-    }
-    await speedUp(db)
-  })
+    if (width < 0) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
+    for (const next of ahead.splice(0)) await send(await next)
+    const last = await encoder.finish()
+    await rowsOut.end(last.rows)
+    await digitsOut.end(last.digits)
+    return { source, encoding, ragged, encoded: last.encoded }
+  }
 
   /**
    * The indexes and planner statistics follow once the dataset is ready: they make queries fast

@@ -205,7 +205,7 @@ export class RowEncoder {
     const plan = this.plan!
     const width = plan.length
     const rowNo = ++this.rowNo
-    writeRow(this.rows, this.dataset, rowNo, cells, from, width)
+    writeRow(this.rows, rowNo, cells, from, width)
     const codes = this.groupCodes!.codesOf(cells, from)
     for (let c = 0; c < width; c++) {
       const column = plan[c]!
@@ -217,7 +217,7 @@ export class RowEncoder {
       const read = readNumber(cell, column.style)
       const record = recordOf(read)
       column.profile.addNumber(cell, record)
-      writeDigits(this.digits, this.dataset, c, rowNo, read, record, codes)
+      writeDigits(this.digits, c, rowNo, read, record, codes)
       this.cube!.add(c, record, codes)
       if (record.status === 'number') this.frequent[c]![record.sign > 0 ? 0 : 1].add(record.value!)
     }

@@ -33,7 +33,7 @@ export class SignProfile {
       if (record.trailingZeros >= 2) this.roundHundreds++
     }
     this.lengths.set(record.integerDigits, (this.lengths.get(record.integerDigits) ?? 0) + 1)
-    const text = record.value!.replace(/^-/, '')
+    const text = record.sign < 0 ? record.value!.slice(1) : record.value!
     const abs = Number(text)
     const toMin = this.min ? compareValues(abs, text, this.min.abs, this.min.text) : -1
     if (toMin < 0) this.min = { abs, text, count: 1 }
