@@ -33,8 +33,8 @@ export function keyText(test: DistributionTest, key: number | string): string {
   return test === 'last-two-digits' ? String(key).padStart(2, '0') : String(key)
 }
 
-/** Counts keyed by a digit field → bins and every statistic of a distribution test. */
-export function runDistributionTest(test: DistributionTest, counts: DistributionCounts, sign: SignFilter): TestOutcome {
+/** Counts keyed by a digit field → bins and every statistic of a distribution test (`ranges`: see buildBins). */
+export function runDistributionTest(test: DistributionTest, counts: DistributionCounts, sign: SignFilter, ranges = true): TestOutcome {
   const definition = DISTRIBUTIONS[test]
   const index = new Map(definition.keys.map((key, i) => [key, i]))
   const binCounts = definition.keys.map(() => 0)
@@ -52,7 +52,7 @@ export function runDistributionTest(test: DistributionTest, counts: Distribution
   assertCountsAddUp(n + belowMinimum, counts.status, sign)
 
   const excluded = excludedOf(counts.status, sign, belowMinimum)
-  const bins = buildBins(n, definition.keys, binCounts, definition.shares)
+  const bins = buildBins(n, definition.keys, binCounts, definition.shares, ranges)
   if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
   const shares = bins.map(bin => bin.share)
   return {

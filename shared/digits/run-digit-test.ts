@@ -41,6 +41,8 @@ export interface DigitTestRequest<T extends TestName = TestName> {
 interface Options {
   threshold?: ThresholdOptions
   duplicatesShown: number
+  /** Whether bins carry their 95% ranges; a group's ranking reads only its MAD and chi-square. */
+  binRanges: boolean
 }
 
 interface TestHandler<C> {
@@ -56,7 +58,7 @@ function requireThreshold(options: Options): ThresholdOptions {
 function distribution(test: DistributionTest): TestHandler<TestCountsMap[DistributionTest]> {
   return {
     count: (records, sign) => countDistribution(test, records, sign),
-    run: (counts, sign) => runDistributionTest(test, counts, sign),
+    run: (counts, sign, options) => runDistributionTest(test, counts, sign, options.binRanges),
   }
 }
 
@@ -96,7 +98,7 @@ function evaluate<T extends TestName>(test: T, input: TestInput<T>, sign: SignFi
 export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): TestResult {
   const { test, input } = request
   const sign = request.sign ?? 'positive'
-  const options: Options = { threshold: request.threshold, duplicatesShown: request.duplicatesShown ?? DEFAULT_DUPLICATES_SHOWN }
+  const options: Options = { threshold: request.threshold, duplicatesShown: request.duplicatesShown ?? DEFAULT_DUPLICATES_SHOWN, binRanges: true }
   const style = 'values' in input ? input.style ?? detectNumberStyle(input.values) : DOT_STYLE
   const { outcome, profile } = evaluate(test, input, sign, options, style)
   const result: TestResult = {
@@ -110,7 +112,9 @@ export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): 
   if (request.groups) {
     if (!GROUPABLE.has(test)) throw new RangeError(`The ${test} test does not rank groups`)
     const minSize = request.groups.minSize ?? MINIMUM_VALUES[test]!.warning
-    const outcomes = request.groups.items.map(item => ({ key: item.key, outcome: evaluate(test, item.input, sign, options, style).outcome }))
+    // Ranges would be two binomial quantiles per bin of every group (most of a grouped test's time), unread by the ranking.
+    const ranking = { ...options, binRanges: false }
+    const outcomes = request.groups.items.map(item => ({ key: item.key, outcome: evaluate(test, item.input, sign, ranking, style).outcome }))
     const ranked = rankGroups(outcomes, minSize)
     result.groups = ranked.groups
     result.groupsSkipped = ranked.skipped

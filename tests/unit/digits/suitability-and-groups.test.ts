@@ -113,6 +113,16 @@ describe('groups', () => {
     expect(fromValues.groupsSkipped).toBe(1)
   })
 
+  it('ranks each group by the same MAD and chi-square p as a test of that group alone', () => {
+    // Groups are run without the bins' 95% ranges; the ranking must not notice.
+    const result = runDigitTest({ test: 'first-two-digits', input: { values: [] }, groups: { minSize: 50, items: items.map(({ key, values }) => ({ key, input: { values } })) } })
+    for (const group of result.groups!) {
+      const alone = runDigitTest({ test: 'first-two-digits', input: { values: items.find(i => i.key === group.key)!.values } })
+      expect(alone.bins.every(bin => bin.low !== null && bin.high !== null)).toBe(true)
+      expect([group.n, group.mad, group.p]).toEqual([alone.n, alone.mad!.value, alone.chiSquare!.p])
+    }
+  })
+
   it('refuses groups for tests that have no MAD', () => {
     expect(() => runDigitTest({ test: 'duplicates', input: { values: [] }, groups: { items: [] } })).toThrow(RangeError)
   })
