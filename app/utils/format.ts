@@ -18,6 +18,13 @@ export function formatDateTime(iso: string | null | undefined): string {
   return iso ? new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' }) : '—'
 }
 
+/** A difference with fixed decimals: one too small to show is 0, never "-0.00000" or an exponent. */
+export function formatDifference(value: number | null | undefined, digits = 5): string {
+  if (value === null || value === undefined || Number.isNaN(value)) return '—'
+  const text = value.toFixed(digits)
+  return Number(text) === 0 ? (0).toFixed(digits) : text
+}
+
 /** A statistic with fixed decimals; very small values keep their magnitude visible. */
 export function formatStatistic(value: number | null | undefined, digits = 4): string {
   if (value === null || value === undefined || Number.isNaN(value)) return '—'
