@@ -72,10 +72,18 @@ export async function importDataset(datasetId: string): Promise<void> {
   try {
     await withConnections(async (db) => {
       await db.rows.query(dropPartitionsSql(datasetId))
-      const [rowsOut, digitsOut] = await Promise.all([
+      const opened = await Promise.allSettled([
         CopyStream.open(db.rows, names.rows, 'dataset_rows', ROW_COLUMNS, byDefault(names.rows)),
         CopyStream.open(db.digits, names.digits, 'digit_records', DIGIT_COLUMNS, byDefault(names.digits)),
       ])
+      const refused = opened.find(result => result.status === 'rejected')
+      if (refused) {
+        // One COPY may have started: end it before its connection goes back to the pool.
+        await Promise.all(opened.map(result => (result.status === 'fulfilled' ? result.value.abort() : null)))
+        await dropStaging(db.rows, datasetId)
+        throw refused.reason
+      }
+      const [rowsOut, digitsOut] = opened.map(result => (result as PromiseFulfilledResult<CopyStream>).value) as [CopyStream, CopyStream]
       let read: Awaited<ReturnType<typeof copyRows>>
       try {
         read = await copyRows(rowsOut, digitsOut, await detected)
