@@ -54,15 +54,8 @@ export class CopyEncoder {
 
   /** An int2, or NULL for null. */
   smallOrNull(value: number | null) {
-    this.room(6)
-    if (value === null) {
-      this.view.setInt32(this.at, -1)
-      this.at += 4
-      return
-    }
-    this.view.setInt32(this.at, 2)
-    this.view.setInt16(this.at + 4, value)
-    this.at += 6
+    if (value === null) this.null()
+    else this.int16(value)
   }
 
   int16(value: number) {

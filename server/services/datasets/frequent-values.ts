@@ -15,9 +15,9 @@ export interface Leader {
   slack: number
 }
 
-// An open-addressing table at most half full. A Map did the same job at a third of the import
-// thread's time for a column of distinct amounts: every value is a new key, and every
-// COUNTERS + 1 of them all keys are deleted.
+// An open-addressing table at most half full. For a column of distinct amounts every value is a
+// new key and every COUNTERS + 1 of them all keys go: a Map took 0.44 s of a million-row import
+// that way, this table 0.05 s.
 const SLOTS = 4096
 const MASK = SLOTS - 1
 
