@@ -58,35 +58,36 @@ export class CopyEncoder {
     else this.int16(value)
   }
 
+  /** Makes room for a value of `bytes` bytes after its length; returns where the value goes. */
+  private field(bytes: number): number {
+    this.room(4 + bytes)
+    this.view.setInt32(this.at, bytes)
+    const at = this.at + 4
+    this.at = at + bytes
+    return at
+  }
+
+  // `this.view` is read after field(), which may have moved to a new buffer.
   int16(value: number) {
-    this.room(6)
-    this.view.setInt32(this.at, 2)
-    this.view.setInt16(this.at + 4, value)
-    this.at += 6
+    const at = this.field(2)
+    this.view.setInt16(at, value)
   }
 
   int32(value: number) {
-    this.room(8)
-    this.view.setInt32(this.at, 4)
-    this.view.setInt32(this.at + 4, value)
-    this.at += 8
+    const at = this.field(4)
+    this.view.setInt32(at, value)
   }
 
   float4(value: number) {
-    this.room(8)
-    this.view.setInt32(this.at, 4)
-    this.view.setFloat32(this.at + 4, value)
-    this.at += 8
+    const at = this.field(4)
+    this.view.setFloat32(at, value)
   }
 
   /** Bytes already in PostgreSQL's binary form of the column's type (a uuid). */
   raw(bytes: Buffer) {
-    this.room(4 + bytes.length)
-    this.view.setInt32(this.at, bytes.length)
+    const at = this.field(bytes.length)
     // A few bytes each time (a uuid): a loop beats a call into Buffer.copy.
-    const at = this.at + 4
     for (let i = 0; i < bytes.length; i++) this.buffer[at + i] = bytes[i]!
-    this.at = at + bytes.length
   }
 
   text(value: string) {
