@@ -26,7 +26,9 @@ export function threadScripts(sharedDir: string): Plugin {
         alias: { '#shared': sharedDir }, logLevel: 'silent',
       })
       for (const input of Object.keys(result.metafile.inputs)) this.addWatchFile(resolve(input))
-      return `export default ${JSON.stringify(result.outputFiles[0]!.text)}`
+      // As base64: the server bundle's own replacements (`typeof window`, `process.env.NODE_ENV`…)
+      // would otherwise rewrite the thread's code inside a plain string literal and could break it.
+      return `export default Buffer.from(${JSON.stringify(Buffer.from(result.outputFiles[0]!.text).toString('base64'))}, 'base64').toString()`
     },
   }
 }
