@@ -110,7 +110,8 @@ export async function importDataset(datasetId: string): Promise<void> {
 
   /** Streams the file's rows through the encoding thread into both COPYs; returns what was learnt. */
   async function copyRows(rowsOut: CopyStream, digitsOut: CopyStream, { encoding, bomLength }: { encoding: TextEncoding, bomLength: number }) {
-    const source = openRows(dataset!.format as DatasetFormat, openStored, encoding, bomLength)
+    const stored = { open: (start: number, end?: number) => files.open(dataset!.storageKey, start, end), byteSize: Number(dataset!.byteSize), sheet: null }
+    const source = openRows(dataset!.format as DatasetFormat, stored, encoding, bomLength)
     let width = -1
     let ragged = 0
     let lastProgress = Date.now()
