@@ -16,6 +16,8 @@ export default defineNuxtConfig({
   runtimeConfig: {
     // Every value here is overridden by NUXT_* environment variables (README: production settings).
     databaseUrl: '',
+    // A read-only streaming replica for the digit counts and rows of ready datasets (README: scaling out).
+    databaseReadUrl: '',
     smtpUrl: '',
     mailFrom: 'Mantissa <desk@mantissa.invalid>',
     mailSink: { enabled: false, port: 2525 },

@@ -1,7 +1,7 @@
 // `npm test`: every check, on a fresh machine, against a throwaway PostgreSQL of its own.
 import { spawn } from 'node:child_process'
-import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
-import { join } from 'node:path'
+import { createWriteStream, existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
+import { dirname, join } from 'node:path'
 import { ensurePostgres } from './postgres.mjs'
 import { buildIfStale, ensureChromium, ensureDependencies, migrate, root, run, step, waitForServer } from './prepare.mjs'
 
@@ -42,7 +42,17 @@ const env = {
 }
 rmSync(env.NUXT_STORAGE_BASE, { recursive: true, force: true })
 step(`starting the built app for server and browser tests on ${url}`)
-const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'] })
+// The server's output also goes to a file, where the tests look for errors it logged (an unhandled rejection).
+const serverLog = join(root, 'tests', '.artifacts', 'server.log')
+mkdirSync(dirname(serverLog), { recursive: true })
+const logFile = createWriteStream(serverLog)
+const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] })
+for (const [from, to] of [[server.stdout, process.stdout], [server.stderr, process.stderr]]) {
+  from.on('data', (chunk) => {
+    to.write(chunk)
+    logFile.write(chunk)
+  })
+}
 let results = { numPassedTests: 0, numFailedTests: 0, numPendingTests: 0 }
 try {
   await waitForServer(url)
@@ -53,6 +63,8 @@ try {
   rmSync(report, { force: true })
   const code = run(bin('vitest'), ['run', '--config', 'tests/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], {
     MANTISSA_TEST_URL: url,
+    MANTISSA_TEST_SERVER_PID: String(server.pid),
+    MANTISSA_TEST_SERVER_LOG: serverLog,
     NUXT_DATABASE_URL: database.url,
     NUXT_STORAGE_BASE: env.NUXT_STORAGE_BASE,
     NUXT_UPLOAD_LIMIT_BYTES: env.NUXT_UPLOAD_LIMIT_BYTES,

@@ -1,8 +1,8 @@
 import { Readable } from 'node:stream'
 import ExcelJS from 'exceljs'
 import { describe, expect, it } from 'vitest'
-import yazl from 'yazl'
 import { WORKBOOK_LIMITS, workbookRows, workbookSheets } from '../../server/services/datasets/workbook'
+import { MEGABYTE, cellTextBomb, craftedWorkbook, manyRowsWorkbook, sharedTextBomb, sheetOf } from '../fixtures/hostile/generated'
 
 // Workbooks written by another program (exceljs, an independent .xlsx writer) must read back as the
 // cells it was given; archives written with yazl (a general zip writer) stand in for crafted files.
@@ -29,36 +29,6 @@ async function excelWorkbook(build: (workbook: ExcelJS.Workbook) => void): Promi
   const workbook = new ExcelJS.Workbook()
   build(workbook)
   return Buffer.from(await workbook.xlsx.writeBuffer())
-}
-
-const RELS = '<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="xl/workbook.xml"/></Relationships>'
-const WORKBOOK = '<?xml version="1.0" encoding="UTF-8"?><workbook xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main" xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships"><sheets><sheet name="Data" sheetId="1" r:id="rId1"/></sheets></workbook>'
-const WORKBOOK_RELS = '<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/><Relationship Id="rId2" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/sharedStrings" Target="sharedStrings.xml"/></Relationships>'
-
-/** A minimal workbook by hand: its parts in the order given, each a string or a stream of pieces. */
-async function craftedWorkbook(parts: { sheet: () => Iterable<string>, strings?: () => Iterable<string>, sheetFirst?: boolean, extraEntries?: number }): Promise<Buffer> {
-  const zip = new yazl.ZipFile()
-  const add = (name: string, pieces: () => Iterable<string>) => zip.addReadStream(Readable.from((function* () {
-    for (const piece of pieces()) yield Buffer.from(piece)
-  })()), name, { compress: true })
-  const strings = parts.strings ?? (() => ['<sst xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"></sst>'])
-  zip.addBuffer(Buffer.from(RELS), '_rels/.rels')
-  zip.addBuffer(Buffer.from(WORKBOOK), 'xl/workbook.xml')
-  zip.addBuffer(Buffer.from(WORKBOOK_RELS), 'xl/_rels/workbook.xml.rels')
-  if (parts.sheetFirst) add('xl/worksheets/sheet1.xml', parts.sheet)
-  add('xl/sharedStrings.xml', strings)
-  if (!parts.sheetFirst) add('xl/worksheets/sheet1.xml', parts.sheet)
-  for (let i = 0; i < (parts.extraEntries ?? 0); i++) zip.addBuffer(Buffer.alloc(0), `padding/${i}.txt`, { compress: false })
-  zip.end()
-  const chunks: Buffer[] = []
-  for await (const chunk of zip.outputStream) chunks.push(chunk as Buffer)
-  return Buffer.concat(chunks)
-}
-
-const sheetOf = (rows: () => Iterable<string>) => function* () {
-  yield '<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>'
-  yield* rows()
-  yield '</sheetData></worksheet>'
 }
 
 describe('reading workbooks written by a spreadsheet writer', () => {
@@ -107,44 +77,19 @@ describe('crafted workbooks are refused before they exhaust the server', () => {
   const refusal = /larger than any spreadsheet program writes/
 
   it('refuses shared text that inflates past its limit, without holding it', async () => {
-    const piece = `<si><t>${'a'.repeat(1 << 20)}</t></si>`
-    const count = Math.ceil(WORKBOOK_LIMITS.sharedStringBytes / piece.length) + 2
-    const bytes = await craftedWorkbook({
-      sheet: sheetOf(() => ['<row r="1"><c r="A1" t="s"><v>0</v></c></row>']),
-      strings: function* () {
-        yield '<sst>'
-        for (let i = 0; i < count; i++) yield piece
-        yield '</sst>'
-      },
-    })
-    expect(bytes.length).toBeLessThan(1 << 20) // a small upload...
+    const bytes = await sharedTextBomb(WORKBOOK_LIMITS.sharedStringBytes / MEGABYTE + 2)
+    expect(bytes.length).toBeLessThan(MEGABYTE) // a small upload...
     const before = process.memoryUsage().rss
     expect((await failureOf(bytes)).message).toMatch(refusal) // ...that would inflate to over 64 MB
     expect(process.memoryUsage().rss - before).toBeLessThan(WORKBOOK_LIMITS.sharedStringBytes * 3)
   })
 
   it('refuses one cell of more text than a spreadsheet cell holds', async () => {
-    const bytes = await craftedWorkbook({
-      sheet: function* () {
-        yield '<worksheet><sheetData><row r="1"><c r="A1" t="inlineStr"><is><t>'
-        for (let i = 0; i < 64; i++) yield 'b'.repeat(1 << 20)
-        yield '</t></is></c></row></sheetData></worksheet>'
-      },
-    })
-    expect((await failureOf(bytes)).message).toMatch(refusal)
+    expect((await failureOf(await cellTextBomb(64))).message).toMatch(refusal)
   })
 
   it('refuses more rows than a sheet can have', async () => {
-    const bytes = await craftedWorkbook({
-      sheet: sheetOf(function* () {
-        for (let r = 1; r <= WORKBOOK_LIMITS.rows + 1; r += 1000) {
-          let chunk = ''
-          for (let i = r; i < r + 1000; i++) chunk += `<row r="${i}"><c r="A${i}"><v>1</v></c></row>`
-          yield chunk
-        }
-      }),
-    })
-    const error = await failureOf(bytes)
+    const error = await failureOf(await manyRowsWorkbook(WORKBOOK_LIMITS.rows + 1))
     expect(error.message).toMatch(refusal)
     expect(error.message).toMatch(/number of rows/)
   }, 120_000)

@@ -22,16 +22,33 @@ interface Connections {
   digits: PoolClient
 }
 
+/**
+ * Two connections for an import's two COPYs. After a failure they are closed, not pooled: a COPY
+ * cut off half-way can leave a connection in the middle of the protocol, and the next query sent
+ * on it made PostgreSQL log "protocol synchronization was lost".
+ */
 async function withConnections<T>(work: (c: Connections) => Promise<T>): Promise<T> {
   const manager = useDb().sequelize.connectionManager
   const rows = await manager.getConnection({ type: 'write' }) as PoolClient
-  const digits = await manager.getConnection({ type: 'write' }) as PoolClient
+  let digits: PoolClient
   try {
-    return await work({ rows, digits })
+    digits = await manager.getConnection({ type: 'write' }) as PoolClient
+  }
+  catch (error) {
+    manager.releaseConnection(rows)
+    throw error
+  }
+  let clean = false
+  try {
+    const result = await work({ rows, digits })
+    clean = true
+    return result
   }
   finally {
-    manager.releaseConnection(rows)
-    manager.releaseConnection(digits)
+    for (const connection of [rows, digits]) {
+      if (clean) manager.releaseConnection(connection)
+      else await manager.destroyConnection(connection).catch(() => {})
+    }
   }
 }
 
@@ -138,7 +155,10 @@ export async function importDataset(datasetId: string): Promise<void> {
         for (let c = 0; c < width; c++) cells.push(raw[c] ?? '')
       }
       if (from === batch.length) continue
-      ahead.push(encoder.encode(cells, batch.length - from))
+      const encoding = encoder.encode(cells, batch.length - from)
+      // Awaited in order below; one that fails before its turn (the thread refused the header) must not go unhandled.
+      encoding.catch(() => {})
+      ahead.push(encoding)
       if (ahead.length >= BATCHES_AHEAD) await send(await ahead.shift()!)
     }
     if (width < 0) throw new UnreadableFile('No readable columns: the file holds no rows at all.')

@@ -3,6 +3,7 @@ import type { H3Event } from 'h3'
 import { datasetUploadSchema } from '#shared/schemas/dataset'
 import type { Actor } from '../../utils/permissions'
 import { importDataset } from './import'
+import { importSlot } from './import-slots'
 import { queueImport } from '../../utils/jobs'
 import { UnreadableFile, checkContent, formatFromName } from './sniff'
 import type { StoredFile } from '../../utils/file-drivers/store'
@@ -10,6 +11,8 @@ import { TooLarge } from '../../utils/file-drivers/store'
 
 /** Files up to this size are imported while the upload waits, so errors come back as 4xx at once. */
 export const INLINE_BYTES = 8 * 1024 * 1024
+/** How long a small upload waits for an import slot before it is queued instead (answered 202). */
+const SLOT_WAIT_MS = 10_000
 
 interface Received {
   fields: Record<string, string>
@@ -102,7 +105,10 @@ export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id:
       originalName: file.originalName, format, sha256: file.sha256, byteSize: file.byteSize,
       storageKey: file.key, replacesId: parsed.data.replacesId ?? null, createdBy: actor.userId,
     })
-    if (file.byteSize > INLINE_BYTES) {
+    // A small file is imported while the upload waits, so a bad one is refused at once; a large
+    // one, or one that finds this server's import slots taken for a while, goes to the queue.
+    const slot = file.byteSize > INLINE_BYTES ? null : await importSlot(SLOT_WAIT_MS)
+    if (!slot) {
       await queueImport(dataset.id)
       return { id: dataset.id, status: 'importing', queued: true }
     }
@@ -112,6 +118,9 @@ export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id:
     catch (error) {
       await models.Dataset.destroy({ where: { id: dataset.id } })
       throw error
+    }
+    finally {
+      slot()
     }
     return { id: dataset.id, status: 'ready', queued: false }
   }
