@@ -29,7 +29,9 @@ export default defineNuxtConfig({
       driver: 'fs', base: '.data/files',
       bucket: '', region: '', endpoint: '', forcePathStyle: false, accessKeyId: '', secretAccessKey: '', prefix: '',
     },
-    jobs: { schema: 'pgboss' },
+    // expireSeconds: how long a server may go silent on an import before another takes it over;
+    // maintenanceSeconds: how often the queue looks for such imports (pg-boss's own default).
+    jobs: { schema: 'pgboss', expireSeconds: 15 * 60, maintenanceSeconds: 120 },
     session: {
       maxAge: 60 * 60 * 12,
       // Secure everywhere, not only in production: browsers keep Secure cookies on http://localhost,
