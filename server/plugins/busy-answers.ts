@@ -13,7 +13,7 @@ export default defineNitroPlugin((nitroApp) => {
   if (!answer) return
   nitroApp.h3App.options.onError = (error, event) => {
     if (!(error.cause instanceof ConnectionAcquireTimeoutError)) return answer(error, event)
-    setResponseHeader(event, 'Retry-After', String(RETRY_AFTER_SECONDS))
+    setResponseHeader(event, 'Retry-After', RETRY_AFTER_SECONDS)
     return answer(fail(503, { message: `Mantissa is answering many requests at once. Nothing was changed; try again in ${RETRY_AFTER_SECONDS} seconds.` }), event)
   }
 })

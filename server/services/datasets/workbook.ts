@@ -93,15 +93,18 @@ function limited(limit: number, what: string): Transform {
   })
 }
 
+/** A tag as saxes gives it without namespaces: attributes are plain text. */
+type Tag = SaxesTagPlain
+
 type Handlers = {
-  open?: (tag: SaxesTagPlain) => void
+  open?: (tag: Tag) => void
   close?: (name: string) => void
   text?: (text: string) => void
 }
 
 /** Feeds one part's XML to a parser chunk by chunk; `drain` runs after each chunk (the sheet hands its rows over there). */
 async function* parsePart(stream: Readable, handlers: Handlers, drain?: () => unknown[]): AsyncGenerator<unknown[]> {
-  const parser = new SaxesParser({ position: false })
+  const parser = new SaxesParser<{ position: false, xmlns: false }>({ position: false, xmlns: false })
   let failure: Error | null = null
   parser.on('error', (error) => {
     failure ??= error
@@ -456,7 +459,7 @@ async function readSmall(zip: yauzl.ZipFile, entry: yauzl.Entry): Promise<string
 function relationships(xml: string, from: string): { id: string, type: string, target: string }[] {
   const found: { id: string, type: string, target: string }[] = []
   if (!xml) return found
-  const parser = new SaxesParser({ position: false })
+  const parser = new SaxesParser<{ position: false, xmlns: false }>({ position: false, xmlns: false })
   parser.on('error', () => {})
   parser.on('opentag', (tag) => {
     if (local(tag.name) !== 'Relationship' || tag.attributes.TargetMode === 'External') return
