@@ -26,7 +26,7 @@ import type { Refused, Stored, UploadCase } from '../fixtures/hostile/uploads'
 const FILES = join(process.cwd(), 'tests', 'fixtures', 'hostile', 'files')
 
 /**
- * How far one upload may raise the server's resident memory above where it stood (README, "Limits"):
+ * How far one upload may raise the server's resident memory above where it stood (README, "Limits on uploads"):
  * a stored file streams through, and a crafted one is refused before it is held.
  */
 const UPLOAD_MEMORY_BOUND = 400 * MEGABYTE

@@ -3,10 +3,9 @@ import { join } from 'node:path'
 import { describe, expect, it } from 'vitest'
 import type { Reply } from '../support/api'
 import { delimitedText } from '../support/dataset-files'
-import { orphanPartitionTables, upload, waitUntilSettled } from '../support/datasets'
+import { orphanPartitionTables, upload, uploadCsv, waitUntilSettled } from '../support/datasets'
 import { sql } from '../support/database'
 import { createTestNewsroom } from '../support/newsroom'
-import { uploadPayments } from '../support/stories'
 
 // Issue 18: uploads and analyses at once, more than the server's import slots and database pool
 // take, on loopback and bounded in count. Every request gets a proper answer (a 503 only with
@@ -19,9 +18,8 @@ const ROWS = 4000
 /** The log of the PostgreSQL cluster `npm test` runs (server/cli/postgres.mjs keeps it in .data/). */
 const POSTGRES_LOG = join(process.cwd(), '.data', 'pg-test.log')
 
-function ledger(seed: number): Uint8Array {
-  const rows = Array.from({ length: ROWS }, (_, i) => [`Supplier ${(i * 7 + seed) % 23}`, String(((i + 1) * 7919 * (seed + 3)) % 99_991 + 10)])
-  return new TextEncoder().encode(delimitedText({ header: ['vendor', 'amount'], rows }))
+function ledgerText(seed: number, rows: number): string {
+  return delimitedText({ header: ['vendor', 'amount'], rows: Array.from({ length: rows }, (_, i) => [`Supplier ${(i * 7 + seed) % 23}`, String(((i + 1) * 7919 * (seed + 3)) % 99_991 + 10)]) })
 }
 
 function expectProperAnswer(reply: Reply, allowed: number[]) {
@@ -35,10 +33,10 @@ function expectProperAnswer(reply: Reply, allowed: number[]) {
 describe('uploads mixed with analyses under load', () => {
   it('answers every request properly, leaves no broken connection and nothing half-written', async () => {
     const desk = await createTestNewsroom('Load desk')
-    const datasetId = await uploadPayments(desk.reporter, desk.id)
+    const datasetId = await uploadCsv(desk.reporter, desk.id, ledgerText(99, 50_000), 'Load analysis ledger')
     const logFrom = (await stat(POSTGRES_LOG)).size
 
-    const uploads = Array.from({ length: UPLOADS }, (_, i) => upload(desk.reporter, `load-${i}.csv`, ledger(i), { title: `Load ${i}` }, `?newsroomId=${desk.id}`))
+    const uploads = Array.from({ length: UPLOADS }, (_, i) => upload(desk.reporter, `load-${i}.csv`, new TextEncoder().encode(ledgerText(i, ROWS)), { title: `Load ${i}` }, `?newsroomId=${desk.id}`))
     const analyses = Array.from({ length: ANALYSES }, (_, i) => desk['data-editor'].post(`/api/datasets/${datasetId}/digit-tests`, {
       column: 'amount',
       test: ['first-digit', 'first-two-digits', 'second-digit'][i % 3],
