@@ -5,7 +5,9 @@ import type { ColumnProfile as SuitabilityProfile } from '#shared/digits'
 import { CopyStream } from './bulk-copy'
 import { DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS } from './copy-encoder'
 import { CUBE_COLUMNS } from './digit-cube'
+import { inflatedHead, inflatedOpener } from './compressed'
 import { openRows } from './readers'
+import type { RowSource } from './readers'
 import type { EncodedImport, TopValue } from './row-encoder'
 import { RowEncoderWorker } from './row-encoder-worker'
 import type { Encoded } from './row-encoder-worker'
@@ -71,9 +73,13 @@ export async function importDataset(datasetId: string): Promise<void> {
   const dataset = await models.Dataset.findByPk(datasetId)
   if (!dataset || dataset.status !== 'importing') return
   const files = useFileStore()
-  const openStored = (start = 0) => files.open(dataset.storageKey, start)
+  const openRaw = (start: number, end?: number) => files.open(dataset.storageKey, start, end)
+  // A compressed table is read inflating, from its start; anything else straight from the store.
+  const openStored = dataset.compression
+    ? inflatedOpener(openRaw, Number(dataset.byteSize), dataset.compression, dataset.archiveEntry, Number(useRuntimeConfig().uploadLimitBytes))
+    : (start = 0) => openRaw(start)
   const detectFormatEncoding = async () => {
-    const head = await buffer(await files.open(dataset.storageKey, 0, 64 * 1024 - 1))
+    const head = dataset.compression ? await inflatedHead(await openStored()) : await buffer(await openRaw(0, 64 * 1024 - 1))
     return dataset.format === 'xlsx' ? detectEncoding(head) : await detectFileEncoding(openStored, head)
   }
   const names = partitionNames(datasetId)
@@ -127,7 +133,7 @@ export async function importDataset(datasetId: string): Promise<void> {
 
   /** Streams the file's rows through the encoding thread into both COPYs; returns what was learnt. */
   async function copyRows(rowsOut: CopyStream, digitsOut: CopyStream, { encoding, bomLength }: { encoding: TextEncoding, bomLength: number }) {
-    const stored = { open: (start: number, end?: number) => files.open(dataset!.storageKey, start, end), byteSize: Number(dataset!.byteSize), sheet: null }
+    const stored = { open: dataset!.format === 'xlsx' ? openRaw : openStored, byteSize: Number(dataset!.byteSize), sheet: dataset!.sheet }
     const source = openRows(dataset!.format as DatasetFormat, stored, encoding, bomLength)
     let width = -1
     let ragged = 0
@@ -203,7 +209,7 @@ export async function importDataset(datasetId: string): Promise<void> {
     )
   }
 
-  async function finish(db: Connections, encoded: EncodedImport, ragged: number, meta: { delimiter: string | null, extraFields: number }, encoding: string) {
+  async function finish(db: Connections, encoded: EncodedImport, ragged: number, meta: RowSource['meta'], encoding: string) {
     // Side by side on the import's connection and one from the pool: the digit counts and the
     // dictionary, and exact counts of repeated values.
     const [counted] = await Promise.all([
@@ -240,7 +246,7 @@ export async function importDataset(datasetId: string): Promise<void> {
       })), { transaction })
       await ready.update({
         status: 'ready', progress: 1, rowCount: encoded.rowCount, raggedRows: ragged + meta.extraFields,
-        encoding, delimiter: meta.delimiter, readyAt: new Date(),
+        encoding, delimiter: meta.delimiter, sheets: meta.sheets, readyAt: new Date(),
       }, { transaction })
       await recordAudit({
         newsroomId: ready.newsroomId, actorId: ready.createdBy, action: 'dataset.imported',

@@ -13,8 +13,8 @@ import type { DatasetFormat, TextEncoding } from './sniff'
 /** Rows of a file as text cells, header first, in batches; streams, never holds the file. */
 export interface RowSource {
   rows: AsyncIterable<string[][]>
-  /** Known once the first rows were read. */
-  meta: { delimiter: string | null, extraFields: number }
+  /** Known once the first rows were read; `sheets`: a workbook's sheets, in its order. */
+  meta: { delimiter: string | null, extraFields: number, sheets: string[] | null }
   /** How far into the file reading has come. */
   bytesRead: () => number
 }
@@ -231,12 +231,14 @@ export interface StoredSource {
 
 /** Opens a stored file as rows of text cells, whatever its format. */
 export function openRows(format: DatasetFormat, stored: StoredSource, encoding: TextEncoding, bomLength: number): RowSource {
-  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0 }
+  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0, sheets: null }
   let bytesRead = 0
   if (format === 'xlsx') {
     // The workbook reader makes ranged reads of its own (the archive's directory is at its end).
     const rows = workbookRows(stored.open, stored.byteSize, stored.sheet, (bytes) => {
       bytesRead += bytes
+    }, (sheets) => {
+      meta.sheets = sheets
     })
     return { rows, meta, bytesRead: () => bytesRead }
   }

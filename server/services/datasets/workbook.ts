@@ -1,12 +1,14 @@
-import { PassThrough, Transform } from 'node:stream'
+import { PassThrough } from 'node:stream'
 import type { Readable } from 'node:stream'
 import { StringDecoder } from 'node:string_decoder'
 import { SaxesParser } from 'saxes'
 import type { SaxesTagPlain } from 'saxes'
-import yauzl from 'yauzl'
+import type yauzl from 'yauzl'
 import { decimalText, readNumber } from '#shared/digits'
 import { UnreadableFile } from './sniff'
 import { storable } from './storable-text'
+import { ARCHIVE_ENTRIES, inflate, limited, openArchive } from './stored-archive'
+import type { RangeOpener } from './stored-archive'
 
 /**
  * Reads an .xlsx workbook (a zip of XML parts) with bounded memory, whatever the file claims.
@@ -17,8 +19,7 @@ import { storable } from './storable-text'
  * whatever order the archive keeps them in.
  */
 
-/** Reads bytes `start` to `end` (inclusive) of the stored file. */
-export type RangeOpener = (start: number, end?: number) => Promise<Readable>
+export type { RangeOpener }
 
 /**
  * Each limit is one a workbook made by a spreadsheet program stays inside, so only a crafted or
@@ -26,8 +27,7 @@ export type RangeOpener = (start: number, end?: number) => Promise<Readable>
  * rows and 16,384 columns a sheet, 32,767 characters a cell.
  */
 export const WORKBOOK_LIMITS = {
-  /** Parts listed in the archive's directory (a real workbook has a few dozen). */
-  entries: 10_000,
+  entries: ARCHIVE_ENTRIES,
   rows: 1_048_576,
   columns: 16_384,
   /** Characters of one cell's text; the XML between two tags may be six times that (escapes). */
@@ -46,51 +46,6 @@ const NO_SHEET = 'This .xlsx file holds no worksheet. Save the sheet with the da
 
 function tooBig(what: string): UnreadableFile {
   return new UnreadableFile(`This workbook's ${what} is larger than any spreadsheet program writes, so Mantissa does not read it (it may be a file made to exhaust the server). Export the sheet as CSV and upload that.`)
-}
-
-/** The stored file as yauzl's random-access source: each read is a ranged read of the store. */
-class StoredFile extends yauzl.RandomAccessReader {
-  constructor(private readonly open: RangeOpener, private readonly counted: (bytes: number) => void) {
-    super()
-  }
-
-  override _readStreamForRange(start: number, end: number): Readable {
-    const out = new PassThrough()
-    this.open(start, end - 1).then((input) => {
-      input.on('data', (chunk: Buffer) => this.counted(chunk.length))
-      input.on('error', error => out.destroy(error))
-      input.pipe(out)
-    }, error => out.destroy(error))
-    return out
-  }
-}
-
-/** Counts the inflated bytes of one part and refuses it past `limit`; also bounds the text between two tags. */
-function limited(limit: number, what: string): Transform {
-  let inflated = 0
-  let sinceTag = 0
-  const gap = WORKBOOK_LIMITS.cellCharacters * 6 + 4096
-  return new Transform({
-    transform(chunk: Buffer, _encoding, done) {
-      inflated += chunk.length
-      if (inflated > limit) return done(tooBig(what))
-      // saxes gathers the text of a node until its end tag: a gigabyte of text without a tag would
-      // be held whole, so the run of bytes without a '<' is bounded by what one cell can hold.
-      let at = chunk.indexOf(0x3C)
-      if (at < 0) sinceTag += chunk.length
-      else {
-        if (sinceTag + at > gap) return done(tooBig('cell text'))
-        let last = at
-        while ((at = chunk.indexOf(0x3C, last + 1)) >= 0) {
-          if (at - last > gap) return done(tooBig('cell text'))
-          last = at
-        }
-        sinceTag = chunk.length - last
-      }
-      if (sinceTag > gap) return done(tooBig('cell text'))
-      done(null, chunk)
-    },
-  })
 }
 
 /** A tag as saxes gives it without namespaces: attributes are plain text. */
@@ -188,15 +143,9 @@ class Workbook {
   ) {}
 
   static async open(open: RangeOpener, size: number, counted: (bytes: number) => void): Promise<Workbook> {
-    let zip: yauzl.ZipFile
+    const { zip, entries } = await openArchive(open, size, counted, { damaged: DAMAGED, tooBig })
     try {
-      zip = await yauzl.fromRandomAccessReaderPromise(new StoredFile(open, counted), size, { lazyEntries: true, autoClose: false, validateEntrySizes: true, strictFileNames: false })
-    }
-    catch {
-      throw new UnreadableFile(DAMAGED)
-    }
-    try {
-      return await Workbook.fromZip(zip)
+      return await Workbook.fromZip(zip, entries)
     }
     catch (error) {
       zip.close()
@@ -204,15 +153,7 @@ class Workbook {
     }
   }
 
-  private static async fromZip(zip: yauzl.ZipFile): Promise<Workbook> {
-    if (zip.entryCount > WORKBOOK_LIMITS.entries) throw tooBig('list of parts')
-    const entries = new Map<string, yauzl.Entry>()
-    try {
-      for await (const entry of zip.eachEntry()) entries.set(entry.fileName, entry)
-    }
-    catch {
-      throw new UnreadableFile(DAMAGED)
-    }
+  private static async fromZip(zip: yauzl.ZipFile, entries: Map<string, yauzl.Entry>): Promise<Workbook> {
     const read = async (path: string) => (entries.has(path) ? await readSmall(zip, entries.get(path)!) : null)
 
     const rootRels = relationships(await read('_rels/.rels') ?? '', '')
@@ -245,7 +186,7 @@ class Workbook {
   }
 
   private stream(path: string, limit: number, what: string): Promise<Readable> {
-    return inflate(this.zip, this.entries.get(path)!, limit, what)
+    return inflatePart(this.zip, this.entries.get(path)!, limit, what)
   }
 
   /** The shared strings, which cells of type "s" point into; rich text runs are joined, phonetic guides left out. */
@@ -434,20 +375,17 @@ function readable(text: string): Readable {
   return stream
 }
 
-/** One part, inflating as it is read, refused past `limit` (yauzl also checks it against the size the directory gives). */
-async function inflate(zip: yauzl.ZipFile, entry: yauzl.Entry, limit: number, what: string): Promise<Readable> {
+/** A part of the workbook, refused past `limit` and when one run of text is longer than a cell can hold. */
+async function inflatePart(zip: yauzl.ZipFile, entry: yauzl.Entry, limit: number, what: string): Promise<Readable> {
   if (entry.uncompressedSize > limit) throw tooBig(what)
-  const inflating = await zip.openReadStreamPromise(entry)
-  const counted = limited(limit, what)
-  inflating.on('error', error => counted.destroy(error))
-  counted.on('error', () => inflating.destroy())
-  return inflating.pipe(counted)
+  const gap = { bytes: WORKBOOK_LIMITS.cellCharacters * 6 + 4096, refuse: () => tooBig('cell text') }
+  return inflate(zip, entry, limited(limit, () => tooBig(what), gap))
 }
 
 async function readSmall(zip: yauzl.ZipFile, entry: yauzl.Entry): Promise<string> {
   const chunks: Buffer[] = []
   try {
-    for await (const chunk of await inflate(zip, entry, WORKBOOK_LIMITS.smallPartBytes, 'workbook description')) chunks.push(chunk as Buffer)
+    for await (const chunk of await inflatePart(zip, entry, WORKBOOK_LIMITS.smallPartBytes, 'workbook description')) chunks.push(chunk as Buffer)
   }
   catch (error) {
     if (error instanceof UnreadableFile) throw error
@@ -476,8 +414,9 @@ function relationships(xml: string, from: string): { id: string, type: string, t
  * The rows of a workbook's sheet (the first visible one unless `sheetName` names another), header
  * first, in batches. Every failure is an UnreadableFile with a reason a reporter can act on.
  */
-export async function* workbookRows(open: RangeOpener, size: number, sheetName: string | null, counted: (bytes: number) => void): AsyncGenerator<string[][]> {
+export async function* workbookRows(open: RangeOpener, size: number, sheetName: string | null, counted: (bytes: number) => void, listed: (sheets: string[]) => void = () => {}): AsyncGenerator<string[][]> {
   const workbook = await Workbook.open(open, size, counted)
+  listed(workbook.sheets.map(sheet => sheet.name))
   try {
     const sheet = sheetName === null
       ? workbook.sheets.find(s => !s.hidden) ?? workbook.sheets[0]!
