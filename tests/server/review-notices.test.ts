@@ -16,7 +16,7 @@ async function deskWithStory(label: string): Promise<{ newsroom: TestNewsroom, s
 }
 
 const sendBack = (newsroom: TestNewsroom, story: Story, note: string) =>
-  newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'changes-requested', note })
+  newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back', note })
 const dispute = (newsroom: TestNewsroom, story: Story, note: string) =>
   newsroom['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note })
 
