@@ -176,3 +176,25 @@ describe('four eyes, in the browser', () => {
     await reporter.context().close()
   })
 })
+
+describe('Mantissa\'s own words for a conflict', () => {
+  it('offers "Save my version" and "Use their version", and saving mine keeps what I typed', async () => {
+    const written = await story()
+    const page = await open('reporter', written)
+    // Someone else saves the same text block after the page was opened.
+    expectStatus(await saveBlock(newsroom['data-editor'], written, written.proseBlockId, {
+      content: { type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text: 'The desk rewrote this paragraph.' }] }] },
+    }), 200)
+    await page.locator('.ProseMirror p').first().click()
+    await page.keyboard.press('End')
+    await page.keyboard.type(' Typed by the reporter.')
+    const conflict = page.getByRole('alert').filter({ hasText: 'saved this block while you were editing it' })
+    await conflict.waitFor({ timeout: 15_000 })
+    expect(await conflict.getByRole('button', { name: 'Keep mine' }).count()).toBe(0)
+    await conflict.getByRole('button', { name: 'Use their version' }).waitFor()
+    await conflict.getByRole('button', { name: 'Save my version' }).click()
+    await conflict.waitFor({ state: 'detached' })
+    await expect.poll(async () => JSON.stringify((await newsroom.reporter.get(`/api/investigations/${written.id}`)).body.blocks[0].content), { timeout: 10_000 }).toContain('Typed by the reporter.')
+    await page.context().close()
+  })
+})
