@@ -103,6 +103,29 @@ describe('publishing, as a data editor in the browser', () => {
   })
 })
 
+describe('the methodology and the page name the same things', () => {
+  it('prints the follow-up statement only when the publisher ticks it, and shows the grouped ranking the methodology names', async () => {
+    const written = await story()
+    expectStatus(await saveBlock(newsroom.reporter, written, written.analysisBlockId, { settings: { ...written.settings, groupBy: 'supplier' } }), 200)
+    expectStatus(await newsroom['data-editor'].post(`/api/blocks/${written.analysisBlockId}/review`, { decision: 'approved' }), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${written.claimId}/verify`), 200)
+    const page = await open('data-editor', written)
+    await page.getByRole('button', { name: /Publishing/ }).click()
+    await page.getByLabel(/Print in the methodology that every deviation reported here was followed up/).check()
+    await page.getByRole('button', { name: 'Publish', exact: true }).click()
+    const live = page.locator('[data-link-state="live"]')
+    await live.getByText(`Follow-up statement confirmed by ${newsroom.names['data-editor']}`).waitFor()
+    const address = await live.getByRole('textbox').inputValue()
+    const reader = await (await browser.newContext({ viewport: { width: 1366, height: 900 } })).newPage()
+    await reader.goto(address.replace(/^https?:\/\/[^/]+/, baseUrl))
+    await reader.getByText(/The newsroom confirmed at publication that every deviation reported here was followed up/).waitFor()
+    await reader.getByText(/one test per value of “supplier”/).waitFor()
+    await reader.getByRole('heading', { name: 'Groups ranked by deviation' }).waitFor()
+    await reader.context().close()
+    await page.context().close()
+  })
+})
+
 describe('claims in the editor', () => {
   it('a reporter unmarks an open claim from the margin; the words stay', async () => {
     const written = await story()

@@ -16,6 +16,16 @@ export const up: MigrationFn<Sequelize> = async ({ context: sequelize }) => {
       ADD COLUMN disputed_reason text,
       ADD COLUMN follow_up_confirmed_by uuid REFERENCES users(id);
   `)
+  // Methodologies published before this printed a follow-up statement that nobody had confirmed.
+  // Nothing in the record backs it, so it comes out of every earlier snapshot.
+  await sequelize.query(`
+    UPDATE publications
+    SET snapshot = jsonb_set(snapshot, '{methodology}', to_jsonb(replace(snapshot->>'methodology', :unconfirmed, :kept)))
+    WHERE strpos(snapshot->>'methodology', :unconfirmed) > 0
+  `, { replacements: {
+    unconfirmed: 'Every deviation reported here was followed up in the records and with the people and organisations concerned before publication, and the newsroom’s legal review applies before anyone is named.',
+    kept: 'The newsroom’s legal review applies before anyone is named.',
+  } })
 }
 
 export const down: MigrationFn<Sequelize> = async ({ context: sequelize }) => {
