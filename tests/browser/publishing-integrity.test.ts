@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
+import type { Browser } from 'playwright-core'
 import { baseUrl } from '../support/api'
 import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { launchBrowser, openInvestigationAs, screenshot, signInThroughPage } from '../support/browser'
 import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 import type { Role } from '#shared/auth/roles'
@@ -26,16 +26,7 @@ async function story(): Promise<Story> {
   return written
 }
 
-async function open(role: Role, written: Story, width = 1366): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width, height: 1000 } })
-  await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: baseUrl })
-  const page = await context.newPage()
-  await signInThroughPage(page, newsroom.emails[role], PASSWORD)
-  await page.waitForURL(/\/newsrooms\//)
-  await page.goto(`${baseUrl}/investigations/${written.id}`)
-  await page.locator('.ProseMirror').first().waitFor()
-  return page
-}
+const open = (role: Role, written: Story, width = 1366) => openInvestigationAs(browser, newsroom, role, written.id, width)
 
 describe('publishing, as a data editor in the browser', () => {
   it('asks for a separate decision on a disputed claim, shows who did which check, and keeps the link to copy again', async () => {
