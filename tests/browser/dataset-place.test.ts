@@ -24,7 +24,8 @@ afterAll(async () => {
   await browser?.close()
 })
 
-const firstRowNumber = (page: Page) => page.locator('tbody tr').first().locator('td').first().innerText()
+/** The row number in the first line of the rows table (the column profile is a table too). */
+const firstRowNumber = (page: Page) => page.getByRole('table', { name: 'The dataset\'s rows as imported' }).locator('tbody tr').first().locator('td').first().innerText()
 
 describe('the dataset page', () => {
   it('keeps the page of rows and its order on reload and on Back', async () => {
