@@ -40,6 +40,8 @@ export interface DatasetSummaryDTO {
 
 export interface DatasetDTO extends DatasetSummaryDTO {
   newsroomId: string
+  /** The uploader's user id (createdBy is their name). */
+  createdById: string
   sourceNote: string | null
   sourceUrl: string | null
   format: string

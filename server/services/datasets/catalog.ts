@@ -55,7 +55,7 @@ export async function describeDataset(dataset: Dataset): Promise<DatasetDTO> {
   const creator = await useDb().models.User.findByPk(dataset.createdBy, { attributes: ['name'] })
   return {
     ...summary(dataset, creator?.name ?? ''),
-    newsroomId: dataset.newsroomId, sourceNote: dataset.sourceNote, sourceUrl: dataset.sourceUrl,
+    newsroomId: dataset.newsroomId, createdById: dataset.createdBy, sourceNote: dataset.sourceNote, sourceUrl: dataset.sourceUrl,
     format: dataset.format, encoding: dataset.encoding ?? null,
     compression: dataset.compression ?? null, archiveEntry: dataset.archiveEntry ?? null, sheets: dataset.sheets ?? null,
     delimiter: dataset.delimiter ?? null, raggedRows: dataset.raggedRows, replacesId: dataset.replacesId,
