@@ -50,7 +50,7 @@ describe('the datasets of a newsroom', () => {
 
     await page.getByRole('button', { name: 'Start an investigation from it' }).click()
     await page.waitForURL(/\/investigations\//)
-    expect(await page.getByText('On Ferry subsidies').count()).toBeGreaterThan(0)
+    await expect.poll(() => page.title()).toBe('On Ferry subsidies · Mantissa')
     await page.close()
   })
 })
