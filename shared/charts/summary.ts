@@ -1,6 +1,7 @@
 import type { TestResult } from '../digits/types'
 import { CONFORMITY_LABELS, TEST_LABELS } from './labels'
 import { chartData } from './digit-chart'
+import { formatP } from './p-value'
 
 const count = (n: number) => n.toLocaleString('en-GB')
 const percent = (share: number) => `${(share * 100).toFixed(1)}%`
@@ -32,7 +33,7 @@ export function summarize(result: TestResult): string {
     case 'threshold': {
       const t = result.threshold
       if (!t) return ranged
-      return `${count(t.below)} amounts of ${column} fall in the band just under ${t.limit}, where a smooth distribution predicts about ${t.expectedBelow.toFixed(1)}; ${count(t.above)} fall just over it (chance of so many under the limit by luck: p = ${t.pBunching.toPrecision(2)}).`
+      return `${count(t.below)} amounts of ${column} fall in the band just under ${t.limit}, where a smooth distribution predicts about ${t.expectedBelow.toFixed(1)}; ${count(t.above)} fall just over it (chance of so many under the limit by luck: ${formatP(t.pBunching)}).`
     }
     case 'summation':
       return `Of ${count(result.n)} amounts of ${column}, the total is spread over the leading pairs with MAD ${result.mad?.value.toFixed(4) ?? '—'}. ${ranged}`

@@ -1,4 +1,5 @@
 import jStat from 'jstat'
+import { binomialAtMost } from './tails'
 import type { Bin } from './types'
 
 /**
@@ -14,15 +15,6 @@ export function binZ(count: number, n: number, p: number): number {
   return Math.sign(gap) * corrected / Math.sqrt(p * (1 - p) / n)
 }
 
-/** P(X ≤ k) for X ~ Binomial(n, p), through the regularized incomplete beta function. */
-export function binomialCdf(k: number, n: number, p: number): number {
-  if (k < 0) return 0
-  if (k >= n) return 1
-  if (p <= 0) return 1
-  if (p >= 1) return 0
-  return jStat.ibeta(1 - p, n - k, k + 1)
-}
-
 /**
  * Smallest k with P(X ≤ k) ≥ q. The search starts at the normal approximation's guess and steps
  * from there, so it needs a few evaluations of the CDF instead of the ~log2(n) of a bisection:
@@ -33,11 +25,11 @@ export function binomialQuantile(q: number, n: number, p: number): number {
   if (p >= 1) return n
   const guess = Math.round(n * p + normalQuantile(q) * Math.sqrt(n * p * (1 - p)))
   let k = Math.min(n, Math.max(0, guess))
-  if (binomialCdf(k, n, p) >= q) {
-    while (k > 0 && binomialCdf(k - 1, n, p) >= q) k--
+  if (binomialAtMost(k, n, p) >= q) {
+    while (k > 0 && binomialAtMost(k - 1, n, p) >= q) k--
   }
   else {
-    while (k < n && binomialCdf(k, n, p) < q) k++
+    while (k < n && binomialAtMost(k, n, p) < q) k++
   }
   return k
 }

@@ -1,10 +1,10 @@
-import jStat from 'jstat'
-import { binomialCdf, buildBins } from './bin-statistics'
+import { buildBins } from './bin-statistics'
 import {
   absDecimal, addDecimal, compareDecimal, decimalToText, floorDivideDecimal, multiplyDecimal, subtractDecimal, toDecimal,
   type Decimal,
 } from './decimal'
 import { excludedOf, NO_STATISTICS, signCount, type TestOutcome } from './outcome'
+import { binomialAtLeast, poissonAtLeast } from './tails'
 import type { SignFilter, ThresholdCounts, ThresholdOptions } from './types'
 
 export const BUCKETS_EACH_SIDE = 5
@@ -99,15 +99,9 @@ function lineThroughOuterBuckets(counts: readonly number[]): number[] {
   return counts.map((_, x) => Math.max(0, meanY + slope * (x - meanX)))
 }
 
-function poissonAtLeast(k: number, mean: number): number {
-  if (k <= 0) return 1
-  if (mean <= 0) return 0
-  return jStat.lowRegGamma(k, mean)
-}
-
 function splitAtLeast(below: number, above: number, expectedBelow: number, expectedAbove: number): number {
   const m = below + above
   if (below === 0) return 1
   const p = expectedBelow + expectedAbove > 0 ? expectedBelow / (expectedBelow + expectedAbove) : 0.5
-  return 1 - binomialCdf(below - 1, m, p)
+  return binomialAtLeast(below, m, p)
 }

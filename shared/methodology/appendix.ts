@@ -1,6 +1,7 @@
 import { MAD_RANGES } from '../digits/mad'
 import type { DistributionTest, TestResult } from '../digits/types'
 import { TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
+import { formatP } from '../charts/p-value'
 import type { AnalysisSettings } from '../types/investigation'
 import type { DatasetFingerprint } from '../types/publication'
 
@@ -38,7 +39,7 @@ function analysisSection(index: number, { settings, result }: AppendixAnalysis, 
   lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
   if (result) {
     lines.push(`- Values tested (n): ${count(result.n)}; left out: ${excluded(result)}`)
-    if (result.chiSquare) lines.push(`- Chi-square ${result.chiSquare.statistic.toFixed(2)} with ${result.chiSquare.df} degrees of freedom, p = ${result.chiSquare.p.toPrecision(3)}`)
+    if (result.chiSquare) lines.push(`- Chi-square ${result.chiSquare.statistic.toFixed(2)} with ${result.chiSquare.df} degrees of freedom, ${formatP(result.chiSquare.p)}`)
     if (result.mad) lines.push(`- MAD ${result.mad.value.toFixed(5)}${result.mad.conformity ? ` (${result.mad.conformity})` : ''}${result.mad.expected !== null ? `; a conforming sample of this size averages ${result.mad.expected.toFixed(5)}` : ''}`)
     if (result.ks) lines.push(`- Kolmogorov–Smirnov D ${result.ks.d.toFixed(4)} against a 5% critical value of ${result.ks.critical.toFixed(4)} (1.36/√n; Massey 1951)`)
     for (const finding of result.suitability) lines.push(`- Suitability (${finding.severity}): ${finding.message}`)
