@@ -1,3 +1,4 @@
+import { cochranMinimum } from './cochran'
 import { mantissaOf } from './digit-record'
 import { DISTRIBUTIONS } from './distribution-tests'
 import { readNumber } from './read-number'
@@ -21,7 +22,7 @@ interface Minimum {
 const COCHRAN = 'expected counts of at least 5 in every bin before trusting a chi-square test (Cochran 1954; common practice)'
 
 function minimumFor(rarestShare: number, rarest: string): Minimum {
-  return { warning: Math.ceil(5 / rarestShare), stop: Math.ceil(1 / rarestShare), rarest }
+  return { warning: cochranMinimum(rarestShare), stop: Math.ceil(1 / rarestShare), rarest }
 }
 
 function distributionMinimum(test: DistributionTest): Minimum {

@@ -196,6 +196,13 @@ export interface Finding {
 
 export type Conformity = 'close' | 'acceptable' | 'marginal' | 'nonconforming'
 
+/**
+ * What a MAD may be read as at its sample size (see mad.ts): too few values to read; within what
+ * chance gives at this size; departing by more than chance explains at this size (below the size
+ * where the published ranges apply); or, from that size on, one of the published ranges.
+ */
+export type Reading = 'too-few' | 'chance' | 'deviates' | Conformity
+
 export interface Bin {
   key: string
   count: number
@@ -226,8 +233,12 @@ export interface Excluded {
 }
 
 export interface ChiSquare { statistic: number, df: number, p: number }
-/** `expected` is the MAD a conforming sample of this n shows on average; null where no formula applies (summation). */
-export interface Mad { value: number, conformity: Conformity | null, expected: number | null, excess: number | null }
+/**
+ * `expected` is the MAD a conforming sample of this n shows on average; null where no formula applies (summation).
+ * `conformity` is a published range only where the sample is large enough for it to mean what it says
+ * (MAD_RANGES_FROM) and agrees with the chance test; `reading` is what every surface prints.
+ */
+export interface Mad { value: number, conformity: Conformity | null, expected: number | null, excess: number | null, reading: Reading | null }
 export interface Ks { d: number, critical: number }
 /** Mantissa arc (Rayleigh): squared mean resultant length and its approximate p. */
 export interface Arc { l2: number, p: number }
@@ -256,6 +267,8 @@ export interface GroupResult {
   expectedMad: number | null
   excessMad: number | null
   conformity: Conformity | null
+  /** Read with q (not p) as the chance test, so that it never contradicts the table's q. */
+  reading: Reading | null
   p: number | null
   q: number | null
 }

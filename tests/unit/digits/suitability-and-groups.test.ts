@@ -86,20 +86,25 @@ describe('groups', () => {
     { key: 'tiny', values: powerSeries(7, 40) },
   ]
 
-  it('ranks groups by excess MAD, skips small ones and gives p and q', () => {
-    const result = runDigitTest({ test: 'first-digit', input: { values: items.flatMap(i => i.values) }, groups: { items: items.map(({ key, values }) => ({ key, input: { values } })) } })
+  it('ranks groups by p, reads small ones as too few and gives p and q', () => {
+    const withSpeck = [...items, { key: 'speck', values: powerSeries(7, 10) }]
+    const result = runDigitTest({ test: 'first-digit', input: { values: withSpeck.flatMap(i => i.values) }, groups: { items: withSpeck.map(({ key, values }) => ({ key, input: { values } })) } })
+    // Default minimum: the rarest bin expects one value (22 for the first digit); below the test's minimum (110), "too few".
     expect(result.groupsSkipped).toBe(1)
+    expect(result.groups!.map(g => g.key)).not.toContain('speck')
     expect(result.groups!.map(g => g.key).slice(0, 2).sort()).toEqual(['counting', 'squares'])
-    expect(result.groups!.map(g => g.key)).not.toContain('tiny')
+    const tiny = result.groups!.at(-1)!
+    expect([tiny.key, tiny.reading, tiny.conformity]).toEqual(['tiny', 'too-few', null])
     const counting = result.groups!.find(g => g.key === 'counting')!
-    expect(counting.conformity).toBe('nonconforming')
+    expect(counting.reading).toBe('deviates') // 600 values: below the size where the published ranges apply
+    expect(counting.conformity).toBeNull()
     expect(counting.q!).toBeLessThan(0.01)
     for (const group of result.groups!) {
       expect(group.q!).toBeGreaterThanOrEqual(group.p!)
       expect(group.excessMad).toBeCloseTo(group.mad! - group.expectedMad!, 15)
     }
-    const excess = result.groups!.map(g => g.excessMad!)
-    expect(excess).toEqual([...excess].sort((a, b) => b - a))
+    const readable = result.groups!.filter(g => g.reading !== 'too-few').map(g => g.p!)
+    expect(readable).toEqual([...readable].sort((a, b) => a - b))
   })
 
   it('gives the same ranking from per-group counts', () => {
@@ -110,7 +115,7 @@ describe('groups', () => {
       groups: { minSize: 50, items: items.map(({ key, values }) => ({ key, input: { counts: countDistribution('first-digit', recordsOf(values), 'positive') } })) },
     })
     expect(fromCounts.groups).toEqual(fromValues.groups)
-    expect(fromValues.groupsSkipped).toBe(1)
+    expect(fromValues.groupsSkipped).toBe(1) // 'tiny' has 40 values, under the minSize of 50 asked for
   })
 
   it('ranks each group by the same MAD and chi-square p as a test of that group alone', () => {
