@@ -1,6 +1,6 @@
 import jStat from 'jstat'
 import { binomialAtMost } from './tails'
-import type { Bin } from './types'
+import type { Bin, BinsOutside } from './types'
 
 /**
  * Z for one bin with the continuity correction of Fleiss (1981) as digit tests use it (Nigrini 2012):
@@ -67,4 +67,18 @@ export function buildBins(n: number, keys: readonly string[], counts: readonly n
       amount: null,
     }
   })
+}
+
+/**
+ * Bins outside their binomial 95% range, with the number expected by chance: the sum over bins of
+ * P(X < low) + P(X > high) under Binomial(n, p), exactly. Null when the bins carry no ranges.
+ */
+export function binsOutsideOf(bins: readonly Bin[], n: number): BinsOutside | null {
+  const ranged = bins.filter(bin => bin.low !== null && bin.high !== null && bin.expectedShare !== null)
+  if (ranged.length === 0) return null
+  let expected = 0
+  for (const bin of ranged) {
+    expected += binomialAtMost(bin.low! - 1, n, bin.expectedShare!) + 1 - binomialAtMost(bin.high!, n, bin.expectedShare!)
+  }
+  return { count: ranged.filter(bin => bin.count < bin.low! || bin.count > bin.high!).length, expected }
 }

@@ -1,4 +1,4 @@
-import { buildBins } from './bin-statistics'
+import { binsOutsideOf, buildBins } from './bin-statistics'
 import { chiSquare } from './chi-square'
 import { leadingShares, lastTwoShares, secondDigitShares } from './expected-shares'
 import { kolmogorovSmirnov } from './kolmogorov-smirnov'
@@ -70,5 +70,6 @@ export function runDistributionTest(test: DistributionTest, counts: Distribution
     mad: madOf(test, n, shares, definition.shares, chi.p),
     ks: definition.ks ? kolmogorovSmirnov(shares, definition.shares, n) : null,
     arc: definition.arc && counts.arc ? mantissaArc(counts.arc, n) : null,
+    binsOutside: binsOutsideOf(bins, n),
   }
 }

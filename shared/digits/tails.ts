@@ -1,11 +1,8 @@
 import betainc from '@stdlib/math-base-special-betainc'
 import jStat from 'jstat'
+import { P_FLOOR } from './p-floor'
 
-/**
- * The smallest p Mantissa reports. Below it a double keeps too few digits (1e-308 is the last
- * normal one), so a smaller p is reported as P_FLOOR and shown as "p < 1e-300", never as 0.
- */
-export const P_FLOOR = 1e-300
+export { P_FLOOR }
 
 /** A probability no smaller than P_FLOOR; NaN (a broken input) is refused rather than printed. */
 export function floorP(p: number): number {

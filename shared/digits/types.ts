@@ -243,6 +243,12 @@ export interface Ks { d: number, critical: number }
 /** Mantissa arc (Rayleigh): squared mean resultant length and its approximate p. */
 export interface Arc { l2: number, p: number }
 
+/**
+ * How many bins fall outside their 95% range, and how many would on average if the data followed
+ * the test's expectation exactly (each range covers at least 95%, so fewer than 5% of the bins).
+ */
+export interface BinsOutside { count: number, expected: number }
+
 export interface DuplicatesSummary { distinct: number, repeatedValues: number, repeatedRows: number }
 
 export interface ThresholdSummary {
@@ -286,6 +292,8 @@ export interface TestResult {
   arc: Arc | null
   duplicates: DuplicatesSummary | null
   threshold: ThresholdSummary | null
+  /** Null where the bins have no range (summation, duplicates). */
+  binsOutside: BinsOutside | null
   suitability: Finding[]
   groups?: GroupResult[]
   /** Groups left out for having fewer values than the minimum. */
