@@ -13,6 +13,12 @@ function percent(share: number): string {
   return `${value >= 10 ? value.toFixed(1) : Number(value.toPrecision(2))}%`
 }
 
+/** A count difference with its sign, one decimal: "+41.4", "−2.4". */
+function signed(value: number): string {
+  const text = Math.abs(value).toFixed(1)
+  return text === '0.0' ? '0.0' : `${value < 0 ? '−' : '+'}${text}`
+}
+
 /** "about 4.5", or "fewer than 0.1" for an expectation that would print as 0.0. */
 function about(expected: number): string {
   return expected < 0.05 ? 'fewer than 0.1' : `about ${expected.toFixed(1)}`
@@ -72,7 +78,11 @@ export function summarize(result: TestResult): string {
     case 'threshold': {
       const t = result.threshold
       if (!t) return ''
-      return `${count(t.below)} amounts of ${column} fall in the band just under ${t.limit}, where a smooth distribution predicts about ${t.expectedBelow.toFixed(1)}; ${count(t.above)} fall just over it (chance of so many under the limit by luck: ${formatP(t.pBunching)}).`
+      const predicted = `${count(t.below)} amounts of ${column} fall in the band just under ${t.limit}, where the trend through the other eight bands predicts about ${t.expectedBelow.toFixed(1)}`
+      // Results stored before the scatter model have no excess; say only what they hold.
+      if (t.excess === undefined) return `${predicted}; ${count(t.above)} fall just over it.`
+      return `${predicted}: an excess of ${signed(t.excess)} (95% interval ${signed(t.excessLow)} to ${signed(t.excessHigh)}); ${count(t.above)} fall just over it. `
+        + `How often an excess at least this large turns up where no limit acts, under that trend and the scatter the other bands show: ${formatP(t.pBunching)}.`
     }
     case 'summation': {
       const top = [...result.bins].sort((a, b) => b.share - a.share)[0]!

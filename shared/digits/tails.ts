@@ -80,21 +80,6 @@ export function chiSquareUpper(statistic: number, df: number): number {
   return floorP(regularizedGamma(df / 2, statistic / 2, true))
 }
 
-/** P(X ≥ k) for X ~ Poisson(mean): the lower regularized incomplete gamma P(k, mean). */
-export function poissonAtLeast(k: number, mean: number): number {
-  if (k <= 0) return 1
-  if (mean <= 0) return P_FLOOR
-  return floorP(regularizedGamma(k, mean, false))
-}
-
-/** P(X ≥ k) for X ~ Binomial(n, p): the regularized incomplete beta I_p(k, n − k + 1), from that tail directly. */
-export function binomialAtLeast(k: number, n: number, p: number): number {
-  if (k <= 0) return 1
-  if (k > n || p <= 0) return P_FLOOR
-  if (p >= 1) return 1
-  return floorP(betainc(p, k, n - k + 1, true, false))
-}
-
 /**
  * P(X ≤ k) for X ~ Binomial(n, p): I_{1−p}(n − k, k + 1). Not floored: the 95% ranges search
  * for quantiles and need the exact value near 0.025 and 0.975, and 0 where k < 0.

@@ -260,9 +260,19 @@ export interface ThresholdSummary {
   /** What a straight line through the other eight buckets predicts for those two. */
   expectedBelow: number
   expectedAbove: number
-  /** Poisson chance of at least `below` values given `expectedBelow`. */
+  /** below − expectedBelow, with its 95% interval from the prediction's scatter (Student's t, 6 df). */
+  excess: number
+  excessLow: number
+  excessHigh: number
+  /** How much more the eight outer buckets scatter around the line than Poisson counts would (at least 1). */
+  dispersion: number
+  /**
+   * How often an excess at least this large appears where no limit acts, under the stated model:
+   * the line plus quasi-Poisson scatter estimated from the outer buckets. Not the chance that the
+   * bunching is innocent.
+   */
   pBunching: number
-  /** Binomial chance of at least `below` of the two windows' values falling below, given the fitted split. */
+  /** The same for the share of the two windows' values that falls under the limit (quasi-binomial). */
   pSplit: number
 }
 

@@ -35,12 +35,14 @@ function analysisSection(index: number, { settings, result }: AppendixAnalysis, 
   if (dataset) lines.push(`- Dataset: ${dataset.title} (${dataset.originalName}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
   if (settings.filters?.length) lines.push(`- Rows: only where ${settings.filters.map(f => (f.op === 'equals' ? `${f.column} is “${f.value}”` : `${f.column} is between ${f.min ?? '−∞'} and ${f.max ?? '∞'}`)).join(' and ')}`)
   if (settings.groupBy) lines.push(`- Groups: one test per value of “${settings.groupBy}”, ranked by ${test === 'summation' ? 'MAD × √n' : 'chi-square p'} so that small groups do not rise by chance alone, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995); each group's reading uses its q (under 0.05 to read as a departure)`)
-  if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it, compared with a straight line through the outer eight`)
+  if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it. The two beside the limit are compared with a straight line through the outer eight, allowing for the scatter those eight show around it (quasi-Poisson; McCullagh & Nelder 1989)`)
   lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
   if (result) {
     lines.push(`- Values tested (n): ${count(result.n)}; left out: ${excluded(result)}`)
     if (result.chiSquare) lines.push(`- Chi-square ${result.chiSquare.statistic.toFixed(2)} with ${result.chiSquare.df} degrees of freedom, ${formatP(result.chiSquare.p)}`)
     if (result.mad) lines.push(`- MAD ${result.mad.value.toFixed(5)}${result.mad.reading ? `, ${READING_LABELS[result.mad.reading]}` : ''}${result.mad.expected !== null ? `; a conforming sample of this size averages ${result.mad.expected.toFixed(5)}` : ''}`)
+    const t = result.threshold
+    if (t?.excess !== undefined) lines.push(`- Just under the limit: ${count(t.below)} against ${t.expectedBelow.toFixed(1)} predicted, an excess of ${t.excess.toFixed(1)} (95% interval ${t.excessLow.toFixed(1)} to ${t.excessHigh.toFixed(1)}); an excess at least this large turns up where no limit acts with ${formatP(t.pBunching)} under that model`)
     if (result.ks) lines.push(`- Kolmogorov–Smirnov D ${result.ks.d.toFixed(4)} against a 5% critical value of ${result.ks.critical.toFixed(4)} (1.36/√n; Massey 1951)`)
     for (const finding of result.suitability) lines.push(`- Suitability (${finding.severity}): ${finding.message}`)
   }

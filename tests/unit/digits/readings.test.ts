@@ -127,7 +127,34 @@ describe('planted deviations of a realistic size are still found', () => {
     // 6% of amounts pushed to just under an approval limit of 5,000.
     for (let j = 0; j < 180; j++) values[j] = (4750 + 249 * random()).toFixed(2)
     expect(runDigitTest({ test: 'first-two-digits', input: { values } }).mad!.reading).toBe('deviates')
-    expect(runDigitTest({ test: 'first-digit', input: { values } }).mad!.reading).not.toBe('too-few')
+    const { threshold } = runDigitTest({ test: 'threshold', threshold: { limit: '5000' }, input: { values } })
+    expect(threshold!.pBunching).toBeLessThan(0.01)
+    expect(threshold!.excessLow).toBeGreaterThan(100) // 180 planted, on top of the bucket's own scatter
+    expect(threshold!.excessHigh).toBeGreaterThan(180)
+  })
+})
+
+describe('the threshold test on smooth samples (seeded simulation)', () => {
+  it('reads p < 0.05 about 5% of the time or less where no limit acts, and its 95% interval holds the true excess of 0', () => {
+    const random = seeded(18_500)
+    let small = 0
+    let covered = 0
+    const runs = 200
+    for (let i = 0; i < runs; i++) {
+      // Amounts log-uniform over 100–100,000, counted straight into the ten buckets of width 250 around 5,000.
+      const n = 400 + 40 * i
+      const buckets = Array.from({ length: 10 }, (_, bucket) => ({ bucket, count: 0 }))
+      for (let j = 0; j < n; j++) {
+        const x = 10 ** (2 + 3 * random())
+        if (x >= 3750 && x < 6250) buckets[Math.floor((x - 3750) / 250)]!.count++
+      }
+      const status = { blank: 0, unreadable: 0, zero: 0, positive: n, negative: 0 }
+      const { threshold } = runDigitTest({ test: 'threshold', threshold: { limit: '5000' }, input: { counts: { status, buckets } } })
+      if (threshold!.pBunching < 0.05) small++
+      if (threshold!.excessLow <= 0 && threshold!.excessHigh >= 0) covered++
+    }
+    expect(small).toBeLessThanOrEqual(0.05 * runs + 6) // 5% plus about two standard errors of simulation noise
+    expect(covered).toBeGreaterThanOrEqual(0.95 * runs - 8)
   })
 })
 

@@ -60,4 +60,14 @@ describe('the sentence under a chart says only what was computed', () => {
     expect(summarize(result)).not.toContain('0.0%')
     expect(summarize(result)).toMatch(/the law predicts 0\.0[0-9]+%/)
   })
+
+  it('says what the threshold p is, and gives the excess with its interval', () => {
+    const values = jsonColumn('movies.json', 'Production Budget') as Array<number | null>
+    const result = runDigitTest({ test: 'threshold', column: 'Production Budget', threshold: { limit: '50500000' }, input: { values } })
+    const sentence = summarize(result)
+    expect(sentence).toContain('94 amounts of “Production Budget” fall in the band just under 50500000')
+    expect(sentence).toMatch(/an excess of \+[0-9.]+ \(95% interval −[0-9.]+ to \+[0-9.]+\)/)
+    expect(sentence).toContain('where no limit acts, under that trend and the scatter the other bands show: p = 0.17')
+    expect(sentence).not.toMatch(/luck|chance that/)
+  })
 })
