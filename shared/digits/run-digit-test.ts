@@ -110,7 +110,7 @@ export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): 
     column: request.column ?? null,
     sign,
     ...outcome,
-    suitability: checkSuitability({ test, n: outcome.n, profile }),
+    suitability: checkSuitability({ test, n: outcome.n, profile, bins: outcome.bins }),
     caution: CAUTION,
   }
   if (request.groups) {

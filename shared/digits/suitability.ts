@@ -2,7 +2,7 @@ import { cochranMinimum } from './cochran'
 import { mantissaOf } from './digit-record'
 import { DISTRIBUTIONS } from './distribution-tests'
 import { readNumber } from './read-number'
-import type { ColumnProfile, DistributionTest, Finding, TestName } from './types'
+import type { Bin, ColumnProfile, DistributionTest, Finding, TestName } from './types'
 
 export interface SuitabilityInput {
   test: TestName
@@ -10,6 +10,12 @@ export interface SuitabilityInput {
   n: number
   /** Column facts for the tested sign; without them only the size is checked. */
   profile?: ColumnProfile | null
+  /**
+   * The result's bins. Round numbers expect shares that depend on the column's lengths and
+   * precision (multiples of 1,000 are ten times rarer than multiples of 100, and rarer still in a
+   * column of cents), so their size check reads the expected counts rather than a fixed minimum.
+   */
+  bins?: readonly Bin[]
 }
 
 interface Minimum {
@@ -39,7 +45,7 @@ export const MINIMUM_VALUES: Record<TestName, Minimum | null> = {
   'first-three-digits': distributionMinimum('first-three-digits'),
   'last-two-digits': distributionMinimum('last-two-digits'),
   'summation': distributionMinimum('first-two-digits'),
-  'round-numbers': minimumFor(0.01, 'multiples of 100 (about 1 in 100 whole numbers)'),
+  'round-numbers': minimumFor(0.001, 'multiples of 1,000 (about 1 in 1,000 whole amounts of four or more digits)'),
   'threshold': { warning: 50, stop: 10, rarest: 'the ten buckets around the limit' },
   'duplicates': null,
 }
@@ -66,10 +72,21 @@ export const RULES = {
  * repeated amounts. Each finding names its rule of thumb and where it comes from. A finding is a
  * reason for care, and a clean bill is no proof that the law applies.
  */
-export function checkSuitability({ test, n, profile }: SuitabilityInput): Finding[] {
+export function checkSuitability({ test, n, profile, bins }: SuitabilityInput): Finding[] {
   const findings: Finding[] = []
   const minimum = MINIMUM_VALUES[test]
-  if (minimum && n < minimum.warning) {
+  const rarest = test === 'round-numbers' && bins && n > 0 ? rarestBin(bins) : null
+  if (rarest) {
+    if (rarest.expected! < 5) {
+      findings.push({
+        code: 'too-few-values',
+        severity: rarest.expected! < 1 ? 'stop' : 'warning',
+        message: `Only ${n} values. At this column's lengths and precision the rarest bin (${ROUND_NAMES[rarest.key] ?? rarest.key}) `
+          + `is expected ${rarest.expected!.toFixed(1)} times; the test wants at least 5: ${COCHRAN}.`,
+      })
+    }
+  }
+  else if (minimum && n < minimum.warning) {
     findings.push({
       code: 'too-few-values',
       severity: n < minimum.stop ? 'stop' : 'warning',
@@ -79,6 +96,14 @@ export function checkSuitability({ test, n, profile }: SuitabilityInput): Findin
   }
   if (profile && profile.n > 0 && LAW_BASED.has(test)) findings.push(...columnFindings(profile))
   return findings
+}
+
+const ROUND_NAMES: Record<string, string> = { '0': 'multiples of 10', '00': 'multiples of 100', '000': 'multiples of 1,000' }
+
+/** The bin with the smallest expected count above zero (a bin the law rules out entirely needs no values). */
+function rarestBin(bins: readonly Bin[]): Bin | null {
+  const possible = bins.filter(bin => bin.expected !== null && bin.expected > 0)
+  return possible.length ? possible.reduce((a, b) => (b.expected! < a.expected! ? b : a)) : null
 }
 
 function percent(part: number, whole: number): string {

@@ -30,6 +30,18 @@ describe('suitability', () => {
     expect(checkSuitability({ test: 'first-three-digits', n: 5000 })[0]!.code).toBe('too-few-values')
   })
 
+  it('sizes the round-numbers test by its rarest bin at the column\'s precision, not by multiples of 100', () => {
+    // Whole amounts of four and more digits: multiples of 1,000 are about 1 in 1,000 (the law; CHECKS.md round shares).
+    const whole = Array.from({ length: 3000 }, (_, i) => String(Math.round(10 ** (3 + (3 * i) / 3000))))
+    const few = runDigitTest({ test: 'round-numbers', input: { values: whole } }).suitability.find(f => f.code === 'too-few-values')!
+    expect(few.message).toContain('multiples of 1,000')
+    expect(few.severity).toBe('warning') // about 3 expected
+    // In a column of cents, 3,000 values expect well under one multiple of 1,000.00: no reading is possible.
+    const cents = whole.map(x => `${x}.37`)
+    expect(runDigitTest({ test: 'round-numbers', input: { values: cents } }).suitability.find(f => f.code === 'too-few-values')!.severity).toBe('stop')
+    expect(runDigitTest({ test: 'round-numbers', input: { values: [...whole, ...whole, ...whole] } }).suitability.map(f => f.code)).not.toContain('too-few-values')
+  })
+
   it('finds nothing to say about a healthy column', () => {
     expect(codes({})).toEqual([])
     expect(runDigitTest({ test: 'first-digit', input: { values: powerSeries(2, 1000) } }).suitability).toEqual([])
