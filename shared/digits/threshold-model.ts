@@ -1,4 +1,3 @@
-import jStat from 'jstat'
 import { studentUpper } from './tails'
 
 /** One bucket's prediction from the trend through the others, with its scatter. */
@@ -50,9 +49,19 @@ export function trendThrough(counts: readonly number[], fitting: readonly number
   return { fitted, dispersion, df, predict }
 }
 
-/** Student's t quantile for a two-sided 95% interval at df degrees of freedom (2.447 at df 6; printed t tables). */
+/**
+ * Student's t quantile for a two-sided 95% interval at df degrees of freedom (2.447 at df 6;
+ * printed t tables), by bisection on the upper tail: monotone, and 60 halvings reach full precision.
+ */
 export function t95(df: number): number {
-  return jStat.studentt.inv(0.975, df)
+  let low = 0
+  let high = 100
+  for (let i = 0; i < 60; i++) {
+    const middle = (low + high) / 2
+    if (studentUpper(middle, df) > 0.025) low = middle
+    else high = middle
+  }
+  return (low + high) / 2
 }
 
 /**

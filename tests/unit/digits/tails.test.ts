@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest'
 import { formatP, formatPValue } from '../../../shared/charts/p-value'
 import { chiSquare } from '../../../shared/digits/chi-square'
 import { binomialAtMost, chiSquareUpper, P_FLOOR, studentUpper } from '../../../shared/digits/tails'
+import { t95 } from '../../../shared/digits/threshold-model'
 
 /** |a/b − 1|: the relative error the issue asks to keep under 1e-6. */
 const relative = (a: number, b: number) => Math.abs(a / b - 1)
@@ -154,5 +155,7 @@ describe('Student\'s t upper tail', () => {
       expect(relative(studentUpper(t, 2), 1 / (r * (r + t)))).toBeLessThan(1e-9)
     }
     expect(studentUpper(-2.447, 6)).toBeCloseTo(0.975, 4)
+    expect(t95(6)).toBeCloseTo(2.447, 3) // printed t tables
+    expect(t95(30)).toBeCloseTo(2.042, 3) // printed t tables
   })
 })
