@@ -24,7 +24,8 @@ function expectAgreesWithQ(group: GroupResult) {
   if (group.reading === 'deviates') expect(group.conformity).toBeNull()
 }
 
-describe('readings on samples that follow the law by construction (seeded simulation)', () => {
+// Simulations: a few seconds each alone, more on a machine busy with a build.
+describe('readings on samples that follow the law by construction (seeded simulation)', { timeout: 60_000 }, () => {
   it.each(TESTS)('%s: at most 5% of single readings say "deviates", at every size from 100 to 5,000', (test) => {
     const random = seeded(14_000 + TESTS.indexOf(test))
     const shares = DISTRIBUTIONS[test].shares
@@ -93,7 +94,7 @@ describe('readings on samples that follow the law by construction (seeded simula
   })
 })
 
-describe('planted deviations of a realistic size are still found', () => {
+describe('planted deviations of a realistic size are still found', { timeout: 60_000 }, () => {
   it('made-up amounts with flat leading digits in one supplier among thirty', () => {
     const random = seeded(18_000)
     const items = Array.from({ length: 30 }, (_, i) => {
@@ -134,7 +135,7 @@ describe('planted deviations of a realistic size are still found', () => {
   })
 })
 
-describe('the threshold test on smooth samples (seeded simulation)', () => {
+describe('the threshold test on smooth samples (seeded simulation)', { timeout: 60_000 }, () => {
   it('reads p < 0.05 about 5% of the time or less where no limit acts, and its 95% interval holds the true excess of 0', () => {
     const random = seeded(18_500)
     let small = 0

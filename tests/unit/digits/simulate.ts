@@ -1,19 +1,7 @@
 import type { DistributionCounts } from '../../../shared/digits/types'
 
-/**
- * A small seeded generator (mulberry32, Tommy Ettinger's public-domain 32-bit generator), so that
- * every simulated sample in the suite is the same on every run and machine.
- */
-export function seeded(seed: number): () => number {
-  let state = seed >>> 0
-  return () => {
-    state = (state + 0x6D2B79F5) >>> 0
-    let t = state
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+/** The demo's seeded generator (mulberry32): every simulated sample is the same on every run and machine. */
+export { seededRandom as seeded } from '../../../server/services/demo/seeded-random'
 
 /** n draws from the expected shares (a multinomial sample that follows the law by construction), as bin counts. */
 export function sampleCounts(random: () => number, shares: readonly number[], n: number): number[] {
