@@ -19,7 +19,7 @@ export const MAD_RANGES: Partial<Record<DistributionTest, readonly [number, numb
  * above the nonconformity cut-off below ~245 values. From these sizes on, such a sample's MAD
  * falls in the close range at least 99% of the time (Mantissa's seeded simulation, checked in
  * tests/unit/digits/readings.test.ts), so a named range says something about the data and not
- * about the sample size. The first-three size is also the test's own minimum (Cochran).
+ * about the sample size.
  */
 export const MAD_RANGES_FROM: Partial<Record<DistributionTest, number>> = {
   'first-digit': 5000,
@@ -63,14 +63,14 @@ export interface ReadingInput {
 }
 
 /**
- * The n-aware reading of a MAD. Below the test's minimum (rarest bin expecting fewer than 5
- * values) there is no verdict. Below MAD_RANGES_FROM the published ranges say more about n than
+ * The n-aware reading of a MAD. Below the test's minimum (Cochran's rule for the expected counts)
+ * there is no verdict. Below MAD_RANGES_FROM the published ranges say more about n than
  * about the data, so the reading only says whether the departure is more than chance explains
  * (the chi-square test at `level`). From that size on the published range is read, except that
  * "nonconforming" also needs the chance test to agree, so a reading never contradicts its p or q.
  */
 export function readingOf({ test, n, mad, expectedShares, p, level }: ReadingInput): Reading {
-  if (n < cochranMinimum(Math.min(...expectedShares))) return 'too-few'
+  if (n < cochranMinimum(expectedShares)) return 'too-few'
   const beyondChance = p < level
   const from = MAD_RANGES_FROM[test]
   const named = from !== undefined && n >= from ? conformityOf(test, mad) : null

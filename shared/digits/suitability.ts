@@ -19,25 +19,24 @@ export interface SuitabilityInput {
 }
 
 interface Minimum {
-  /** Below this, the rarest bin expects fewer than 5 values; below `stop`, fewer than 1. */
+  /** Below this, more than a fifth of the bins expect fewer than 5 values (Cochran's rule); below `stop`, the rarest expects fewer than 1. */
   warning: number
   stop: number
   rarest: string
 }
 
-const COCHRAN = 'expected counts of at least 5 in every bin before trusting a chi-square test (Cochran 1954; common practice)'
+const COCHRAN = 'no bin expecting fewer than 1 value and no more than a fifth of them fewer than 5 before trusting a chi-square test (Cochran 1954)'
 
-function minimumFor(rarestShare: number, rarest: string): Minimum {
-  return { warning: cochranMinimum(rarestShare), stop: Math.ceil(1 / rarestShare), rarest }
+function minimumFor(shares: readonly number[], rarest: string): Minimum {
+  return { warning: cochranMinimum(shares), stop: Math.ceil(1 / Math.min(...shares)), rarest }
 }
 
 function distributionMinimum(test: DistributionTest): Minimum {
   const { keys, shares } = DISTRIBUTIONS[test]
-  const i = shares.indexOf(Math.min(...shares))
-  return minimumFor(shares[i]!, `"${keys[i]}"`)
+  return minimumFor(shares, `"${keys[shares.indexOf(Math.min(...shares))]}"`)
 }
 
-/** Smallest useful sizes per test, all from the rule of five expected values in the rarest bin. */
+/** Smallest useful sizes per test, all from Cochran's rule for the expected counts. */
 export const MINIMUM_VALUES: Record<TestName, Minimum | null> = {
   'first-digit': distributionMinimum('first-digit'),
   'second-digit': distributionMinimum('second-digit'),
@@ -45,7 +44,7 @@ export const MINIMUM_VALUES: Record<TestName, Minimum | null> = {
   'first-three-digits': distributionMinimum('first-three-digits'),
   'last-two-digits': distributionMinimum('last-two-digits'),
   'summation': distributionMinimum('first-two-digits'),
-  'round-numbers': minimumFor(0.001, 'multiples of 1,000 (about 1 in 1,000 whole amounts of four or more digits)'),
+  'round-numbers': minimumFor([0.001], 'multiples of 1,000 (about 1 in 1,000 whole amounts of four or more digits)'),
   'threshold': { warning: 50, stop: 10, rarest: 'the ten buckets around the limit' },
   'duplicates': null,
 }
@@ -90,8 +89,8 @@ export function checkSuitability({ test, n, profile, bins }: SuitabilityInput): 
     findings.push({
       code: 'too-few-values',
       severity: n < minimum.stop ? 'stop' : 'warning',
-      message: `Only ${n} values. The ${test} test wants at least ${minimum.warning}, so that even the rarest bin `
-        + `(${minimum.rarest}) is expected at least 5 times: ${COCHRAN}.`,
+      message: `Only ${n} values. The ${test} test wants at least ${minimum.warning}, so that few of its bins `
+        + `expect fewer than 5 values and even the rarest (${minimum.rarest}) at least 1: ${COCHRAN}.`,
     })
   }
   if (profile && profile.n > 0 && LAW_BASED.has(test)) findings.push(...columnFindings(profile))

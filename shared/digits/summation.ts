@@ -48,6 +48,6 @@ export function runSummationTest(counts: SummationCounts, sign: SignFilter): Tes
   if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
   const value = meanAbsoluteDeviation(bins.map(bin => bin.share), bins.map(() => EXPECTED_SHARE))
   // No published ranges and no chance model for amount shares: the only reading is "too few values".
-  const reading = n < cochranMinimum(Math.min(...DISTRIBUTIONS['first-two-digits'].shares)) ? 'too-few' : null
+  const reading = n < cochranMinimum(DISTRIBUTIONS['first-two-digits'].shares) ? 'too-few' : null
   return { ...NO_STATISTICS, n, excluded, bins, mad: { value, conformity: null, expected: null, excess: null, reading } }
 }

@@ -11,7 +11,8 @@ function scale(value: string, mantissa: bigint, places: number): string {
 
 const firstDigit = (values: readonly string[]) => runDigitTest({ test: 'first-digit', input: { values } })
 
-describe('properties', () => {
+// fast-check runs each property dozens of times over thousands of values: seconds on a busy machine.
+describe('properties', { timeout: 60_000 }, () => {
   // 2^n, n = 0..999 conforms closely (CHECKS.md worked case: MAD 0.000678).
   const conforming = powerSeries(2, 1000)
 
