@@ -81,7 +81,7 @@ export function checkSuitability({ test, n, profile, bins }: SuitabilityInput): 
         code: 'too-few-values',
         severity: rarest.expected! < 1 ? 'stop' : 'warning',
         message: `Only ${n} values. At this column's lengths and precision the rarest bin (${ROUND_NAMES[rarest.key] ?? rarest.key}) `
-          + `is expected ${rarest.expected!.toFixed(1)} times; the test wants at least 5: ${COCHRAN}.`,
+          + `is expected ${Number(rarest.expected!.toPrecision(2))} times; the test wants at least 5: ${COCHRAN}.`,
       })
     }
   }
