@@ -34,8 +34,8 @@ export const CONFORMITY_LABELS: Record<Conformity, string> = {
 /** What a MAD reading says, in the words every surface prints (see shared/digits/mad.ts). */
 export const READING_LABELS: Record<Reading, string> = {
   'too-few': 'too few values to read',
-  'chance': 'within what chance gives at this size',
-  'deviates': 'more than chance explains at this size',
+  'chance': 'within chance at this size',
+  'deviates': 'beyond chance at this size',
   ...CONFORMITY_LABELS,
 }
 
