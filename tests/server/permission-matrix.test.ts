@@ -4,7 +4,7 @@ import { PASSWORD } from '../support/newsroom'
 import {
   allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation,
   freshInvitation, freshMarkedPassage, freshMember, freshProseBlock, freshRemovedBlock, freshShareLink,
-  freshVerifiedClaim, matrixTable, openMatrixDesk, runRow, uploadProbe,
+  freshVerifiedClaim, MATRIX_CLAIM, matrixTable, openMatrixDesk, runRow, uploadProbe,
 } from '../support/permission-matrix'
 import type { Actor, Cell, MatrixDesk, Row } from '../support/permission-matrix'
 import { apiRoutes } from '../support/route-files'
@@ -218,7 +218,7 @@ const ROWS: Row[] = [
     expected: allowOnly(WRITERS, 200),
     fresh: true,
     target: freshInvestigation,
-    send: (client, draft) => client.patch(`/api/investigations/${draft.id}`, { title: 'Renamed by the permission matrix' }),
+    send: (client, draft) => client.patch(`/api/investigations/${draft.id}`, { title: 'Renamed by the permission matrix', titleVersion: 1 }),
   },
   {
     route: 'GET /api/investigations/[id]/audit',
@@ -328,7 +328,7 @@ const ROWS: Row[] = [
     expected: allowOnly(CHECKERS, 200),
     fresh: true,
     target: freshClaim,
-    send: (client, claim) => client.post(`/api/claims/${claim.id}/verify`),
+    send: (client, claim) => client.post(`/api/claims/${claim.id}/verify`, { quote: MATRIX_CLAIM }),
   },
   {
     route: 'POST /api/claims/[id]/dispute',
