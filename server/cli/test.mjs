@@ -16,7 +16,7 @@ ensureChromium()
 step('starting the test PostgreSQL (throwaway, its own port and folder)')
 const database = ensurePostgres({ name: 'test', port: Number(process.env.MANTISSA_TEST_PG_PORT ?? 54339), database: 'mantissa_test', throwaway: true })
 database.recreate()
-migrate(database.url)
+migrate(database.url, database.appUrl)
 
 step('lint (eslint)')
 if (run(bin('eslint'), ['.']) !== 0) failures.push('lint')
@@ -28,7 +28,7 @@ buildIfStale()
 const env = {
   ...process.env,
   NODE_ENV: 'production',
-  NUXT_DATABASE_URL: database.url,
+  NUXT_DATABASE_URL: database.appUrl,
   NUXT_SESSION_PASSWORD: 'test-only-session-password-of-more-than-32-chars',
   NUXT_MAIL_SINK_ENABLED: 'true',
   NUXT_MAIL_SINK_PORT: String(mailPort),
@@ -53,7 +53,9 @@ try {
   rmSync(report, { force: true })
   const code = run(bin('vitest'), ['run', '--config', 'tests/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], {
     MANTISSA_TEST_URL: url,
-    NUXT_DATABASE_URL: database.url,
+    // Tests look at the database as the app does; the audit trail's tests also try it as its owner.
+    NUXT_DATABASE_URL: database.appUrl,
+    MANTISSA_TEST_OWNER_DATABASE_URL: database.url,
     NUXT_STORAGE_BASE: env.NUXT_STORAGE_BASE,
     NUXT_UPLOAD_LIMIT_BYTES: env.NUXT_UPLOAD_LIMIT_BYTES,
   })

@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest'
-import { sql } from '../support/database'
+import { ownerSql, sql } from '../support/database'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
@@ -60,8 +60,8 @@ describe('the investigation\'s audit trail', () => {
   it('cannot be rewritten or cut at the database', async () => {
     const ids = (await workflowEvents()).map((e: { id: string }) => e.id)
     for (const id of ids) {
-      await expect(sql(`UPDATE audit_events SET detail = '{}'::jsonb, actor_id = NULL WHERE id = $1`, [id])).rejects.toThrow(/append-only/)
-      await expect(sql(`DELETE FROM audit_events WHERE id = $1`, [id])).rejects.toThrow(/append-only/)
+      await expect(ownerSql(`UPDATE audit_events SET detail = '{}'::jsonb, actor_id = NULL WHERE id = $1`, [id])).rejects.toThrow(/append-only/)
+      await expect(ownerSql(`DELETE FROM audit_events WHERE id = $1`, [id])).rejects.toThrow(/append-only/)
     }
     const kept = await sql(`SELECT action, detail FROM audit_events WHERE id = ANY($1::bigint[]) ORDER BY id`, [ids])
     expect(kept.rows.map(r => r.action)).toEqual(WORKFLOW)
