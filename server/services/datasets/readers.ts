@@ -8,6 +8,7 @@ import StreamArray from 'stream-json/streamers/StreamArray.js'
 import { decimalText, readNumber } from '#shared/digits'
 import { UnreadableFile } from './sniff'
 import type { DatasetFormat, TextEncoding } from './sniff'
+import { MixedTextDecoder } from './mixed-text'
 
 /** Rows of a file as text cells, header first, in batches; streams, never holds the file. */
 export interface RowSource {
@@ -37,6 +38,7 @@ function storable(text: string): string {
  */
 function textDecoder(encoding: TextEncoding): { write: (chunk: Buffer) => string, end: () => string } {
   if (encoding === 'utf-8' || encoding === 'utf-16le') return new StringDecoder(encoding === 'utf-8' ? 'utf8' : 'utf16le')
+  if (encoding === 'utf-8+windows-1252') return new MixedTextDecoder()
   const decoder = new TextDecoder(encoding)
   return { write: chunk => decoder.decode(chunk, { stream: true }), end: () => decoder.decode() }
 }
