@@ -36,7 +36,9 @@ export function unstorableText(value: unknown): FieldError[] {
 /** The largest JSON body: a prose block's document (at most 1,000,000 characters) with room to spare. */
 export const MAX_JSON_BYTES = 4 * 1024 * 1024
 
-function bodyTooLarge() {
+/** The rest of such a body is never read, so the connection closes after the answer instead of serving another request. */
+function bodyTooLarge(event: H3Event) {
+  setResponseHeader(event, 'connection', 'close')
   return fail(413, { message: `This request is larger than the ${MAX_JSON_BYTES / 1024 / 1024} MB a JSON body may be. Split the text into several blocks.` })
 }
 
@@ -45,12 +47,12 @@ function bodyTooLarge() {
  * with 413 as soon as it passes MAX_JSON_BYTES, so an oversized body is never held whole.
  */
 async function readJson(event: H3Event): Promise<unknown> {
-  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_JSON_BYTES) throw bodyTooLarge()
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_JSON_BYTES) throw bodyTooLarge(event)
   const chunks: Buffer[] = []
   let size = 0
   for await (const chunk of event.node.req) {
     size += (chunk as Buffer).length
-    if (size > MAX_JSON_BYTES) throw bodyTooLarge()
+    if (size > MAX_JSON_BYTES) throw bodyTooLarge(event)
     chunks.push(chunk as Buffer)
   }
   const text = Buffer.concat(chunks).toString('utf8')

@@ -42,11 +42,9 @@ function receive(event: H3Event, limit: number): Promise<Received> {
     let fileStream: Readable | undefined
     // A client that goes away mid-upload ends nothing by itself: busboy would wait for bytes that
     // never come, keeping the staging file and its descriptor open for good. Ending the file's
-    // stream with an error ends the save, which removes the staged part.
+    // stream with an error ends the save, which removes the staged part. Nobody is left to answer.
     request.once('close', () => {
-      if (request.complete) return
-      fileStream?.destroy(fail(400, [{ path: 'file', message: 'The upload was interrupted. Try again.' }]))
-      settle()
+      if (!request.complete) fileStream?.destroy(new Error('The upload was interrupted.'))
     })
     parser.on('field', (name, value) => {
       fields[name] = value
