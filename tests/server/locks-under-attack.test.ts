@@ -3,6 +3,7 @@ import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { blockOf, expectStatus, proseDoc, readStory, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
+import type { Reply } from '../support/api'
 
 // DESIGN.md: "A locked claim's text and a locked analysis block's settings cannot change. Any save
 // that would change them is refused with 423 and a message saying who locked it and when." The
@@ -37,7 +38,7 @@ async function verifiedPassage(): Promise<{ story: Story, at: string }> {
   return { story, at: verified.body.decision.at }
 }
 
-function expectLocked(reply: { status: number, body: any }, at: string) {
+function expectLocked(reply: Reply, at: string) {
   expectStatus(reply, 423)
   expect(reply.body.data).toMatchObject({ lockedBy: newsroom.names['fact-checker'], lockedAt: at })
 }
