@@ -36,32 +36,43 @@ export function unstorableText(value: unknown): FieldError[] {
 /** The largest JSON body: a prose block's document (at most 1,000,000 characters) with room to spare. */
 export const MAX_JSON_BYTES = 4 * 1024 * 1024
 
-/** The rest of such a body is never read, so the connection closes after the answer instead of serving another request. */
-function bodyTooLarge(event: H3Event) {
-  setResponseHeader(event, 'connection', 'close')
+function bodyTooLarge() {
   return fail(413, { message: `This request is larger than the ${MAX_JSON_BYTES / 1024 / 1024} MB a JSON body may be. Split the text into several blocks.` })
 }
 
 /**
- * The body as parsed JSON (undefined when empty or not JSON), read a chunk at a time and refused
- * with 413 as soon as it passes MAX_JSON_BYTES, so an oversized body is never held whole.
+ * The body as parsed JSON (undefined when empty or not JSON), refused with 413 as soon as it passes
+ * MAX_JSON_BYTES. The rest of an oversized body is read and dropped, never held: destroying the
+ * request instead would cut the connection under the answer.
  */
-async function readJson(event: H3Event): Promise<unknown> {
-  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_JSON_BYTES) throw bodyTooLarge(event)
-  const chunks: Buffer[] = []
-  let size = 0
-  for await (const chunk of event.node.req) {
-    size += (chunk as Buffer).length
-    if (size > MAX_JSON_BYTES) throw bodyTooLarge(event)
-    chunks.push(chunk as Buffer)
+function readJson(event: H3Event): Promise<unknown> {
+  const request = event.node.req
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_JSON_BYTES) {
+    request.resume()
+    return Promise.reject(bodyTooLarge())
   }
-  const text = Buffer.concat(chunks).toString('utf8')
-  try {
-    return text.trim() ? JSON.parse(text) : undefined
-  }
-  catch {
-    return undefined
-  }
+  return new Promise((resolve, reject) => {
+    const chunks: Buffer[] = []
+    let size = 0
+    const take = (chunk: Buffer) => {
+      size += chunk.length
+      if (size <= MAX_JSON_BYTES) return chunks.push(chunk)
+      request.off('data', take)
+      request.resume()
+      reject(bodyTooLarge())
+    }
+    request.on('data', take)
+    request.once('error', reject)
+    request.once('end', () => {
+      const text = Buffer.concat(chunks).toString('utf8')
+      try {
+        resolve(text.trim() ? JSON.parse(text) : undefined)
+      }
+      catch {
+        resolve(undefined)
+      }
+    })
+  })
 }
 
 /** Reads and validates the JSON body; a body that is not JSON, or a bad one, answers 400 with field messages. */
