@@ -58,8 +58,8 @@ const ROWS: Row[] = [
   // Open routes
   {
     route: 'ANY /api/[...]',
-    expected: everyone(404),
-    why: 'The catch-all (its own case: no method, no resource): an /api address without a route of its own is not there for anyone, so it answers 404 before any session question.',
+    expected: { ...everyone(404), anonymous: 401, visitor: 401 },
+    why: 'The catch-all (its own case: no method, no resource): an /api address without a route of its own is not there for any member (404). Without a session every /api address but the open ones answers 401 before anything is looked up (issue 22: existence never leaks), a missing route included.',
     send: client => client.post('/api/no-such-address', {}),
   },
   {
