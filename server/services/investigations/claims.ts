@@ -4,7 +4,8 @@ import type { QueueItemDTO } from '#shared/types/investigation'
 import type { Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { claimDTO, findInvestigation, liveBlocks, userNames } from './catalog'
-import { claimText } from './prose-claims'
+import { assertFourEyes } from './four-eyes'
+import { attachedClaims, claimText } from './prose-claims'
 
 /** The claim behind an id with its investigation, for the permission check; 404 when missing. */
 export async function findClaim(id: string): Promise<{ claim: Claim, investigation: Investigation }> {
@@ -49,6 +50,12 @@ export async function createClaim(actor: Actor, investigation: Investigation, in
   return describeClaim(claim)
 }
 
+/** A claim whose words were deleted is out of every list; a late request about it gets 409. */
+async function assertPassage(claim: Claim) {
+  const block = await useDb().models.Block.findByPk(claim.blockId, { attributes: ['id', 'content', 'deletedAt'] })
+  if (!block || !attachedClaims([claim], [block]).length) throw fail(409, { message: 'The marked passage is no longer in the text.' })
+}
+
 /**
  * Locks a claim for a decision or a change of its sources, in the one order every writer uses:
  * the investigation's row, then the claim's, then (the caller's part) the blocks'. Answers the
@@ -63,6 +70,7 @@ async function lockClaimForChange(claim: Claim, transaction: Transaction): Promi
 }
 
 export async function updateClaimSupport(actor: Actor, claim: Claim, supportingBlockIds: string[]) {
+  await assertPassage(claim)
   const updated = await useDb().sequelize.transaction(async (transaction) => {
     const current = await lockClaimForChange(claim, transaction)
     if (current.status === 'verified') throw fail(423, { message: 'This claim is verified and locked; its sources cannot change until a data editor lifts the lock.' })
@@ -90,6 +98,7 @@ export async function verifyClaim(actor: Actor, claim: Claim, read: ReadVersion)
     const block = await models.Block.findByPk(current.blockId, { transaction, lock: transaction.LOCK.UPDATE })
     const quote = claimText(block?.content, current.id)
     if (!block || block.deletedAt || !quote.trim()) throw fail(409, { message: 'The marked passage is no longer in the text; it cannot be verified.' })
+    await assertFourEyes(actor, [current.createdBy, block.createdBy, block.updatedBy], 'claim', transaction)
     if ((read.version !== undefined && read.version !== block.version) || (read.quote !== undefined && read.quote !== quote)) {
       throw fail(409, { message: 'The passage changed after you read it. Read it again before verifying.', current: { quote, version: block.version } })
     }
@@ -112,6 +121,7 @@ export async function verifyClaim(actor: Actor, claim: Claim, read: ReadVersion)
 }
 
 export async function disputeClaim(actor: Actor, claim: Claim, investigation: Investigation, note: string) {
+  await assertPassage(claim)
   const disputed = await useDb().sequelize.transaction(async (transaction) => {
     const current = await lockClaimForChange(claim, transaction)
     if (current.status === 'verified') throw fail(423, { message: 'This claim is verified and locked. A data editor must lift the lock before it can be disputed.' })
@@ -161,12 +171,12 @@ export async function factCheckQueue(newsroomId: string): Promise<QueueItemDTO[]
     where: { investigationId: { [Op.in]: [...byId.keys()] }, status: { [Op.in]: ['open', 'disputed'] } },
     order: [['createdAt', 'ASC']],
   })
-  const live = new Set((await models.Block.findAll({ where: { id: { [Op.in]: claims.map(c => c.blockId) }, deletedAt: null }, attributes: ['id'] })).map(b => b.id))
-  return claims.filter(c => live.has(c.blockId)).map(claim => ({
+  const blocks = await models.Block.findAll({ where: { id: { [Op.in]: claims.map(c => c.blockId) }, deletedAt: null }, attributes: ['id', 'content'] })
+  return attachedClaims(claims, blocks).map(({ claim, quote }) => ({
     investigationId: claim.investigationId,
     investigationTitle: byId.get(claim.investigationId)!.title,
     blockId: claim.blockId,
-    label: claim.quote,
+    label: quote,
     status: claim.status,
     note: claim.note ?? null,
   }))
