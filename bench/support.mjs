@@ -42,7 +42,7 @@ export const median = list => [...list].sort((a, b) => a - b)[Math.floor(list.le
 export async function startBench(port = 3601) {
   const database = ensurePostgres({ name: 'bench', port: 54369, database: 'mantissa_bench', throwaway: true })
   database.recreate()
-  migrate(database.url)
+  migrate(database.url, database.appUrl)
   buildIfStale()
   // BENCH_CPU_PROFILE=<folder> writes the server's CPU profile there when it stops (for Chromium's DevTools).
   const profile = process.env.BENCH_CPU_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_CPU_PROFILE}`] : []
@@ -50,7 +50,7 @@ export async function startBench(port = 3601) {
     cwd: root,
     stdio: ['ignore', 'ignore', 'inherit'],
     env: {
-      ...process.env, PORT: String(port), NITRO_HOST: '127.0.0.1', NUXT_DATABASE_URL: database.url,
+      ...process.env, PORT: String(port), NITRO_HOST: '127.0.0.1', NUXT_DATABASE_URL: database.appUrl,
       NUXT_SESSION_PASSWORD: 'bench-only-session-password-of-32-characters', NUXT_DEMO_SEED: 'true',
       NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: '2765', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
       NUXT_STORAGE_BASE: join(root, '.data', 'bench-files'),

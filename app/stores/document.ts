@@ -78,7 +78,11 @@ export const useDocumentStore = defineStore('document', () => {
   function citeBlocks(claimId: string, supportingBlockIds: string[]) {
     return act(() => send(`/api/claims/${claimId}`, { method: 'PATCH', body: { supportingBlockIds } }))
   }
-  const verify = (claimId: string) => act(post(`/api/claims/${claimId}/verify`))
+  // Names the text block's version on screen, so a passage changed since it was read is not locked.
+  const verify = (claimId: string) => {
+    const blockId = claims.value.find(c => c.id === claimId)?.blockId
+    return act(post(`/api/claims/${claimId}/verify`, { version: blocks.value.find(b => b.id === blockId)?.version }))
+  }
   const dispute = (claimId: string, note: string) => act(post(`/api/claims/${claimId}/dispute`, { note }))
   const unlock = (claimId: string, reason: string) => act(post(`/api/claims/${claimId}/unlock`, { reason }))
   /** Takes a claim off its passage (the words stay); its block's pending typing is saved first, so the server strips the mark from the latest text. */

@@ -51,9 +51,10 @@ export function localSessionPassword() {
   return readFileSync(file, 'utf8').trim()
 }
 
-export function migrate(databaseUrl) {
+/** Migrates as the schema's owner (`ownerUrl`), then gives the app's role (`appUrl`) what it may use. */
+export function migrate(ownerUrl, appUrl) {
   step('migrating the database')
-  mustRun(join(root, 'node_modules', '.bin', 'tsx'), ['server/cli/migrate.ts'], { NUXT_DATABASE_URL: databaseUrl })
+  mustRun(join(root, 'node_modules', '.bin', 'tsx'), ['server/cli/migrate.ts'], { NUXT_DATABASE_OWNER_URL: ownerUrl, NUXT_DATABASE_URL: appUrl })
 }
 
 const BUILD_INPUTS = ['app', 'server', 'shared', 'content', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json']

@@ -11,8 +11,9 @@ const port = Number(process.env.PORT ?? 3000)
 ensureDependencies()
 step('starting PostgreSQL')
 const database = ensurePostgres({ name: 'dev', port: Number(process.env.MANTISSA_PG_PORT ?? 54329), database: 'mantissa' })
-const databaseUrl = process.env.NUXT_DATABASE_URL ?? database.url
-migrate(databaseUrl)
+// Given a database of one's own, the app runs as NUXT_DATABASE_URL's role and migrates as the owner's.
+const databaseUrl = process.env.NUXT_DATABASE_URL ?? database.appUrl
+migrate(process.env.NUXT_DATABASE_OWNER_URL ?? (process.env.NUXT_DATABASE_URL ? databaseUrl : database.url), databaseUrl)
 if (!dev) buildIfStale()
 
 const env = {

@@ -20,22 +20,26 @@ export function testDatabase() {
   return ensurePostgres({ name: 'test', port: Number(process.env.MANTISSA_TEST_PG_PORT ?? 54339), database: 'mantissa_test', throwaway: true })
 }
 
-/** What the test files read from the environment, beside the URL. */
-export function testEnv(databaseUrl) {
+/**
+ * What the test files read from the environment, beside the URL. They look at the database as the
+ * app's role does; the audit trail's tests also try it as the schema's owner.
+ */
+export function testEnv(database) {
   return {
     MANTISSA_TEST_URL: testUrl,
-    NUXT_DATABASE_URL: databaseUrl,
+    NUXT_DATABASE_URL: database.appUrl,
+    MANTISSA_TEST_OWNER_DATABASE_URL: database.url,
     NUXT_STORAGE_BASE: join(root, '.data', 'test-files'),
     // Lower than the 200 MB default so the over-the-limit test sends 20 MB, not 200.
     NUXT_UPLOAD_LIMIT_BYTES: String(20 * 1024 * 1024),
   }
 }
 
-/** Starts the built app for the tests on the test port; resolves once it answers. */
-export async function startTestApp(databaseUrl) {
+/** Starts the built app for the tests on the test port, as the app's database role; resolves once it answers. */
+export async function startTestApp(database) {
   const env = {
     ...process.env,
-    ...testEnv(databaseUrl),
+    ...testEnv(database),
     NODE_ENV: 'production',
     NUXT_SESSION_PASSWORD: 'test-only-session-password-of-more-than-32-chars',
     NUXT_MAIL_SINK_ENABLED: 'true',
@@ -45,6 +49,8 @@ export async function startTestApp(databaseUrl) {
     PORT: String(port),
     NITRO_HOST: '127.0.0.1',
   }
+  // The app never gets the owner's URL.
+  delete env.MANTISSA_TEST_OWNER_DATABASE_URL
   step(`starting the built app for server and browser tests on ${testUrl}`)
   const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] })
   // Its output also goes to a file, where the tests look for errors it only logged (an unhandled rejection).
@@ -89,7 +95,7 @@ async function answers(url) {
  */
 export async function useTestStack() {
   const database = testDatabase()
-  for (const [name, value] of Object.entries(testEnv(database.url))) process.env[name] ??= value
+  for (const [name, value] of Object.entries(testEnv(database))) process.env[name] ??= value
   if (await answers(testUrl)) {
     step(`using the app that answers on ${testUrl}`)
     // The process the last start left, if it is the one still running.
@@ -99,9 +105,9 @@ export async function useTestStack() {
     }
     return { env: {}, stop: async () => {} }
   }
-  migrate(database.url)
+  migrate(database.url, database.appUrl)
   buildIfStale()
-  const app = await startTestApp(database.url)
+  const app = await startTestApp(database)
   Object.assign(process.env, app.env)
   return app
 }

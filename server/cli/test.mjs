@@ -12,7 +12,7 @@ ensureChromium()
 step('starting the test PostgreSQL (throwaway, its own port and folder)')
 const database = testDatabase()
 database.recreate()
-migrate(database.url)
+migrate(database.url, database.appUrl)
 
 step('lint (eslint)')
 if (run('npm', ['run', '--silent', 'lint']) !== 0) failures.push('lint')
@@ -21,12 +21,12 @@ if (run(bin('nuxt'), ['typecheck']) !== 0) failures.push('typecheck')
 
 buildIfStale()
 
-const env = testEnv(database.url)
+const env = testEnv(database)
 rmSync(env.NUXT_STORAGE_BASE, { recursive: true, force: true })
 let results = { numPassedTests: 0, numFailedTests: 0, numPendingTests: 0 }
 let app = null
 try {
-  app = await startTestApp(database.url)
+  app = await startTestApp(database)
   step('unit, server and browser tests (vitest)')
   const artifacts = join(root, 'tests', '.artifacts')
   mkdirSync(artifacts, { recursive: true })

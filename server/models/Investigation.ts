@@ -9,6 +9,7 @@ export class Investigation extends Model<InferAttributes<Investigation>, InferCr
   declare title: string
   declare status: CreationOptional<InvestigationStatus>
   declare layoutVersion: CreationOptional<number>
+  declare titleVersion: CreationOptional<number>
   declare createdBy: string
   declare updatedBy: CreationOptional<string | null>
   declare archivedAt: CreationOptional<Date | null>
@@ -22,6 +23,7 @@ export class Investigation extends Model<InferAttributes<Investigation>, InferCr
       title: { type: DataTypes.TEXT, allowNull: false },
       status: { type: DataTypes.ENUM('draft', 'in-review', 'published'), allowNull: false, defaultValue: 'draft' },
       layoutVersion: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
+      titleVersion: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
       createdBy: { type: DataTypes.UUID, allowNull: false },
       updatedBy: DataTypes.UUID,
       archivedAt: DataTypes.DATE,

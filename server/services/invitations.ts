@@ -76,7 +76,13 @@ export async function revokeInvitation(actor: Actor, invitationId: string) {
   const { Invitation } = useDb().models
   const invitation = await Invitation.findOne({ where: { id: invitationId, newsroomId: actor.newsroomId, acceptedAt: null, revokedAt: null } })
   if (!invitation) throw fail(404)
-  await invitation.update({ revokedAt: new Date() })
+  await useDb().sequelize.transaction(async (transaction) => {
+    await invitation.update({ revokedAt: new Date() }, { transaction })
+    await recordAudit({
+      newsroomId: actor.newsroomId, actorId: actor.userId, action: 'member.invitation-revoked',
+      subjectType: 'invitation', subjectId: invitation.id, detail: { email: invitation.email, role: invitation.role },
+    }, transaction)
+  })
 }
 
 /** The open invitation behind a token; 404 when unknown, used, revoked or expired. */

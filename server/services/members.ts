@@ -1,4 +1,6 @@
 import type { Transaction } from 'sequelize'
+import { can } from '#shared/auth/permissions'
+import type { Action } from '#shared/auth/permissions'
 import type { Role } from '#shared/auth/roles'
 import type { MemberDTO, NewsroomDTO } from '#shared/types/dto'
 import type { Actor } from '../utils/permissions'
@@ -50,20 +52,37 @@ export async function findMembership(membershipId: string) {
   return membership
 }
 
-/** A newsroom always keeps one admin: refuse a change that would leave none. */
+/**
+ * Locks a membership for a change, in the one order membership changes use: the newsroom's row
+ * first, then the membership's. Two admins demoting each other at once then queue on the newsroom
+ * row (the second sees the first's change and the one-admin rule) instead of deadlocking on each
+ * other's memberships. 404 unless the membership is of the actor's newsroom.
+ */
+async function lockMembership(actor: Actor, action: Action, membershipId: string, transaction: Transaction) {
+  const { Newsroom, Membership } = useDb().models
+  await Newsroom.findByPk(actor.newsroomId, { transaction, lock: transaction.LOCK.UPDATE })
+  // Asked again under the lock: a change that waited may come from someone demoted meanwhile.
+  const own = await Membership.findOne({ where: { newsroomId: actor.newsroomId, userId: actor.userId }, transaction })
+  if (!own) throw fail(404)
+  if (!can(own.role, action)) throw fail(409, { message: 'Your role changed while this was being saved; it was not applied.' })
+  const membership = await Membership.findByPk(membershipId, { transaction, lock: transaction.LOCK.UPDATE })
+  if (!membership || membership.newsroomId !== actor.newsroomId) throw fail(404)
+  return membership
+}
+
+/** A newsroom always keeps one admin: refuse a change that would leave none (under the newsroom's row lock). */
 async function assertAnotherAdmin(newsroomId: string, membershipId: string, transaction: Transaction) {
   const { Membership } = useDb().models
-  const admins = await Membership.findAll({ where: { newsroomId, role: 'admin' }, transaction, lock: transaction.LOCK.UPDATE })
+  const admins = await Membership.findAll({ where: { newsroomId, role: 'admin' }, transaction })
   if (!admins.some(a => a.id !== membershipId)) {
     throw fail(409, { message: 'A newsroom needs at least one admin. Make someone else admin first.' })
   }
 }
 
 export async function changeRole(actor: Actor, membershipId: string, role: Role) {
-  const { sequelize, models } = useDb()
+  const { sequelize } = useDb()
   await sequelize.transaction(async (transaction) => {
-    const membership = await models.Membership.findByPk(membershipId, { transaction, lock: transaction.LOCK.UPDATE })
-    if (!membership || membership.newsroomId !== actor.newsroomId) throw fail(404)
+    const membership = await lockMembership(actor, 'member.changeRole', membershipId, transaction)
     if (membership.role === role) return
     if (membership.role === 'admin') await assertAnotherAdmin(actor.newsroomId, membershipId, transaction)
     const from = membership.role
@@ -76,10 +95,9 @@ export async function changeRole(actor: Actor, membershipId: string, role: Role)
 }
 
 export async function removeMember(actor: Actor, membershipId: string) {
-  const { sequelize, models } = useDb()
+  const { sequelize } = useDb()
   await sequelize.transaction(async (transaction) => {
-    const membership = await models.Membership.findByPk(membershipId, { transaction, lock: transaction.LOCK.UPDATE })
-    if (!membership || membership.newsroomId !== actor.newsroomId) throw fail(404)
+    const membership = await lockMembership(actor, 'member.remove', membershipId, transaction)
     if (membership.role === 'admin') await assertAnotherAdmin(actor.newsroomId, membershipId, transaction)
     await membership.destroy({ transaction })
     await recordAudit({

@@ -33,12 +33,54 @@ export function unstorableText(value: unknown): FieldError[] {
   return errors
 }
 
+/** The largest JSON body: a prose block's document (at most 1,000,000 characters) with room to spare. */
+export const MAX_JSON_BYTES = 4 * 1024 * 1024
+
+function bodyTooLarge() {
+  return fail(413, { message: `This request is larger than the ${MAX_JSON_BYTES / 1024 / 1024} MB a JSON body may be. Split the text into several blocks.` })
+}
+
+/**
+ * The body as parsed JSON (undefined when empty or not JSON), refused with 413 as soon as it passes
+ * MAX_JSON_BYTES. The rest of an oversized body is read and dropped, never held: destroying the
+ * request instead would cut the connection under the answer.
+ */
+function readJson(event: H3Event): Promise<unknown> {
+  const request = event.node.req
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_JSON_BYTES) {
+    request.resume()
+    return Promise.reject(bodyTooLarge())
+  }
+  return new Promise((resolve, reject) => {
+    const chunks: Buffer[] = []
+    let size = 0
+    const take = (chunk: Buffer) => {
+      size += chunk.length
+      if (size <= MAX_JSON_BYTES) return chunks.push(chunk)
+      request.off('data', take)
+      request.resume()
+      reject(bodyTooLarge())
+    }
+    request.on('data', take)
+    request.once('error', reject)
+    request.once('end', () => {
+      const text = Buffer.concat(chunks).toString('utf8')
+      try {
+        resolve(text.trim() ? JSON.parse(text) : undefined)
+      }
+      catch {
+        resolve(undefined)
+      }
+    })
+  })
+}
+
 /** Reads and validates the JSON body; a body that is not JSON, or a bad one, answers 400 with field messages. */
 export async function readInput<T extends z.ZodType>(event: H3Event, schema: T): Promise<z.output<T>> {
   const type = getRequestHeader(event, 'content-type')
   // A form post is a request any page can send without asking; the API takes JSON only.
   if (type && !/^application\/([\w.+-]+\+)?json\b/i.test(type)) throw fail(400, { message: 'Send the body as JSON, with content-type: application/json.' })
-  const body = await readBody(event).catch(() => undefined)
+  const body = await readJson(event)
   const unstorable = unstorableText(body)
   if (unstorable.length) throw fail(400, unstorable)
   const result = schema.safeParse(body ?? {})

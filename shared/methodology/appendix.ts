@@ -4,6 +4,7 @@ import { OUTSIDE_RANGE_RULES, READING_LABELS, TEST_DESCRIPTIONS, TEST_LABELS } f
 import { formatP } from '../charts/p-value'
 import type { AnalysisSettings } from '../types/investigation'
 import type { DatasetFingerprint, PublishedChecks } from '../types/publication'
+import { oneLine } from '../schemas/text'
 
 export interface AppendixAnalysis {
   settings: AnalysisSettings
@@ -30,11 +31,12 @@ function ranges(test: DistributionTest): string | null {
 function analysisSection(index: number, { settings, result }: AppendixAnalysis, datasets: Map<string, DatasetFingerprint>): string {
   const test = settings.test
   const dataset = settings.datasetId ? datasets.get(settings.datasetId) : undefined
-  const lines = [`### ${index}. ${test ? TEST_LABELS[test] : 'Analysis'}${settings.column ? ` of “${settings.column}”` : ''}`, '']
+  const column = settings.column && oneLine(settings.column)
+  const lines = [`### ${index}. ${test ? TEST_LABELS[test] : 'Analysis'}${column ? ` of “${column}”` : ''}`, '']
   if (test) lines.push(TEST_DESCRIPTIONS[test], '')
-  if (dataset) lines.push(`- Dataset: ${dataset.title} (${dataset.originalName}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
-  if (settings.filters?.length) lines.push(`- Rows: only where ${settings.filters.map(f => (f.op === 'equals' ? `${f.column} is “${f.value}”` : `${f.column} is between ${f.min ?? '−∞'} and ${f.max ?? '∞'}`)).join(' and ')}`)
-  if (settings.groupBy) lines.push(`- Groups: one test per value of “${settings.groupBy}”, ranked by ${test === 'summation' ? 'MAD × √n' : 'chi-square p'} so that small groups do not rise by chance alone, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995); each group's reading uses its q (under 0.05 to read as a departure)`)
+  if (dataset) lines.push(`- Dataset: ${oneLine(dataset.title)} (${oneLine(dataset.originalName)}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
+  if (settings.filters?.length) lines.push(`- Rows: only where ${settings.filters.map(f => (f.op === 'equals' ? `${oneLine(f.column)} is “${oneLine(f.value)}”` : `${oneLine(f.column)} is between ${f.min ?? '−∞'} and ${f.max ?? '∞'}`)).join(' and ')}`)
+  if (settings.groupBy) lines.push(`- Groups: one test per value of “${oneLine(settings.groupBy)}”, ranked by ${test === 'summation' ? 'MAD × √n' : 'chi-square p'} so that small groups do not rise by chance alone, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995); each group's reading uses its q (under 0.05 to read as a departure)`)
   if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it. The two beside the limit are compared with a straight line through the outer eight, allowing for the scatter those eight show around it (quasi-Poisson; McCullagh & Nelder 1989)`)
   lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
   if (result) {
@@ -81,7 +83,7 @@ function checksSection({ checks, followUpConfirmed }: PublicationRecord): string
 export function methodologyAppendix(title: string, analyses: AppendixAnalysis[], datasets: DatasetFingerprint[], record: PublicationRecord): string {
   const byId = new Map(datasets.map(d => [d.id, d]))
   return [
-    `# Methodology: ${title}`,
+    `# Methodology: ${oneLine(title)}`,
     '',
     '## What these tests can and cannot say',
     '',
@@ -102,7 +104,8 @@ export function methodologyAppendix(title: string, analyses: AppendixAnalysis[],
     ...analyses.map((analysis, i) => `${analysisSection(i + 1, analysis, byId)}\n`),
     '## Datasets',
     '',
-    ...datasets.map(d => `- **${d.title}** — ${d.originalName}; SHA-256 \`${d.sha256}\`; ${d.rowCount === null ? '?' : count(d.rowCount)} rows; obtained ${d.obtainedOn ?? 'on an unrecorded date'}${d.sourceUrl ? `; source ${d.sourceUrl}` : ''}${d.sourceNote ? `. ${d.sourceNote}` : ''}`),
+    // Titles, file names and notes come from people: each stays on its list item's one line.
+    ...datasets.map(d => `- **${oneLine(d.title)}** — ${oneLine(d.originalName)}; SHA-256 \`${d.sha256}\`; ${d.rowCount === null ? '?' : count(d.rowCount)} rows; obtained ${d.obtainedOn ?? 'on an unrecorded date'}${d.sourceUrl ? `; source ${oneLine(d.sourceUrl)}` : ''}${d.sourceNote ? `. ${oneLine(d.sourceNote)}` : ''}`),
     '',
   ].join('\n')
 }

@@ -1,5 +1,6 @@
 import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
+import { oneLine } from './text'
 
 const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)
 
@@ -16,7 +17,7 @@ function isCalendarDate(text: string): boolean {
 }
 
 export const datasetUploadSchema = z.object({
-  title: z.string().trim().min(1, 'Give the dataset a title').max(200),
+  title: z.string().transform(oneLine).pipe(z.string().min(1, 'Give the dataset a title').max(200)),
   sourceNote: optionalText(2000),
   sourceUrl: z.string().trim().max(2000).optional().transform(v => v || undefined)
     .refine(v => !v || /^https?:\/\//i.test(v), 'A source link starts with http:// or https://'),

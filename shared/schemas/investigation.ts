@@ -1,16 +1,20 @@
 import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
 import { filterSchema } from './dataset'
+import { oneLine } from './text'
 
 export const investigationCreateSchema = z.object({
   newsroomId: z.string().uuid(),
-  title: z.string().trim().min(1, 'Give the investigation a working title').max(300),
+  title: z.string().transform(oneLine).pipe(z.string().min(1, 'Give the investigation a working title').max(300)),
 })
 
 export const investigationUpdateSchema = z.object({
-  title: z.string().trim().min(1, 'The title cannot be empty').max(300).optional(),
+  // One line: a title is shown in headings, lists and the published methodology.
+  title: z.string().transform(oneLine).pipe(z.string().min(1, 'The title cannot be empty').max(300)).optional(),
+  // The title version the new title was typed over (the investigation's `titleVersion`).
+  titleVersion: z.number().int().positive().optional(),
   archived: z.boolean().optional(),
-})
+}).refine(v => v.title === undefined || v.titleVersion !== undefined, { path: ['titleVersion'], message: 'Name the title version you renamed from' })
 
 /** Tiptap document JSON; its structure is checked when it is rendered, never trusted as HTML. */
 export const proseContentSchema = z.object({
@@ -66,6 +70,13 @@ export const claimUpdateSchema = z.object({
   supportingBlockIds: z.array(z.string().uuid()).max(50),
 })
 
+// What the fact-checker read: the text block's version, or the passage word for word. Either one
+// that no longer matches answers 409, so a passage changed after reading is never locked unread.
+export const verifySchema = z.object({
+  version: z.number().int().positive().optional(),
+  quote: z.string().max(100_000).optional(),
+}).refine(v => v.version !== undefined || v.quote !== undefined, { path: ['version'], message: 'Name the version of the text block you read (or the passage itself)' })
+
 export const claimRemoveSchema = z.object({ reason: note.min(1).optional() })
 export const disputeSchema = z.object({ note: note.min(1, 'Say what is wrong or missing') })
 export const unlockSchema = z.object({ reason: note.min(1, 'Give the reason for lifting the lock; the audit trail keeps it') })
@@ -82,4 +93,12 @@ export const publishSchema = z.object({
   followUpConfirmed: z.boolean().optional(),
   expiresAt: z.string().datetime({ offset: true }).optional()
     .refine(v => !v || Date.parse(v) > Date.now(), 'Choose an expiry in the future'),
+})
+
+/** Filters and cursor of the audit trail; every field is optional, so new filters add fields, never break scripts. */
+export const auditQuerySchema = z.object({
+  before: z.string().regex(/^\d{1,18}$/, 'Use the `next` value of the page before').optional(),
+  actor: z.string().uuid().optional(),
+  kind: z.string().regex(/^[a-z-]+(\.[a-z-]+)?$/, 'An action such as claim.verified, or its family such as claim').max(80).optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(100),
 })

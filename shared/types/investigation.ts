@@ -70,10 +70,17 @@ export interface AuditEventDTO {
   id: string
   action: string
   actor: string | null
+  actorId: string | null
   subjectType: string
   subjectId: string | null
   detail: Record<string, unknown>
   at: string
+}
+
+/** One page of an audit trail, newest first; `next` goes in `before` for the page after it. */
+export interface AuditPageDTO {
+  events: AuditEventDTO[]
+  next: string | null
 }
 
 export interface QueueItemDTO {
@@ -88,6 +95,8 @@ export interface QueueItemDTO {
 export interface InvestigationDTO extends InvestigationSummaryDTO {
   newsroomId: string
   layoutVersion: number
+  /** The title's edit version: a title save names it, and a stale one answers 409. */
+  titleVersion: number
   blocks: BlockDTO[]
   claims: ClaimDTO[]
 }

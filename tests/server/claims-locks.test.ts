@@ -23,7 +23,7 @@ beforeAll(async () => {
 async function verifiedStory(): Promise<{ story: Story, at: string }> {
   const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
   expectStatus(await postClaim(newsroom.reporter, story), 201)
-  const verified = await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`)
+  const verified = await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT })
   expectStatus(verified, 200)
   expect(verified.body.decision.by).toBe(newsroom.names['fact-checker'])
   return { story, at: verified.body.decision.at }
@@ -127,7 +127,7 @@ describe('lifting a lock', () => {
     const content = proseDoc(BEFORE_CLAIM, { text: CLAIM_TEXT, claimId: story.claimId }, ' Also: ', { text: 'one payment in five is under 1,300', claimId: secondId }, '.')
     expectStatus(await reporterSaves(story, content), 200)
     expectStatus(await newsroom.reporter.post(`/api/investigations/${story.id}/claims`, { id: secondId, blockId: story.proseBlockId, supportingBlockIds: [story.analysisBlockId] }), 201)
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${secondId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${secondId}/verify`, { quote: 'one payment in five is under 1,300' }), 200)
 
     expectStatus(await newsroom['data-editor'].post(`/api/claims/${story.claimId}/unlock`, { reason: 'Wording to be tightened.' }), 200)
     expect((await blockOf(newsroom.reporter, story, story.analysisBlockId)).lock).toMatchObject({ by: newsroom.names['fact-checker'] })

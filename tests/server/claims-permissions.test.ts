@@ -15,7 +15,7 @@ async function posted(desk: Desk, story: Story) {
 
 async function verified(desk: Desk, story: Story) {
   await posted(desk, story)
-  expectStatus(await desk.as['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+  expectStatus(await desk.as['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
 }
 
 const rows: RoleCase[] = [
@@ -39,7 +39,7 @@ const rows: RoleCase[] = [
     allowed: CHECKERS,
     success: 200,
     prepare: posted,
-    act: (client, story) => client.post(`/api/claims/${story.claimId}/verify`),
+    act: (client, story) => client.post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }),
     effect: async (reply, story, desk) => {
       expect(reply.body.status).toBe('verified')
       expect((await blockOf(desk.as.owner, story, story.analysisBlockId)).lock).not.toBeNull()

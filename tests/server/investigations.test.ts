@@ -105,7 +105,7 @@ describe('who may change an investigation', () => {
     expect((await newsroom['fact-checker'].get(`/api/investigations/${investigation.id}`)).status).toBe(200)
     expect((await newsroom['fact-checker'].patch(`/api/blocks/${block.id}`, { version: 1, content: paragraph('x') })).status).toBe(403)
     expect((await newsroom['fact-checker'].post('/api/investigations', { newsroomId: newsroom.id, title: 'Mine' })).status).toBe(403)
-    expect((await newsroom['data-editor'].patch(`/api/investigations/${investigation.id}`, { title: 'Renamed by the desk' })).status).toBe(200)
+    expect((await newsroom['data-editor'].patch(`/api/investigations/${investigation.id}`, { title: 'Renamed by the desk', titleVersion: 1 })).status).toBe(200)
     expect((await outsider.reporter.get(`/api/investigations/${investigation.id}`)).status).toBe(404)
     expect((await outsider['data-editor'].patch(`/api/blocks/${block.id}`, { version: 1, content: paragraph('x') })).status).toBe(404)
     expect((await outsider.admin.get(`/api/investigations?newsroomId=${newsroom.id}`)).status).toBe(404)

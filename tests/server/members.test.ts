@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { Client, signedIn } from '../support/api'
-import { sql } from '../support/database'
+import { ownerSql, sql } from '../support/database'
 import { linkIn, waitForMail } from '../support/mail'
 import { createTestNewsroom, join, PASSWORD } from '../support/newsroom'
 
@@ -76,8 +76,8 @@ describe('roles and removal', () => {
 describe('the audit trail', () => {
   it('refuses updates and deletes at the database', async () => {
     const newsroom = await createTestNewsroom()
-    await expect(sql(`UPDATE audit_events SET action = 'tampered' WHERE newsroom_id = $1`, [newsroom.id])).rejects.toThrow(/append-only/)
-    await expect(sql(`DELETE FROM audit_events WHERE newsroom_id = $1`, [newsroom.id])).rejects.toThrow(/append-only/)
+    await expect(ownerSql(`UPDATE audit_events SET action = 'tampered' WHERE newsroom_id = $1`, [newsroom.id])).rejects.toThrow(/append-only/)
+    await expect(ownerSql(`DELETE FROM audit_events WHERE newsroom_id = $1`, [newsroom.id])).rejects.toThrow(/append-only/)
     const rows = await sql(`SELECT count(*)::int AS n FROM audit_events WHERE newsroom_id = $1`, [newsroom.id])
     expect(rows.rows[0].n).toBeGreaterThan(0)
   })

@@ -16,7 +16,7 @@ async function draft() {
 /** Every check done: the method approved, the claim verified. */
 async function clear(newsroom: Awaited<ReturnType<typeof draft>>['newsroom'], story: Awaited<ReturnType<typeof draft>>['story']) {
   expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'approved' }), 200)
-  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
 }
 
 const tokenOf = (url: string) => url.split('/p/')[1]!
@@ -33,7 +33,7 @@ describe('the publishing gate', () => {
     const forced = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { reason: 'The council meeting is tonight.' })
     expect(forced.status).toBe(201)
     const audit = await newsroom.admin.get(`/api/investigations/${story.id}/audit`)
-    const event = audit.body.find((e: { action: string }) => e.action === 'investigation.published')
+    const event = audit.body.events.find((e: { action: string }) => e.action === 'investigation.published')
     expect(event.detail.reason).toBe('The council meeting is tonight.')
     expect(event.detail.blockers).toHaveLength(2)
   })
@@ -115,7 +115,7 @@ describe('the public link', () => {
 
     expect((await new Client().get(`/api/public/${'x'.repeat(43)}`)).status).toBe(404)
     const audit = await newsroom.admin.get(`/api/investigations/${story.id}/audit`)
-    expect(audit.body.map((e: { action: string }) => e.action)).toContain('investigation.unpublished')
+    expect(audit.body.events.map((e: { action: string }) => e.action)).toContain('investigation.unpublished')
   })
 
   it('refuses everything but reading', async () => {

@@ -21,7 +21,7 @@ const dispute = (newsroom: TestNewsroom, story: Story, note: string) =>
   newsroom['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note })
 
 async function verifyThenLift(newsroom: TestNewsroom, story: Story, reason: string) {
-  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
   expectStatus(await newsroom['data-editor'].post(`/api/claims/${story.claimId}/unlock`, { reason }), 200)
 }
 

@@ -63,7 +63,7 @@ const rows: RoleCase[] = [
     success: 200,
     act: (client, story) => client.get(`/api/investigations/${story.id}/audit`),
     // The trail always holds the newsroom's own joins, made when the desk was set up.
-    effect: reply => expect(reply.body.map((e: { action: string }) => e.action)).toContain('member.joined'),
+    effect: reply => expect(reply.body.events.map((e: { action: string }) => e.action)).toContain('member.joined'),
   },
 ]
 

@@ -62,7 +62,7 @@ describe('the fact-check queue', () => {
     expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note: 'Which five payments?' }), 200)
     expect(await claimItems(newsroom['fact-checker'], story)).toEqual([expect.objectContaining({ status: 'disputed', note: 'Which five payments?' })])
 
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
     expect(await claimItems(newsroom['fact-checker'], story)).toEqual([])
 
     expectStatus(await newsroom['data-editor'].post(`/api/claims/${story.claimId}/unlock`, { reason: 'Recount needed.' }), 200)

@@ -25,7 +25,7 @@ async function reviewed(decision: 'approved' | 'sent-back'): Promise<Story> {
 
 const reviewOf = async (story: Story) => (await blockOf(newsroom.reporter, story, story.analysisBlockId)).review
 const resets = async (story: Story) =>
-  (await newsroom.reporter.get(`/api/investigations/${story.id}/audit`)).body.filter((e: { action: string }) => e.action === 'review.reset')
+  (await newsroom.reporter.get(`/api/investigations/${story.id}/audit`)).body.events.filter((e: { action: string }) => e.action === 'review.reset')
 
 describe('a review after the method changes', () => {
   it('sends an approved block back to unreviewed when its settings change, and says so in the trail', async () => {

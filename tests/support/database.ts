@@ -11,3 +11,10 @@ export async function sql<R extends pg.QueryResultRow = any>(text: string, value
     await client.end()
   }
 }
+
+/** One query as the schema's owner (the role migrations run as), for what the app's own role may not do. */
+export function ownerSql<R extends pg.QueryResultRow = any>(text: string, values: unknown[] = []): Promise<pg.QueryResult<R>> {
+  const url = process.env.MANTISSA_TEST_OWNER_DATABASE_URL
+  if (!url) throw new Error('MANTISSA_TEST_OWNER_DATABASE_URL is not set (npm test sets it)')
+  return sql<R>(text, values, url)
+}

@@ -59,7 +59,7 @@ export async function startFaultStack(): Promise<FaultStack> {
   // processes, which is what these tests cause; only a crash of the machine would need fsync.
   const database = ensurePostgres({ name: 'fault', port: FAULT_PG_PORT, database: 'mantissa_fault', throwaway: true })
   database.recreate()
-  if (run(join(root, 'node_modules', '.bin', 'tsx'), ['server/cli/migrate.ts'], { NUXT_DATABASE_URL: database.url }) !== 0) {
+  if (run(join(root, 'node_modules', '.bin', 'tsx'), ['server/cli/migrate.ts'], { NUXT_DATABASE_OWNER_URL: database.url, NUXT_DATABASE_URL: database.appUrl }) !== 0) {
     throw new Error('migrating the fault tests\' database failed')
   }
   const url = `http://localhost:${FAULT_PORT}`
@@ -68,7 +68,7 @@ export async function startFaultStack(): Promise<FaultStack> {
   const env = {
     ...process.env,
     NODE_ENV: 'production',
-    NUXT_DATABASE_URL: database.url,
+    NUXT_DATABASE_URL: database.appUrl,
     NUXT_SESSION_PASSWORD: 'fault-test-session-password-of-more-than-32-chars',
     NUXT_MAIL_SINK_ENABLED: 'true',
     NUXT_MAIL_SINK_PORT: String(FAULT_MAIL_PORT),
@@ -97,7 +97,7 @@ export async function startFaultStack(): Promise<FaultStack> {
 
   const stack: FaultStack = {
     url,
-    databaseUrl: database.url,
+    databaseUrl: database.appUrl,
     newsroomId: '',
     admin: new Client(url),
     app: undefined as unknown as ChildProcess,

@@ -106,10 +106,12 @@ export async function freshRemovedBlock(desk: MatrixDesk) {
   return block
 }
 
+export const MATRIX_CLAIM = 'one in three invented payments is round'
+
 /** A saved passage with a claim mark whose claim is not posted yet. */
 export async function freshMarkedPassage(desk: MatrixDesk) {
   const claimId = randomUUID()
-  const block = await freshProseBlock(desk, proseDoc('The matrix says ', { text: 'one in three invented payments is round', claimId }, '.'))
+  const block = await freshProseBlock(desk, proseDoc('The matrix says ', { text: MATRIX_CLAIM, claimId }, '.'))
   return { claimId, blockId: block.id }
 }
 
@@ -123,7 +125,7 @@ export async function freshClaim(desk: MatrixDesk) {
 /** A claim the fact-checker has verified, so locked. */
 export async function freshVerifiedClaim(desk: MatrixDesk) {
   const claim = await freshClaim(desk)
-  expectStatus(await desk.as['fact-checker'].post(`/api/claims/${claim.id}/verify`), 200)
+  expectStatus(await desk.as['fact-checker'].post(`/api/claims/${claim.id}/verify`, { quote: MATRIX_CLAIM }), 200)
   return claim
 }
 

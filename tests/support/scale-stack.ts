@@ -78,7 +78,7 @@ export async function startScaleStack(): Promise<ScaleStack> {
   if (!existsSync(server)) throw new Error('The built app is missing: run `npm test`, which builds it before the tests.')
   const primary = ensurePostgres({ name: 'scale', port: SCALE_PORTS.primary, database: 'mantissa_scale', throwaway: true, replication: true })
   primary.recreate()
-  if (run(join(root, 'node_modules', '.bin', 'tsx'), ['server/cli/migrate.ts'], { NUXT_DATABASE_URL: primary.url }) !== 0) {
+  if (run(join(root, 'node_modules', '.bin', 'tsx'), ['server/cli/migrate.ts'], { NUXT_DATABASE_OWNER_URL: primary.url, NUXT_DATABASE_URL: primary.appUrl }) !== 0) {
     throw new Error('migrating the scale-out tests\' database failed')
   }
   const replica = ensureReplica({ name: 'scale-replica', port: SCALE_PORTS.replica, primary, database: 'mantissa_scale' })
@@ -100,8 +100,8 @@ export async function startScaleStack(): Promise<ScaleStack> {
         ...process.env,
         ...s3.env,
         NODE_ENV: 'production',
-        NUXT_DATABASE_URL: primary.url,
-        NUXT_DATABASE_READ_URL: replica.url,
+        NUXT_DATABASE_URL: primary.appUrl,
+        NUXT_DATABASE_READ_URL: replica.appUrl,
         // One secret for every server, so that a session made on one is good on the other.
         NUXT_SESSION_PASSWORD: 'scale-test-session-password-of-more-than-32-chars',
         NUXT_MAIL_SINK_ENABLED: 'true',

@@ -1,3 +1,4 @@
+import { assertFewGroups } from './group-cap'
 import { DISTRIBUTIONS, MINIMUM_VALUES, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
 import type {
   ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
@@ -197,6 +198,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   const sign = body.sign ?? 'positive'
   const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
   const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
+  if (grouping) await assertFewGroups(grouping, body.groupBy!)
   const stored = await storedColumn(dataset.id, tested.position)
   const profile = profileOf(stored, whole, sign, Boolean(body.filters?.length))
 

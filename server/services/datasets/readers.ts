@@ -9,6 +9,7 @@ import { storable } from './storable-text'
 import { workbookRows } from './workbook'
 import type { RangeOpener } from './workbook'
 import type { DatasetFormat, TextEncoding } from './sniff'
+import { MixedTextDecoder } from './mixed-text'
 
 /** Rows of a file as text cells, header first, in batches; streams, never holds the file. */
 export interface RowSource {
@@ -29,6 +30,7 @@ const JSON_HEADER_SAMPLE = 1000
  */
 function textDecoder(encoding: TextEncoding): { write: (chunk: Buffer) => string, end: () => string } {
   if (encoding === 'utf-8' || encoding === 'utf-16le') return new StringDecoder(encoding === 'utf-8' ? 'utf8' : 'utf16le')
+  if (encoding === 'utf-8+windows-1252') return new MixedTextDecoder()
   const decoder = new TextDecoder(encoding)
   return { write: chunk => decoder.decode(chunk, { stream: true }), end: () => decoder.decode() }
 }

@@ -1,9 +1,11 @@
-import { isUtf8 } from 'node:buffer'
+import { isAscii, isUtf8 } from 'node:buffer'
 import type { Readable } from 'node:stream'
+import { utf8Length } from './mixed-text'
 
 export const FORMATS = ['csv', 'tsv', 'xlsx', 'json'] as const
 export type DatasetFormat = typeof FORMATS[number]
-export type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252'
+/** 'utf-8+windows-1252': UTF-8 where the bytes are UTF-8, Windows-1252 where they are not (mixed-text.ts). */
+export type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252' | 'utf-8+windows-1252'
 
 const EXTENSIONS: Record<string, DatasetFormat> = { csv: 'csv', txt: 'csv', tsv: 'tsv', tab: 'tsv', xlsx: 'xlsx', json: 'json' }
 
@@ -86,20 +88,25 @@ export function detectEncoding(head: Uint8Array): { encoding: TextEncoding, bomL
 /**
  * The encoding of a whole stored text file: detectEncoding on its first bytes, except that a file
  * whose start reads as UTF-8 but holds invalid bytes further on (a Latin-1 accent first met on
- * row 5,000) is Latin-1. One streamed pass over the file, never held in memory.
+ * row 5,000) is not UTF-8 throughout. If its UTF-8 part already held accented characters, it was
+ * written by two systems and is read as the bytes say ('utf-8+windows-1252'); if that part was
+ * plain ASCII, it is Latin-1. One streamed pass over the file, never held in memory.
  */
 export async function detectFileEncoding(open: () => Promise<Readable>, head: Uint8Array): Promise<{ encoding: TextEncoding, bomLength: number }> {
   const detected = detectEncoding(head)
   if (detected.encoding !== 'utf-8' || detected.bomLength > 0) return detected
   // A character cut between two chunks waits for the rest of its bytes in the next one.
   let carry: Buffer = Buffer.alloc(0)
+  let accented = false
+  const notUtf8 = (valid: Uint8Array) => ({ encoding: accented || !isAscii(valid) ? 'utf-8+windows-1252' as const : 'windows-1252' as const, bomLength: 0 })
   for await (const chunk of await open()) {
     const bytes = carry.length ? Buffer.concat([carry, chunk as Buffer]) : chunk as Buffer
     const cut = completeUpTo(bytes)
-    if (!isUtf8(bytes.subarray(0, cut))) return { encoding: 'windows-1252', bomLength: 0 }
+    if (!isUtf8(bytes.subarray(0, cut))) return notUtf8(bytes.subarray(0, utf8Length(bytes)))
+    accented ||= !isAscii(bytes.subarray(0, cut))
     carry = bytes.subarray(cut)
   }
-  return carry.length ? { encoding: 'windows-1252', bomLength: 0 } : detected
+  return carry.length ? notUtf8(Buffer.alloc(0)) : detected
 }
 
 /** Where the last UTF-8 character of `bytes` starts if its bytes are not all there yet, else the length. */

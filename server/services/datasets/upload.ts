@@ -1,4 +1,5 @@
 import busboy from 'busboy'
+import type { Readable } from 'node:stream'
 import type { H3Event } from 'h3'
 import { datasetUploadSchema } from '#shared/schemas/dataset'
 import type { Actor } from '../../utils/permissions'
@@ -42,6 +43,13 @@ function receive(event: H3Event, limit: number): Promise<Received> {
     const settle = () => saving.then(file => resolve({ fields, file }), (error) => {
       reject(error instanceof TooLarge ? tooLarge(limit) : error)
     })
+    let fileStream: Readable | undefined
+    // A client that goes away mid-upload ends nothing by itself: busboy would wait for bytes that
+    // never come, keeping the staging file and its descriptor open for good. Ending the file's
+    // stream with an error ends the save, which removes the staged part. Nobody is left to answer.
+    request.once('close', () => {
+      if (!request.complete) fileStream?.destroy(new Error('The upload was interrupted.'))
+    })
     parser.on('field', (name, value) => {
       fields[name] = value
     })
@@ -50,6 +58,7 @@ function receive(event: H3Event, limit: number): Promise<Received> {
         stream.resume()
         return
       }
+      fileStream = stream
       const originalName = (info.filename || 'upload').split(/[\\/]/).pop()!.slice(0, 255)
       saving = fileStore.save(stream, limit).then(stored => ({ ...stored, originalName }))
       // A failed save has destroyed the file stream, and busboy would wait for it forever (its

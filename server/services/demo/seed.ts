@@ -76,7 +76,7 @@ async function seedStory(people: DemoPeople, datasetId: string) {
     await createClaim(reporter, investigation, { id: claim.id, blockId: claimIn(claim.id).id, supportingBlockIds: claim.cites.map(i => blocks[i]!.id) })
   }
   const { claim: verified } = await findClaim(DEMO_CLAIMS.verified.id)
-  await verifyClaim(checker, verified)
+  await verifyClaim(checker, verified, { quote: verified.quote })
   const { claim: disputed } = await findClaim(DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
   const published = await publish(editor, investigation, {

@@ -1,3 +1,4 @@
+import { Op } from 'sequelize'
 import type { Transaction } from 'sequelize'
 import type { z } from 'zod'
 import type { blockCreateSchema, blockUpdateSchema } from '#shared/schemas/investigation'
@@ -5,13 +6,40 @@ import type { AnalysisSettings } from '#shared/types/investigation'
 import type { Block, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { describeBlock, describeInvestigation, findInvestigation, liveBlocks, touchInvestigation } from './catalog'
-import { assertUnlocked } from './locks'
+import { assertNoBorrowedMarks, assertUnlocked } from './locks'
 
 /** The block behind an id with its investigation, for the permission check; 404 when missing or removed. */
 export async function findBlock(id: string, { includeRemoved = false } = {}): Promise<{ block: Block, investigation: Investigation }> {
   const block = await useDb().models.Block.findByPk(id)
   if (!block || (block.deletedAt && !includeRemoved)) throw fail(404)
   return { block, investigation: await findInvestigation(block.investigationId) }
+}
+
+function auditBlock(actor: Actor, block: Block, action: string, detail: Record<string, unknown>, transaction: Transaction) {
+  return recordAudit({ newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action, subjectType: 'block', subjectId: block.id, detail }, transaction)
+}
+
+/** A person's saves of one text block less than this long after their last recorded one show as that one edit. */
+const EDIT_COALESCE_MS = 5 * 60 * 1000
+
+/**
+ * Writes a save to the trail. A change of method is one event each, with the new settings; text is
+ * saved every few seconds while someone types, so a person's saves of one block within five minutes
+ * of their last recorded edit of it are that edit (the block's own version and time say where it
+ * now stands).
+ */
+async function auditEdit(actor: Actor, block: Block, fromVersion: number, settings: unknown, transaction: Transaction) {
+  if (settings === undefined) {
+    const recent = await useDb().models.AuditEvent.findOne({
+      where: {
+        investigationId: block.investigationId, subjectType: 'block', subjectId: block.id, action: 'block.edited',
+        actorId: actor.userId, createdAt: { [Op.gt]: new Date(Date.now() - EDIT_COALESCE_MS) },
+      },
+      attributes: ['id'], transaction,
+    })
+    if (recent) return
+  }
+  await auditBlock(actor, block, 'block.edited', { kind: block.kind, fromVersion, ...(settings === undefined ? {} : { settings }) }, transaction)
 }
 
 /** JSON with object keys sorted, so that two settings that differ only in key order compare equal. */
@@ -33,6 +61,7 @@ export async function createBlock(actor: Actor, investigation: Investigation, in
   if (input.kind === 'analysis') await checkDataset(input.settings, investigation.newsroomId)
   const block = await sequelize.transaction(async (transaction) => {
     await models.Investigation.findByPk(investigation.id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (input.kind === 'prose') await assertNoBorrowedMarks(investigation.id, null, input.content, transaction)
     const blocks = await liveBlocks(investigation.id, transaction)
     const after = input.afterBlockId === undefined ? blocks.length - 1 : blocks.findIndex(b => b.id === input.afterBlockId)
     if (input.afterBlockId && after < 0) throw fail(400, [{ path: 'afterBlockId', message: 'That block is not in this investigation.' }])
@@ -47,6 +76,7 @@ export async function createBlock(actor: Actor, investigation: Investigation, in
     }, { transaction })
     await models.Investigation.increment('layoutVersion', { where: { id: investigation.id }, transaction })
     await touchInvestigation(investigation.id, actor.userId, transaction)
+    await auditBlock(actor, created, 'block.added', { kind: created.kind, position }, transaction)
     return created
   })
   return describeBlock(block)
@@ -95,6 +125,7 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
       version: input.version + 1,
       updatedBy: actor.userId,
     }, { transaction })
+    if (input.content || settingsChanged) await auditEdit(actor, current, input.version, settingsChanged ? input.settings : undefined, transaction)
     if (resetReview) {
       await recordAudit({
         newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action: 'review.reset',
@@ -120,6 +151,7 @@ export async function removeBlock(actor: Actor, block: Block) {
     await current.update({ deletedAt: new Date(), updatedBy: actor.userId }, { transaction })
     await useDb().models.Investigation.increment('layoutVersion', { where: { id: block.investigationId }, transaction })
     await touchInvestigation(block.investigationId, actor.userId, transaction)
+    await auditBlock(actor, current, 'block.removed', { kind: current.kind }, transaction)
   })
 }
 
@@ -128,9 +160,11 @@ export async function restoreBlock(actor: Actor, block: Block) {
   if (!block.deletedAt) return describeBlock(block)
   const restored = await sequelize.transaction(async (transaction) => {
     const current = await lockBlockForChange(block, transaction, { includeRemoved: true })
+    if (current.kind === 'prose') await assertNoBorrowedMarks(current.investigationId, current.id, current.content ?? undefined, transaction)
     await current.update({ deletedAt: null, updatedBy: actor.userId }, { transaction })
     await useDb().models.Investigation.increment('layoutVersion', { where: { id: block.investigationId }, transaction })
     await touchInvestigation(block.investigationId, actor.userId, transaction)
+    await auditBlock(actor, current, 'block.restored', { kind: current.kind }, transaction)
     return current
   })
   return describeBlock(restored)
@@ -153,6 +187,10 @@ export async function reorderBlocks(actor: Actor, investigation: Investigation, 
     }
     await locked.increment('layoutVersion', { transaction })
     await touchInvestigation(investigation.id, actor.userId, transaction)
+    await recordAudit({
+      newsroomId: investigation.newsroomId, investigationId: investigation.id, actorId: actor.userId, action: 'blocks.reordered',
+      subjectType: 'investigation', subjectId: investigation.id, detail: { blockIds },
+    }, transaction)
   })
   return describeInvestigation(await findInvestigation(investigation.id))
 }

@@ -79,6 +79,7 @@ export async function describeInvestigation(investigation: Investigation): Promi
     ...summary(investigation, names),
     newsroomId: investigation.newsroomId,
     layoutVersion: investigation.layoutVersion,
+    titleVersion: investigation.titleVersion,
     blocks: blocks.map(b => blockDTO(b, names)),
     claims: attachedClaims(claims, blocks).map(({ claim, quote }) => claimDTO(claim, names, quote)),
   }
@@ -102,13 +103,34 @@ export async function createInvestigation(actor: Actor, title: string): Promise<
   return describeInvestigation(investigation)
 }
 
-export async function updateInvestigation(actor: Actor, investigation: Investigation, patch: { title?: string, archived?: boolean }) {
-  await investigation.update({
-    ...(patch.title !== undefined ? { title: patch.title } : {}),
-    ...(patch.archived !== undefined ? { archivedAt: patch.archived ? new Date() : null } : {}),
-    updatedBy: actor.userId,
+/**
+ * Renames or archives an investigation. A new title names the title version it was typed over; a
+ * stale one answers 409 with the title as it now is, so two people renaming at once never overwrite
+ * each other silently. Both changes go to the audit trail.
+ */
+export async function updateInvestigation(actor: Actor, investigation: Investigation, patch: { title?: string, titleVersion?: number, archived?: boolean }) {
+  const { sequelize, models } = useDb()
+  const updated = await sequelize.transaction(async (transaction) => {
+    const current = await models.Investigation.findByPk(investigation.id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!current) throw fail(404)
+    const renamed = patch.title !== undefined && patch.title !== current.title
+    if (renamed && patch.titleVersion !== current.titleVersion) {
+      throw fail(409, { message: 'Someone else renamed this investigation after you opened it.', current: { title: current.title, titleVersion: current.titleVersion } })
+    }
+    const archiving = patch.archived !== undefined && patch.archived !== Boolean(current.archivedAt)
+    if (!renamed && !archiving) return current
+    const from = current.title
+    await current.update({
+      ...(renamed ? { title: patch.title, titleVersion: current.titleVersion + 1 } : {}),
+      ...(archiving ? { archivedAt: patch.archived ? new Date() : null } : {}),
+      updatedBy: actor.userId,
+    }, { transaction })
+    const event = { newsroomId: current.newsroomId, investigationId: current.id, actorId: actor.userId, subjectType: 'investigation', subjectId: current.id }
+    if (renamed) await recordAudit({ ...event, action: 'investigation.renamed', detail: { from, to: patch.title } }, transaction)
+    if (archiving) await recordAudit({ ...event, action: patch.archived ? 'investigation.archived' : 'investigation.restored', detail: {} }, transaction)
+    return current
   })
-  return describeInvestigation(investigation)
+  return describeInvestigation(updated)
 }
 
 /** Marks the investigation as just edited by `actor`. */

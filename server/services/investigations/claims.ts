@@ -14,8 +14,8 @@ export async function findClaim(id: string): Promise<{ claim: Claim, investigati
   return { claim, investigation: await findInvestigation(claim.investigationId) }
 }
 
-async function checkSupport(investigationId: string, ids: string[]) {
-  const analysis = new Set((await liveBlocks(investigationId)).filter(b => b.kind === 'analysis').map(b => b.id))
+async function checkSupport(investigationId: string, ids: string[], transaction?: Transaction) {
+  const analysis = new Set((await liveBlocks(investigationId, transaction)).filter(b => b.kind === 'analysis').map(b => b.id))
   if (ids.some(id => !analysis.has(id))) throw fail(400, [{ path: 'supportingBlockIds', message: 'A claim can cite only analysis blocks of the same investigation.' }])
 }
 
@@ -38,7 +38,10 @@ export async function createClaim(actor: Actor, investigation: Investigation, in
   const quote = claimText(block.content, input.id)
   if (!quote.trim()) throw fail(400, [{ path: 'id', message: 'Save the marked passage first: the text block holds no passage with this claim mark.' }])
   await checkSupport(investigation.id, input.supportingBlockIds)
-  if (await models.Claim.count({ where: { id: input.id } })) throw fail(409, { message: 'This claim exists already.' })
+  const taken = await models.Claim.findByPk(input.id, { attributes: ['id', 'investigationId'] })
+  // Another investigation's claim (perhaps another newsroom's) is not named: its id is simply not free.
+  if (taken?.investigationId === investigation.id) throw fail(409, { message: 'This claim exists already.' })
+  if (taken) throw fail(400, [{ path: 'id', message: 'Give the claim a fresh random id.' }])
   const claim = await sequelize.transaction(async (transaction) => {
     const created = await models.Claim.create({ id: input.id, investigationId: investigation.id, blockId: block.id, quote, supportingBlockIds: input.supportingBlockIds, createdBy: actor.userId }, { transaction })
     await audit(actor, created, 'claim.marked', { supportingBlockIds: input.supportingBlockIds }, transaction)
@@ -53,46 +56,85 @@ async function assertPassage(claim: Claim) {
   if (!block || !attachedClaims([claim], [block]).length) throw fail(409, { message: 'The marked passage is no longer in the text.' })
 }
 
-export async function updateClaimSupport(actor: Actor, claim: Claim, supportingBlockIds: string[]) {
-  if (claim.status === 'verified') throw fail(423, { message: 'This claim is verified and locked; its sources cannot change until a data editor lifts the lock.' })
-  await assertPassage(claim)
-  await checkSupport(claim.investigationId, supportingBlockIds)
-  await claim.update({ supportingBlockIds })
-  return describeClaim(claim)
+/**
+ * Locks a claim for a decision or a change of its sources, in the one order every writer uses:
+ * the investigation's row, then the claim's, then (the caller's part) the blocks'. Answers the
+ * claim as it now is, so a decision never acts on sources read before another request changed them.
+ */
+async function lockClaimForChange(claim: Claim, transaction: Transaction): Promise<Claim> {
+  const { models } = useDb()
+  await models.Investigation.findByPk(claim.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
+  const current = await models.Claim.findByPk(claim.id, { transaction, lock: transaction.LOCK.UPDATE })
+  if (!current) throw fail(404)
+  return current
 }
 
-/** A fact-checker verifies a claim: its text and the analysis blocks it cites are locked. */
-export async function verifyClaim(actor: Actor, claim: Claim) {
-  const { sequelize, models } = useDb()
-  if (claim.status === 'verified') return describeClaim(claim)
-  await sequelize.transaction(async (transaction) => {
-    const block = await models.Block.findByPk(claim.blockId, { transaction, lock: transaction.LOCK.UPDATE })
-    const quote = claimText(block?.content, claim.id)
-    if (!block || block.deletedAt || !quote.trim()) throw fail(409, { message: 'The marked passage is no longer in the text; it cannot be verified.' })
-    await assertFourEyes(actor, [claim.createdBy, block.createdBy, block.updatedBy], 'claim', transaction)
-    const now = new Date()
-    await claim.update({ status: 'verified', quote, note: null, decidedBy: actor.userId, decidedAt: now }, { transaction })
-    await models.Block.update({ lockedBy: actor.userId, lockedAt: now }, {
-      where: { id: { [Op.in]: claim.supportingBlockIds }, lockedAt: null }, transaction,
-    })
-    await audit(actor, claim, 'claim.verified', { lockedBlockIds: claim.supportingBlockIds }, transaction)
+export async function updateClaimSupport(actor: Actor, claim: Claim, supportingBlockIds: string[]) {
+  await assertPassage(claim)
+  const updated = await useDb().sequelize.transaction(async (transaction) => {
+    const current = await lockClaimForChange(claim, transaction)
+    if (current.status === 'verified') throw fail(423, { message: 'This claim is verified and locked; its sources cannot change until a data editor lifts the lock.' })
+    await checkSupport(current.investigationId, supportingBlockIds, transaction)
+    const before = current.supportingBlockIds
+    await current.update({ supportingBlockIds }, { transaction })
+    await audit(actor, current, 'claim.sources-changed', { from: before, to: supportingBlockIds }, transaction)
+    return current
   })
-  return describeClaim(claim)
+  return describeClaim(updated)
+}
+
+/** What the fact-checker says they read: the text block's version, or the passage itself. */
+export interface ReadVersion { version?: number, quote?: string }
+
+/**
+ * A fact-checker verifies a claim: its text and the analysis blocks it cites are locked. They name
+ * what they read; a passage changed since answers 409 with the passage as it now is.
+ */
+export async function verifyClaim(actor: Actor, claim: Claim, read: ReadVersion) {
+  const { sequelize, models } = useDb()
+  const verified = await sequelize.transaction(async (transaction) => {
+    const current = await lockClaimForChange(claim, transaction)
+    if (current.status === 'verified') return current
+    const block = await models.Block.findByPk(current.blockId, { transaction, lock: transaction.LOCK.UPDATE })
+    const quote = claimText(block?.content, current.id)
+    if (!block || block.deletedAt || !quote.trim()) throw fail(409, { message: 'The marked passage is no longer in the text; it cannot be verified.' })
+    await assertFourEyes(actor, [current.createdBy, block.createdBy, block.updatedBy], 'claim', transaction)
+    if ((read.version !== undefined && read.version !== block.version) || (read.quote !== undefined && read.quote !== quote)) {
+      throw fail(409, { message: 'The passage changed after you read it. Read it again before verifying.', current: { quote, version: block.version } })
+    }
+    // The cited blocks are locked in id order, so two verifications citing the same blocks queue rather than deadlock.
+    const cited = await models.Block.findAll({
+      where: { id: { [Op.in]: current.supportingBlockIds } }, order: [['id', 'ASC']], transaction, lock: transaction.LOCK.UPDATE,
+    })
+    if (cited.length !== current.supportingBlockIds.length || cited.some(b => b.deletedAt)) {
+      throw fail(409, { message: 'A block this claim cites was removed. Choose its sources again before verifying.' })
+    }
+    const now = new Date()
+    await current.update({ status: 'verified', quote, note: null, decidedBy: actor.userId, decidedAt: now }, { transaction })
+    await models.Block.update({ lockedBy: actor.userId, lockedAt: now }, {
+      where: { id: { [Op.in]: current.supportingBlockIds }, lockedAt: null }, transaction,
+    })
+    await audit(actor, current, 'claim.verified', { lockedBlockIds: current.supportingBlockIds, blockVersion: block.version }, transaction)
+    return current
+  })
+  return describeClaim(verified)
 }
 
 export async function disputeClaim(actor: Actor, claim: Claim, investigation: Investigation, note: string) {
-  if (claim.status === 'verified') throw fail(423, { message: 'This claim is verified and locked. A data editor must lift the lock before it can be disputed.' })
   await assertPassage(claim)
-  await useDb().sequelize.transaction(async (transaction) => {
-    await claim.update({ status: 'disputed', note, decidedBy: actor.userId, decidedAt: new Date() }, { transaction })
-    await audit(actor, claim, 'claim.disputed', { note }, transaction)
+  const disputed = await useDb().sequelize.transaction(async (transaction) => {
+    const current = await lockClaimForChange(claim, transaction)
+    if (current.status === 'verified') throw fail(423, { message: 'This claim is verified and locked. A data editor must lift the lock before it can be disputed.' })
+    await current.update({ status: 'disputed', note, decidedBy: actor.userId, decidedAt: new Date() }, { transaction })
+    await audit(actor, current, 'claim.disputed', { note }, transaction)
+    return current
   })
   await notifyUsers([claim.createdBy, investigation.createdBy], {
     subject: `Claim disputed: ${investigation.title}`,
     lines: [`${actor.name} disputed a claim in “${investigation.title}”:`, `“${claim.quote}”`, `Their note: ${note}`],
     path: `/investigations/${investigation.id}`,
   }, actor.userId)
-  return describeClaim(claim)
+  return describeClaim(disputed)
 }
 
 /** A data editor lifts a lock with a written reason; blocks no other verified claim cites are unlocked too. */
@@ -100,20 +142,23 @@ export async function unlockClaim(actor: Actor, claim: Claim, investigation: Inv
   if (claim.status !== 'verified') throw fail(409, { message: 'This claim is not locked.' })
   const { sequelize, models } = useDb()
   const verifier = claim.decidedBy
-  await sequelize.transaction(async (transaction) => {
-    await claim.update({ status: 'open', decidedBy: actor.userId, decidedAt: new Date(), note: reason }, { transaction })
+  const lifted = await sequelize.transaction(async (transaction) => {
+    const current = await lockClaimForChange(claim, transaction)
+    if (current.status !== 'verified') throw fail(409, { message: 'This claim is not locked.' })
+    await current.update({ status: 'open', decidedBy: actor.userId, decidedAt: new Date(), note: reason }, { transaction })
     const stillCited = new Set((await models.Claim.findAll({ where: { investigationId: claim.investigationId, status: 'verified' }, transaction }))
       .flatMap(c => c.supportingBlockIds))
-    const release = claim.supportingBlockIds.filter(id => !stillCited.has(id))
+    const release = current.supportingBlockIds.filter(id => !stillCited.has(id))
     if (release.length) await models.Block.update({ lockedBy: null, lockedAt: null }, { where: { id: { [Op.in]: release } }, transaction })
-    await audit(actor, claim, 'lock.lifted', { reason, unlockedBlockIds: release }, transaction)
+    await audit(actor, current, 'lock.lifted', { reason, unlockedBlockIds: release }, transaction)
+    return current
   })
   await notifyUsers([claim.createdBy, investigation.createdBy, verifier], {
     subject: `Lock lifted: ${investigation.title}`,
     lines: [`${actor.name} lifted the lock on a verified claim in “${investigation.title}”:`, `“${claim.quote}”`, `Reason: ${reason}`, 'It needs fact-checking again.'],
     path: `/investigations/${investigation.id}`,
   }, actor.userId)
-  return describeClaim(claim)
+  return describeClaim(lifted)
 }
 
 /** What waits for a fact-checker: open and disputed claims of the newsroom's live investigations. */
