@@ -4,12 +4,14 @@ import type { InferAttributes, InferCreationAttributes, CreationOptional, Sequel
 export class Newsroom extends Model<InferAttributes<Newsroom>, InferCreationAttributes<Newsroom>> {
   declare id: CreationOptional<string>
   declare name: string
+  declare requireTwoFactor: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
 
   static setup(sequelize: Sequelize) {
     Newsroom.init({
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       name: { type: DataTypes.TEXT, allowNull: false },
+      requireTwoFactor: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       createdAt: DataTypes.DATE,
     }, { sequelize, tableName: 'newsrooms', underscored: true, updatedAt: false })
   }

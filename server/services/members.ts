@@ -2,6 +2,7 @@ import type { Transaction } from 'sequelize'
 import type { Role } from '#shared/auth/roles'
 import type { MemberDTO, NewsroomDTO } from '#shared/types/dto'
 import type { Actor } from '../utils/permissions'
+import { endSessionsOf } from './account/sessions'
 
 export async function listMembers(newsroomId: string): Promise<MemberDTO[]> {
   const { Membership, User } = useDb().models
@@ -25,7 +26,29 @@ export async function describeNewsroom(newsroomId: string, role: Role): Promise<
   const newsroom = await Newsroom.findByPk(newsroomId)
   if (!newsroom) throw fail(404)
   const memberCount = await Membership.count({ where: { newsroomId } })
-  return { id: newsroom.id, name: newsroom.name, role, memberCount }
+  return { id: newsroom.id, name: newsroom.name, role, memberCount, requireTwoFactor: newsroom.requireTwoFactor }
+}
+
+/**
+ * The newsroom's settings (an admin's). Requiring two-factor sign-in asks the admin to use it
+ * first, so the one who turns it on is never the one it shuts out.
+ */
+export async function updateNewsroomSettings(actor: Actor, settings: { requireTwoFactor: boolean }) {
+  const { sequelize, models } = useDb()
+  if (settings.requireTwoFactor && !actor.secondFactor) {
+    throw fail(409, { message: 'Turn on two-factor sign-in for your own account and sign in with it first.' })
+  }
+  await sequelize.transaction(async (transaction) => {
+    const newsroom = await models.Newsroom.findByPk(actor.newsroomId, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!newsroom) throw fail(404)
+    if (newsroom.requireTwoFactor === settings.requireTwoFactor) return
+    await newsroom.update({ requireTwoFactor: settings.requireTwoFactor }, { transaction })
+    await recordAudit({
+      newsroomId: actor.newsroomId, actorId: actor.userId, action: 'newsroom.settings-changed',
+      subjectType: 'newsroom', subjectId: actor.newsroomId, detail: { requireTwoFactor: settings.requireTwoFactor },
+    }, transaction)
+  })
+  return settings
 }
 
 /** The membership behind an id, as the newsroom id the permission check needs; 404 when missing. */
@@ -67,9 +90,11 @@ export async function removeMember(actor: Actor, membershipId: string) {
     if (!membership || membership.newsroomId !== actor.newsroomId) throw fail(404)
     if (membership.role === 'admin') await assertAnotherAdmin(actor.newsroomId, membershipId, transaction)
     await membership.destroy({ transaction })
+    // Signed out everywhere, not only here: a removed member's open pages must stop at once.
+    const sessionsEnded = await endSessionsOf(membership.userId as string, 'removed-from-newsroom', { transaction })
     await recordAudit({
       newsroomId: actor.newsroomId, actorId: actor.userId, action: 'member.removed',
-      subjectType: 'user', subjectId: membership.userId as string, detail: { role: membership.role },
+      subjectType: 'user', subjectId: membership.userId as string, detail: { role: membership.role, sessionsEnded },
     }, transaction)
   })
 }

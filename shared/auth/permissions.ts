@@ -9,6 +9,7 @@ type Scope = 'any' | 'own' | false
 
 const TABLE = {
   'newsroom.read': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
+  'newsroom.settings': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },
   'member.invite': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },
   'member.changeRole': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },
   'member.remove': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },
