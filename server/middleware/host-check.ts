@@ -17,7 +17,7 @@ function allowedHosts(event: H3Event): Set<string> {
   if (allowed) return allowed
   const config = useRuntimeConfig(event)
   const names = [config.publicUrl, ...String(config.allowedHosts).split(',')].map(text => text.trim()).filter(Boolean)
-  allowed = new Set(names.map(name => {
+  allowed = new Set(names.map((name) => {
     try {
       return new URL(name.includes('://') ? name : `http://${name}`).host.toLowerCase()
     }

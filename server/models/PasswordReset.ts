@@ -13,6 +13,7 @@ export class PasswordReset extends Model<InferAttributes<PasswordReset>, InferCr
   static setup(sequelize: Sequelize) {
     PasswordReset.init({
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      userId: { type: DataTypes.UUID, allowNull: false },
       tokenHash: { type: DataTypes.TEXT, allowNull: false, unique: true },
       expiresAt: { type: DataTypes.DATE, allowNull: false },
       usedAt: { type: DataTypes.DATE, allowNull: true },

@@ -11,6 +11,7 @@ export class RecoveryCode extends Model<InferAttributes<RecoveryCode>, InferCrea
   static setup(sequelize: Sequelize) {
     RecoveryCode.init({
       id: { type: DataTypes.BIGINT, primaryKey: true, autoIncrement: true },
+      userId: { type: DataTypes.UUID, allowNull: false },
       codeHash: { type: DataTypes.TEXT, allowNull: false },
       usedAt: { type: DataTypes.DATE, allowNull: true },
     }, { sequelize, tableName: 'recovery_codes', underscored: true, timestamps: false })

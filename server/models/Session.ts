@@ -18,6 +18,7 @@ export class Session extends Model<InferAttributes<Session>, InferCreationAttrib
   static setup(sequelize: Sequelize) {
     Session.init({
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+      userId: { type: DataTypes.UUID, allowNull: false },
       tokenHash: { type: DataTypes.TEXT, allowNull: false, unique: true },
       secondFactor: { type: DataTypes.BOOLEAN, allowNull: false },
       ip: { type: DataTypes.TEXT, allowNull: false },

@@ -3,7 +3,7 @@ import type { Role } from '#shared/auth/roles'
 import { ROLE_LABELS } from '#shared/auth/roles'
 import type { InvitationDTO, InvitationPeekDTO, UserDTO } from '#shared/types/dto'
 import type { Actor } from '../utils/permissions'
-import { checkPassword } from './sign-in'
+import { confirmPassword } from './sign-in'
 
 const VALID_DAYS = 7
 
@@ -108,7 +108,7 @@ export async function acceptInvitation(token: string, name: string, password: st
   const { sequelize, models } = useDb()
   const invitation = await findOpenInvitation(token)
   const existing = await models.User.findOne({ where: { email: invitation.email } })
-  if (existing) await checkExistingPassword(existing.email, password, ip)
+  if (existing) await confirmPassword(existing.email, password, ip, 'password', 'You already have an account: enter its password to join.')
   const passwordHash = existing ? existing.passwordHash : await hashPassword(password)
   return sequelize.transaction(async (transaction) => {
     // Claim the invitation first, so two simultaneous clicks cannot both join.
@@ -125,15 +125,4 @@ export async function acceptInvitation(token: string, name: string, password: st
     // An account with two-factor sign-in joins, but signs in through the sign-in page with its code.
     return { user: { id: user.id, name: user.name, email: user.email }, mayOpenSession: !existing?.totpSecret }
   })
-}
-
-/** The password of an account joining another newsroom, under the sign-in throttle. */
-async function checkExistingPassword(email: string, password: string, ip: string) {
-  try {
-    await checkPassword(email, password, ip)
-  }
-  catch (error) {
-    if ((error as { statusCode?: number }).statusCode !== 401) throw error
-    throw fail(400, [{ path: 'password', message: 'You already have an account: enter its password to join.' }])
-  }
 }

@@ -71,6 +71,21 @@ export async function checkPassword(email: string, password: string, ip: string)
 }
 
 /**
+ * A signed-in person (or an account joining a newsroom) proves it is them: the password under the
+ * sign-in throttle, a wrong one a field error on `field` rather than a 401, which would read as
+ * "signed out".
+ */
+export async function confirmPassword(email: string, password: string, ip: string, field: string, message: string) {
+  try {
+    await checkPassword(email, password, ip)
+  }
+  catch (error) {
+    if ((error as { statusCode?: number }).statusCode !== 401) throw error
+    throw fail(400, [{ path: field, message }])
+  }
+}
+
+/**
  * Sign-in: the password, then for an account with two-factor sign-in the code from the
  * authenticator (or a recovery code). Without a code such an account answers 401 with
  * `secondFactor: 'required'`, so a form can ask for it and send both again.

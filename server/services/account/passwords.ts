@@ -1,5 +1,5 @@
 import { Op } from 'sequelize'
-import { checkPassword } from '../sign-in'
+import { confirmPassword } from '../sign-in'
 import { recordAccountEvent } from './audit'
 import { endSessionsOf } from './sessions'
 import type { SignedIn } from './sessions'
@@ -12,13 +12,7 @@ const RESET_MAILS_PER_HOUR = 3
 /** Changes the password of a signed-in person who gives the current one; their other sessions end. */
 export async function changePassword(signedIn: SignedIn, currentPassword: string, newPassword: string, ip: string) {
   const { sequelize, models } = useDb()
-  try {
-    await checkPassword(signedIn.user.email, currentPassword, ip)
-  }
-  catch (error) {
-    if ((error as { statusCode?: number }).statusCode === 401) throw fail(400, [{ path: 'currentPassword', message: 'This is not your current password.' }])
-    throw error
-  }
+  await confirmPassword(signedIn.user.email, currentPassword, ip, 'currentPassword', 'This is not your current password.')
   const passwordHash = await hashPassword(newPassword)
   return sequelize.transaction(async (transaction) => {
     await models.User.update({ passwordHash }, { where: { id: signedIn.user.id }, transaction })

@@ -13,9 +13,9 @@ export interface ThrottleRule {
   quietSeconds: number
 }
 
-export type Admission =
-  | { admitted: true, delayed: ThrottleRule[] }
-  | { admitted: false, retryAt: Date, rule: ThrottleRule }
+export type Admission
+  = | { admitted: true, delayed: ThrottleRule[] }
+    | { admitted: false, retryAt: Date, rule: ThrottleRule }
 
 interface Row { key: string, failures: number, blocked_until: Date | null, quiet: boolean, now: Date }
 
