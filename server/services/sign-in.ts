@@ -1,9 +1,9 @@
 import { Op } from 'sequelize'
 import type { MeDTO, UserDTO } from '#shared/types/dto'
 import { recordAccountEvent } from './account/audit'
-import { admitAttempt, forgive, uncount } from './account/throttle'
+import { admitAttempt, settle } from './account/throttle'
 import type { Admission, ThrottleRule } from './account/throttle'
-import { clearedOnSuccess, passwordRules, secondFactorRule } from './account/sign-in-rules'
+import { passwordRules, secondFactorRule } from './account/sign-in-rules'
 import { checkSecondFactor } from './account/two-factor'
 
 type UserRow = InstanceType<ReturnType<typeof useDb>['models']['User']>
@@ -58,15 +58,18 @@ export async function checkPassword(email: string, password: string, ip: string)
   const rules = passwordRules(ip, email, await isKnownAddress(email, ip))
   const admission = await admitAttempt(rules)
   if (!admission.admitted) throw tooManyAttempts(admission)
-  const user = await User.findOne({ where: { email } })
-  const ok = await verifyPassword(user?.passwordHash ?? await hashForTiming(), password) && !!user
-  await SignInAttempt.create({ email, ip, succeeded: ok })
-  if (!ok) {
-    await recordDelays(user, admission.delayed, ip)
-    throw fail(401, { message: 'E-mail or password does not match.' })
+  let ok = false
+  let user: UserRow | null = null
+  try {
+    user = await User.findOne({ where: { email } })
+    ok = await verifyPassword(user?.passwordHash ?? await hashForTiming(), password) && !!user
   }
-  await forgive(clearedOnSuccess(rules))
-  await uncount(rules.map(r => r.key).filter(key => !clearedOnSuccess(rules).includes(key)))
+  finally {
+    const delayed = await settle(admission, ok)
+    await SignInAttempt.create({ email, ip, succeeded: ok })
+    if (!ok) await recordDelays(user, delayed, ip)
+  }
+  if (!ok) throw fail(401, { message: 'E-mail or password does not match.' })
   return user!
 }
 
@@ -96,11 +99,15 @@ export async function signIn(email: string, password: string, code: string | und
     if (!code) throw fail(401, { secondFactor: 'required', message: 'Enter the 6-digit code from your authenticator app, or one of your recovery codes.' })
     const admission = await admitAttempt([secondFactorRule(user.id)])
     if (!admission.admitted) throw tooManyAttempts(admission)
-    if (!(await checkSecondFactor(user, code))) {
-      await recordDelays(user, admission.delayed, ip)
-      throw fail(401, { secondFactor: 'wrong', message: 'That code is not right (or was already used). Codes change every 30 seconds.' })
+    let right = false
+    try {
+      right = await checkSecondFactor(user, code)
     }
-    await forgive([secondFactorRule(user.id).key])
+    finally {
+      const delayed = await settle(admission, right)
+      if (!right) await recordDelays(user, delayed, ip)
+    }
+    if (!right) throw fail(401, { secondFactor: 'wrong', message: 'That code is not right (or was already used). Codes change every 30 seconds.' })
   }
   return { user: { id: user.id, name: user.name, email: user.email }, secondFactor: !!user.totpSecret }
 }

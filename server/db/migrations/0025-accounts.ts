@@ -4,8 +4,8 @@ import type { Sequelize } from 'sequelize'
 // Accounts that can be ended and recovered (server/services/account/):
 // - sessions: one row per sign-in; the sealed cookie carries a random token whose hash is the key,
 //   so ending the row ends the cookie, wherever it was copied to.
-// - sign_in_throttles: failure counters per key (address and account, address alone, account alone),
-//   counted under a row lock before the password is checked.
+// - sign_in_throttles: failure counters per key (address and account, address alone, account alone);
+//   an attempt is admitted under the row lock, counted as pending, before the password is checked.
 // - password_resets: single-use, expiring links, stored as the token's hash.
 // - two-factor sign-in: the authenticator secret on the user (pending until the first code proves it),
 //   the last time step used (a code works once), hashed recovery codes, and the newsroom's requirement.
@@ -30,7 +30,10 @@ export const up: MigrationFn<Sequelize> = async ({ context: sequelize }) => {
       key text PRIMARY KEY,
       failures integer NOT NULL DEFAULT 0,
       blocked_until timestamptz,
-      last_failure_at timestamptz NOT NULL DEFAULT now()
+      last_failure_at timestamptz NOT NULL DEFAULT now(),
+      -- attempts admitted and not yet settled (a crashed server's count lapses after pending_at + 15 s)
+      pending integer NOT NULL DEFAULT 0,
+      pending_at timestamptz
     );
 
     CREATE TABLE password_resets (
