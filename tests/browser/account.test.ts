@@ -38,7 +38,7 @@ describe('the account page', () => {
     const codes = page.getByRole('list', { name: 'Recovery codes' }).getByRole('listitem')
     await codes.first().waitFor()
     expect(await codes.count()).toBe(10)
-    await expect(page.getByText('10 recovery codes left').isVisible()).resolves.toBe(true)
+    await page.getByText('10 recovery codes left').waitFor()
     await screenshot(page, 'account-two-factor-1366')
     await page.setViewportSize({ width: 390, height: 900 })
     await screenshot(page, 'account-two-factor-390')
