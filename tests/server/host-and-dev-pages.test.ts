@@ -1,5 +1,7 @@
 import { spawn } from 'node:child_process'
 import type { ChildProcess } from 'node:child_process'
+import { createServer } from 'node:net'
+import type { AddressInfo } from 'node:net'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/api'
@@ -10,7 +12,15 @@ import { ClientAt } from '../support/client-at'
 // reachable outside development: a production build without the flag answers 404.
 
 const root = join(import.meta.dirname, '..', '..')
-const port = Number(process.env.MANTISSA_TEST_PORT ?? 3101) + 11
+
+/** A port nothing listens on (the kernel's pick), so checkouts testing side by side never meet. */
+async function freePort(): Promise<number> {
+  const probe = createServer()
+  await new Promise<void>(resolve => probe.listen(0, '127.0.0.1', resolve))
+  const { port } = probe.address() as AddressInfo
+  await new Promise(resolve => probe.close(resolve))
+  return port
+}
 
 describe('the Host header', () => {
   it('refuses a request that names another site as its host (DNS rebinding), with and without a session', async () => {
@@ -33,9 +43,11 @@ describe('the Host header', () => {
 
 describe('the development mail page in a production build without NUXT_MAIL_SINK_ENABLED', () => {
   let server: ChildProcess
-  const base = `http://localhost:${port}`
+  let base = ''
 
   beforeAll(async () => {
+    const port = await freePort()
+    base = `http://localhost:${port}`
     server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], {
       cwd: root,
       stdio: 'ignore',
