@@ -5,6 +5,8 @@ export class Newsroom extends Model<InferAttributes<Newsroom>, InferCreationAttr
   declare id: CreationOptional<string>
   declare name: string
   declare requireTwoFactor: CreationOptional<boolean>
+  /** Four eyes: the approver of a method or verifier of a claim is never its author. */
+  declare fourEyes: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
 
   static setup(sequelize: Sequelize) {
@@ -12,6 +14,7 @@ export class Newsroom extends Model<InferAttributes<Newsroom>, InferCreationAttr
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       name: { type: DataTypes.TEXT, allowNull: false },
       requireTwoFactor: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      fourEyes: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       createdAt: DataTypes.DATE,
     }, { sequelize, tableName: 'newsrooms', underscored: true, updatedAt: false })
   }

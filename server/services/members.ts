@@ -26,29 +26,36 @@ export async function describeNewsroom(newsroomId: string, role: Role): Promise<
   const newsroom = await Newsroom.findByPk(newsroomId)
   if (!newsroom) throw fail(404)
   const memberCount = await Membership.count({ where: { newsroomId } })
-  return { id: newsroom.id, name: newsroom.name, role, memberCount, requireTwoFactor: newsroom.requireTwoFactor }
+  return { id: newsroom.id, name: newsroom.name, role, memberCount, fourEyes: newsroom.fourEyes, requireTwoFactor: newsroom.requireTwoFactor }
 }
 
 /**
- * The newsroom's settings (an admin's). Requiring two-factor sign-in asks the admin to use it
- * first, so the one who turns it on is never the one it shuts out.
+ * An admin changes the newsroom's settings (four eyes, two-factor sign-in for every member); the
+ * audit trail keeps who did and when. Requiring two-factor sign-in asks the admin to use it first,
+ * so the one who turns it on is never the one it shuts out.
  */
-export async function updateNewsroomSettings(actor: Actor, settings: { requireTwoFactor: boolean }) {
+export async function updateNewsroomSettings(actor: Actor, settings: { fourEyes?: boolean, requireTwoFactor?: boolean }): Promise<NewsroomDTO> {
   const { sequelize, models } = useDb()
   if (settings.requireTwoFactor && !actor.secondFactor) {
     throw fail(409, { message: 'Turn on two-factor sign-in for your own account and sign in with it first.' })
   }
   await sequelize.transaction(async (transaction) => {
     const newsroom = await models.Newsroom.findByPk(actor.newsroomId, { transaction, lock: transaction.LOCK.UPDATE })
-    if (!newsroom) throw fail(404)
-    if (newsroom.requireTwoFactor === settings.requireTwoFactor) return
-    await newsroom.update({ requireTwoFactor: settings.requireTwoFactor }, { transaction })
-    await recordAudit({
-      newsroomId: actor.newsroomId, actorId: actor.userId, action: 'newsroom.settings-changed',
-      subjectType: 'newsroom', subjectId: actor.newsroomId, detail: { requireTwoFactor: settings.requireTwoFactor },
+    if (!newsroom) return
+    const audit = (action: string, detail: Record<string, unknown>) => recordAudit({
+      newsroomId: actor.newsroomId, investigationId: null, actorId: actor.userId, action,
+      subjectType: 'newsroom', subjectId: actor.newsroomId, detail,
     }, transaction)
+    if (settings.fourEyes !== undefined && newsroom.fourEyes !== settings.fourEyes) {
+      await newsroom.update({ fourEyes: settings.fourEyes }, { transaction })
+      await audit('newsroom.four-eyes', { fourEyes: settings.fourEyes })
+    }
+    if (settings.requireTwoFactor !== undefined && newsroom.requireTwoFactor !== settings.requireTwoFactor) {
+      await newsroom.update({ requireTwoFactor: settings.requireTwoFactor }, { transaction })
+      await audit('newsroom.two-factor', { requireTwoFactor: settings.requireTwoFactor })
+    }
   })
-  return settings
+  return describeNewsroom(actor.newsroomId, actor.role)
 }
 
 /** The membership behind an id, as the newsroom id the permission check needs; 404 when missing. */

@@ -26,7 +26,6 @@ export const passwordResetRequestSchema = z.object({ email: emailSchema })
 export const passwordResetSchema = z.object({ password: passwordSchema })
 export const passwordConfirmSchema = z.object({ password: currentPasswordSchema })
 export const codeSchema = z.object({ code: secondFactorCodeSchema })
-export const newsroomSettingsSchema = z.object({ requireTwoFactor: z.boolean() })
 
 export const invitationCreateSchema = z.object({
   email: emailSchema,
@@ -38,6 +37,11 @@ export const invitationAcceptSchema = z.object({
   password: passwordSchema,
 })
 
+/** The newsroom settings an admin changes; each is optional, at least one is sent. */
+export const newsroomSettingsSchema = z.object({
+  fourEyes: z.boolean().optional(),
+  requireTwoFactor: z.boolean().optional(),
+}).refine(settings => settings.fourEyes !== undefined || settings.requireTwoFactor !== undefined, 'Name a setting to change')
 export const roleChangeSchema = z.object({ role: roleSchema })
 
 export const idParamsSchema = z.object({ id: z.string().uuid() })

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/api'
 import { PASSWORD } from '../support/newsroom'
 import {
-  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation,
+  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation, freshWorkbook,
   freshInvitation, freshMarkedPassage, freshMember, freshProseBlock, freshRemovedBlock, freshShareLink,
   freshVerifiedClaim, matrixTable, openMatrixDesk, runRow, uploadProbe,
 } from '../support/permission-matrix'
@@ -173,8 +173,8 @@ const ROWS: Row[] = [
   {
     route: 'PATCH /api/newsrooms/[id]',
     expected: allowOnly(ADMINS, 200),
-    why: 'The newsroom\'s settings (requiring two-factor sign-in) are the admin\'s; the value sent is the current one, so the desk stays open for later rows.',
-    send: (client, _t, desk) => client.patch(`/api/newsrooms/${desk.newsroom.id}`, { requireTwoFactor: false }),
+    why: 'The newsroom\'s settings (four eyes, two-factor sign-in for every member) are the admin\'s, like its members; sending the current values changes nothing for the other rows.',
+    send: (client, _t, desk) => client.patch(`/api/newsrooms/${desk.newsroom.id}`, { fourEyes: true, requireTwoFactor: false }),
   },
   {
     route: 'GET /api/newsrooms/[id]/members',
@@ -255,6 +255,13 @@ const ROWS: Row[] = [
     send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/rows?column=amount&key=1`),
   },
   {
+    route: 'POST /api/datasets/[id]/sheets',
+    expected: allowOnly(CREATORS, 201),
+    why: 'Reading another sheet of a stored workbook makes a new dataset, as an upload does.',
+    target: freshWorkbook,
+    send: (client, workbook) => client.post(`/api/datasets/${workbook.id}/sheets`, { sheet: '2024' }),
+  },
+  {
     route: 'POST /api/datasets/[id]/archive',
     expected: allowOnly(WRITERS, 200),
     why: 'DESIGN.md does not name it: a reporter puts away what they uploaded, a data editor anyone\'s (all a reporter does, newsroom-wide); a fact-checker only reads.',
@@ -329,7 +336,7 @@ const ROWS: Row[] = [
   {
     route: 'GET /api/investigations/[id]/publishing',
     expected: allowOnly(MEMBERS, 200),
-    why: 'What still blocks publication and the links made so far (never their tokens): part of reading the investigation.',
+    why: 'What still blocks publication, who did each check and the links made so far: part of reading the investigation. Only members who may publish get the links\' addresses (publishing-integrity.test.ts).',
     send: (client, _t, desk) => client.get(`/api/investigations/${desk.story.id}/publishing`),
   },
   {
@@ -396,6 +403,14 @@ const ROWS: Row[] = [
     fresh: true,
     target: freshClaim,
     send: (client, claim, desk) => client.patch(`/api/claims/${claim.id}`, { supportingBlockIds: [desk.story.analysisBlockId] }),
+  },
+  {
+    route: 'DELETE /api/claims/[id]',
+    expected: allowOnly(WRITERS, 200),
+    why: 'Unmarking an open claim undoes marking it, so it goes with marking; a disputed claim needs a data editor and a reason (claims-lifecycle.test.ts).',
+    fresh: true,
+    target: freshClaim,
+    send: (client, claim) => client.delete(`/api/claims/${claim.id}`),
   },
   {
     route: 'POST /api/claims/[id]/verify',

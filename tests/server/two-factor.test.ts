@@ -119,7 +119,7 @@ describe('two-factor sign-in', () => {
 
     const actions = (await sql(`SELECT action FROM audit_events WHERE newsroom_id = $1`, [id])).rows.map(r => r.action)
     expect(actions.filter(a => a === 'account.two-factor-enabled')).toHaveLength(2)
-    expect(actions).toContain('newsroom.settings-changed')
+    expect(actions).toContain('newsroom.two-factor')
   })
 
   it('turns off with the password, and then the password alone signs in', async () => {

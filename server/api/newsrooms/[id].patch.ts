@@ -4,6 +4,6 @@ import { updateNewsroomSettings } from '../../services/members'
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)
   const settings = await readInput(event, newsroomSettingsSchema)
-  const actor = await requirePermission(event, 'newsroom.settings', { newsroomId: id })
+  const actor = await requirePermission(event, 'newsroom.configure', { newsroomId: id })
   return updateNewsroomSettings(actor, settings)
 })
