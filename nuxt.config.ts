@@ -22,6 +22,8 @@ export default defineNuxtConfig({
     mailFrom: 'Mantissa <desk@mantissa.invalid>',
     mailSink: { enabled: false, port: 2525 },
     publicUrl: 'http://localhost:3000',
+    // More host names the app answers to besides publicUrl's and loopback (a proxy that rewrites Host), comma-separated.
+    allowedHosts: '',
     // Public link tokens are HMAC(secret, link id); unset, the session password serves (README).
     shareLinkSecret: '',
     demoSeed: false,

@@ -1,6 +1,6 @@
 import { loadMe } from '../services/sign-in'
 
 export default defineEventHandler(async (event) => {
-  const user = await requireSignedIn(event)
-  return loadMe(user.id)
+  const { user, session } = await requireSession(event)
+  return loadMe(user.id, session.secondFactor)
 })

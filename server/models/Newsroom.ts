@@ -4,6 +4,7 @@ import type { InferAttributes, InferCreationAttributes, CreationOptional, Sequel
 export class Newsroom extends Model<InferAttributes<Newsroom>, InferCreationAttributes<Newsroom>> {
   declare id: CreationOptional<string>
   declare name: string
+  declare requireTwoFactor: CreationOptional<boolean>
   /** Four eyes: the approver of a method or verifier of a claim is never its author. */
   declare fourEyes: CreationOptional<boolean>
   declare createdAt: CreationOptional<Date>
@@ -12,6 +13,7 @@ export class Newsroom extends Model<InferAttributes<Newsroom>, InferCreationAttr
     Newsroom.init({
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       name: { type: DataTypes.TEXT, allowNull: false },
+      requireTwoFactor: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       fourEyes: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       createdAt: DataTypes.DATE,
     }, { sequelize, tableName: 'newsrooms', underscored: true, updatedAt: false })

@@ -7,6 +7,9 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare name: string
   declare passwordHash: string
   declare notifyByEmail: CreationOptional<boolean>
+  declare totpSecret: CreationOptional<string | null>
+  declare totpPendingSecret: CreationOptional<string | null>
+  declare totpLastStep: CreationOptional<string | null>
   declare createdAt: CreationOptional<Date>
 
   static setup(sequelize: Sequelize) {
@@ -16,6 +19,10 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
       name: { type: DataTypes.TEXT, allowNull: false },
       passwordHash: { type: DataTypes.TEXT, allowNull: false },
       notifyByEmail: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+      totpSecret: { type: DataTypes.TEXT, allowNull: true },
+      totpPendingSecret: { type: DataTypes.TEXT, allowNull: true },
+      // BIGINT comes back as a string from pg.
+      totpLastStep: { type: DataTypes.BIGINT, allowNull: true },
       createdAt: DataTypes.DATE,
     }, { sequelize, tableName: 'users', underscored: true, updatedAt: false })
   }

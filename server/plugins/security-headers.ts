@@ -16,6 +16,11 @@ export default defineNitroPlugin((nitroApp) => {
     setResponseHeaders(event, securityHeaders(event.context.cspNonce, { dev: import.meta.dev, https }))
   })
 
+  // Nuxt's renderer names itself in x-powered-by; the stack is nobody's business but ours.
+  nitroApp.hooks.hook('render:response', (response) => {
+    if (response.headers) delete response.headers['x-powered-by']
+  })
+
   // Nuxt writes its scripts (entry module, payload, config) into the head and after the app;
   // the rendered app itself (`html.body`, where written text lands) is left alone on purpose.
   nitroApp.hooks.hook('render:html', (html: NuxtRenderHTMLContext, { event }) => {

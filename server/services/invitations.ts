@@ -1,15 +1,11 @@
-import { createHash, randomBytes } from 'node:crypto'
 import { Op } from 'sequelize'
 import type { Role } from '#shared/auth/roles'
 import { ROLE_LABELS } from '#shared/auth/roles'
 import type { InvitationDTO, InvitationPeekDTO, UserDTO } from '#shared/types/dto'
 import type { Actor } from '../utils/permissions'
+import { confirmPassword } from './sign-in'
 
 const VALID_DAYS = 7
-
-function hashToken(token: string) {
-  return createHash('sha256').update(token).digest('hex')
-}
 
 /** Creates an invitation and e-mails its link; only the token's hash is stored. */
 export async function createInvitation(actor: Actor, email: string, role: Role): Promise<InvitationDTO> {
@@ -20,10 +16,12 @@ export async function createInvitation(actor: Actor, email: string, role: Role):
   })
   if (existing) throw fail(409, [{ path: 'email', message: 'This person is already a member.' }])
 
-  const token = randomBytes(32).toString('base64url')
+  const token = createToken()
   const expiresAt = new Date(Date.now() + VALID_DAYS * 24 * 3600 * 1000)
   const invitation = await sequelize.transaction(async (transaction) => {
-    // A newer invitation replaces any pending one for the same address.
+    // A newer invitation replaces any pending one for the same address; two sent at the same moment
+    // queue on this lock, so exactly one stays pending (the index invitations_one_pending holds it).
+    await sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:key))', { replacements: { key: `invitation:${actor.newsroomId}:${email}` }, transaction })
     await models.Invitation.update({ revokedAt: new Date() }, {
       where: { newsroomId: actor.newsroomId, email, acceptedAt: null, revokedAt: null }, transaction,
     })
@@ -112,13 +110,11 @@ export async function peekInvitation(token: string): Promise<InvitationPeekDTO> 
  * Accepts an invitation: a new person chooses a name and password; someone who already has
  * an account must give that account's password, so a leaked link cannot take it over.
  */
-export async function acceptInvitation(token: string, name: string, password: string): Promise<UserDTO> {
+export async function acceptInvitation(token: string, name: string, password: string, ip: string): Promise<{ user: UserDTO, mayOpenSession: boolean }> {
   const { sequelize, models } = useDb()
   const invitation = await findOpenInvitation(token)
   const existing = await models.User.findOne({ where: { email: invitation.email } })
-  if (existing && !(await verifyPassword(existing.passwordHash, password))) {
-    throw fail(400, [{ path: 'password', message: 'You already have an account: enter its password to join.' }])
-  }
+  if (existing) await confirmPassword(existing.email, password, ip, 'password', 'You already have an account: enter its password to join.')
   const passwordHash = existing ? existing.passwordHash : await hashPassword(password)
   return sequelize.transaction(async (transaction) => {
     // Claim the invitation first, so two simultaneous clicks cannot both join.
@@ -132,6 +128,7 @@ export async function acceptInvitation(token: string, name: string, password: st
       newsroomId: invitation.newsroomId as string, actorId: user.id, action: 'member.joined',
       subjectType: 'user', subjectId: user.id, detail: { role: invitation.role, invitationId: invitation.id },
     }, transaction)
-    return { id: user.id, name: user.name, email: user.email }
+    // An account with two-factor sign-in joins, but signs in through the sign-in page with its code.
+    return { user: { id: user.id, name: user.name, email: user.email }, mayOpenSession: !existing?.totpSecret }
   })
 }

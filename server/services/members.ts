@@ -4,6 +4,7 @@ import type { Action } from '#shared/auth/permissions'
 import type { Role } from '#shared/auth/roles'
 import type { MemberDTO, NewsroomDTO } from '#shared/types/dto'
 import type { Actor } from '../utils/permissions'
+import { endSessionsOf } from './account/sessions'
 
 export async function listMembers(newsroomId: string): Promise<MemberDTO[]> {
   const { Membership, User } = useDb().models
@@ -27,20 +28,34 @@ export async function describeNewsroom(newsroomId: string, role: Role): Promise<
   const newsroom = await Newsroom.findByPk(newsroomId)
   if (!newsroom) throw fail(404)
   const memberCount = await Membership.count({ where: { newsroomId } })
-  return { id: newsroom.id, name: newsroom.name, role, memberCount, fourEyes: newsroom.fourEyes }
+  return { id: newsroom.id, name: newsroom.name, role, memberCount, fourEyes: newsroom.fourEyes, requireTwoFactor: newsroom.requireTwoFactor }
 }
 
-/** An admin turns the four-eyes rule on or off; the audit trail keeps who did and when. */
-export async function updateNewsroomSettings(actor: Actor, settings: { fourEyes: boolean }): Promise<NewsroomDTO> {
+/**
+ * An admin changes the newsroom's settings (four eyes, two-factor sign-in for every member); the
+ * audit trail keeps who did and when. Requiring two-factor sign-in asks the admin to use it first,
+ * so the one who turns it on is never the one it shuts out.
+ */
+export async function updateNewsroomSettings(actor: Actor, settings: { fourEyes?: boolean, requireTwoFactor?: boolean }): Promise<NewsroomDTO> {
   const { sequelize, models } = useDb()
+  if (settings.requireTwoFactor && !actor.secondFactor) {
+    throw fail(409, { message: 'Turn on two-factor sign-in for your own account and sign in with it first.' })
+  }
   await sequelize.transaction(async (transaction) => {
     const newsroom = await models.Newsroom.findByPk(actor.newsroomId, { transaction, lock: transaction.LOCK.UPDATE })
-    if (!newsroom || newsroom.fourEyes === settings.fourEyes) return
-    await newsroom.update({ fourEyes: settings.fourEyes }, { transaction })
-    await recordAudit({
-      newsroomId: actor.newsroomId, investigationId: null, actorId: actor.userId, action: 'newsroom.four-eyes',
-      subjectType: 'newsroom', subjectId: actor.newsroomId, detail: { fourEyes: settings.fourEyes },
+    if (!newsroom) return
+    const audit = (action: string, detail: Record<string, unknown>) => recordAudit({
+      newsroomId: actor.newsroomId, investigationId: null, actorId: actor.userId, action,
+      subjectType: 'newsroom', subjectId: actor.newsroomId, detail,
     }, transaction)
+    if (settings.fourEyes !== undefined && newsroom.fourEyes !== settings.fourEyes) {
+      await newsroom.update({ fourEyes: settings.fourEyes }, { transaction })
+      await audit('newsroom.four-eyes', { fourEyes: settings.fourEyes })
+    }
+    if (settings.requireTwoFactor !== undefined && newsroom.requireTwoFactor !== settings.requireTwoFactor) {
+      await newsroom.update({ requireTwoFactor: settings.requireTwoFactor }, { transaction })
+      await audit('newsroom.two-factor', { requireTwoFactor: settings.requireTwoFactor })
+    }
   })
   return describeNewsroom(actor.newsroomId, actor.role)
 }
@@ -100,9 +115,11 @@ export async function removeMember(actor: Actor, membershipId: string) {
     const membership = await lockMembership(actor, 'member.remove', membershipId, transaction)
     if (membership.role === 'admin') await assertAnotherAdmin(actor.newsroomId, membershipId, transaction)
     await membership.destroy({ transaction })
+    // Signed out everywhere, not only here: a removed member's open pages must stop at once.
+    const sessionsEnded = await endSessionsOf(membership.userId as string, 'removed-from-newsroom', { transaction })
     await recordAudit({
       newsroomId: actor.newsroomId, actorId: actor.userId, action: 'member.removed',
-      subjectType: 'user', subjectId: membership.userId as string, detail: { role: membership.role },
+      subjectType: 'user', subjectId: membership.userId as string, detail: { role: membership.role, sessionsEnded },
     }, transaction)
   })
 }

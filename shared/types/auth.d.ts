@@ -4,6 +4,10 @@ declare module '#auth-utils' {
     name: string
     email: string
   }
+  // Never sent to the browser: the key of the session's row in the `sessions` table.
+  interface SecureSessionData {
+    token: string
+  }
 }
 
 export {}

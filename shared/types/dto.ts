@@ -10,12 +10,27 @@ export interface MembershipDTO {
   newsroomId: string
   newsroomName: string
   role: Role
+  /** The newsroom asks its members to sign in with an authenticator code. */
+  requireTwoFactor: boolean
 }
 
 export interface MeDTO {
   user: UserDTO
   memberships: MembershipDTO[]
   notifyByEmail: boolean
+  /** Two-factor sign-in: on for the account, used by this session, recovery codes left. */
+  twoFactor: { enabled: boolean, thisSession: boolean, recoveryCodesLeft: number }
+}
+
+/** One open session of the signed-in person (account page). */
+export interface SessionDTO {
+  id: string
+  createdAt: string
+  lastSeenAt: string
+  ip: string
+  userAgent: string
+  secondFactor: boolean
+  current: boolean
 }
 
 export interface MemberDTO {
@@ -51,6 +66,7 @@ export interface NewsroomDTO {
   memberCount: number
   /** Four eyes: whoever approves a method or verifies a claim is never its author. */
   fourEyes: boolean
+  requireTwoFactor: boolean
 }
 
 export interface MailMessageDTO {
@@ -60,4 +76,11 @@ export interface MailMessageDTO {
   subject: string
   text: string
   receivedAt: string
+}
+
+/** A pending authenticator: the secret to type in, the otpauth URI, and its QR code as rows of dark (true) modules. */
+export interface TwoFactorSetupDTO {
+  secret: string
+  uri: string
+  qr: boolean[][]
 }

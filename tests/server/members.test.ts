@@ -25,6 +25,22 @@ describe('invitations', () => {
     expect(again.status).toBe(404)
   })
 
+  it('a new invitation to the same address replaces the old one, also when both are sent at once (issue 18)', async () => {
+    const newsroom = await createTestNewsroom()
+    const email = `twice-${Date.now()}@test.example`
+    const path = `/api/newsrooms/${newsroom.id}/invitations`
+    const first = await newsroom.admin.post(path, { email, role: 'reporter' })
+    expect(first.status).toBe(201)
+    const oldToken = linkIn((await waitForMail(email, 'invites you')).text, '/join/').split('/join/')[1]!
+    const both = await Promise.all([newsroom.admin.post(path, { email, role: 'fact-checker' }), newsroom.admin.post(path, { email, role: 'fact-checker' })])
+    expect(both.map(r => r.status)).toEqual([201, 201])
+    expect((await new Client().get(`/api/join/${oldToken}`)).status).toBe(404)
+    const pending = (await newsroom.admin.get(path)).body.filter((i: { email: string }) => i.email === email)
+    expect(pending).toHaveLength(1)
+    const open = await sql(`SELECT count(*)::int AS n FROM invitations WHERE email = $1 AND accepted_at IS NULL AND revoked_at IS NULL`, [email])
+    expect(open.rows[0].n).toBe(1)
+  })
+
   it('refuses an expired link', async () => {
     const newsroom = await createTestNewsroom()
     const email = `late-${Date.now()}@test.example`
@@ -63,13 +79,16 @@ describe('roles and removal', () => {
     expect((await newsroom.admin.delete(`/api/memberships/${admin.membershipId}`)).status).toBe(409)
   })
 
-  it('removes a member, who then gets 404 for the newsroom', async () => {
+  it('removes a member, who is signed out and, signed in again, gets 404 for the newsroom', async () => {
     const newsroom = await createTestNewsroom()
     const members = (await newsroom.admin.get(`/api/newsrooms/${newsroom.id}/members`)).body
     const checker = members.find((m: { email: string }) => m.email === newsroom.emails['fact-checker'])
     expect((await newsroom['fact-checker'].get(`/api/newsrooms/${newsroom.id}`)).status).toBe(200)
     expect((await newsroom.admin.delete(`/api/memberships/${checker.membershipId}`)).status).toBe(200)
-    expect((await newsroom['fact-checker'].get(`/api/newsrooms/${newsroom.id}`)).status).toBe(404)
+    // Issue 22: a removed member's sessions end at once (401), not only their access here.
+    expect((await newsroom['fact-checker'].get(`/api/newsrooms/${newsroom.id}`)).status).toBe(401)
+    const again = await signedIn(newsroom.emails['fact-checker'], PASSWORD)
+    expect((await again.get(`/api/newsrooms/${newsroom.id}`)).status).toBe(404)
   })
 })
 

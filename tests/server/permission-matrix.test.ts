@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Client } from '../support/api'
 import { PASSWORD } from '../support/newsroom'
 import {
   allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation, freshWorkbook,
@@ -39,8 +40,75 @@ const ROWS: Row[] = [
     route: 'POST /api/auth/logout',
     expected: everyone(200),
     why: 'Ending a session is harmless without one, so a script may always call it.',
-    ownSession: true,
+    endsSessions: true,
     send: client => client.post('/api/auth/logout'),
+  },
+  {
+    route: 'POST /api/auth/logout-everywhere',
+    expected: anyAccount(200),
+    why: 'Each account ends its own sessions, wherever they are; without a session there is nothing to name.',
+    endsSessions: true,
+    send: client => client.post('/api/auth/logout-everywhere'),
+  },
+  {
+    route: 'POST /api/auth/password-reset',
+    expected: everyone(202),
+    why: 'Asked by someone who cannot sign in; the same answer for every address, with or without an account.',
+    send: () => new Client().post('/api/auth/password-reset', { email: `matrix-nobody-${randomUUID().slice(0, 8)}@test.example` }),
+  },
+  {
+    route: 'GET /api/auth/password-reset/[token]',
+    expected: everyone(404),
+    why: 'The mailed link is the key, whoever holds a session: a token nobody was sent is missing for everyone (a real link: password-reset.test.ts).',
+    send: client => client.get(`/api/auth/password-reset/${randomUUID()}${randomUUID()}`),
+  },
+  {
+    route: 'POST /api/auth/password-reset/[token]',
+    expected: everyone(404),
+    why: 'As reading it: the link decides, not a session (a real link: password-reset.test.ts).',
+    send: client => client.post(`/api/auth/password-reset/${randomUUID()}${randomUUID()}`, { password: 'a-long-enough-password' }),
+  },
+  {
+    route: 'POST /api/me/password',
+    expected: anyAccount(200),
+    why: 'Each account changes its own password with the current one (here set to what it was: the caller\'s other sessions end, this one stays).',
+    send: client => client.post('/api/me/password', { currentPassword: PASSWORD, newPassword: PASSWORD }),
+  },
+  {
+    route: 'GET /api/me/sessions',
+    expected: anyAccount(200),
+    why: 'Each account lists its own sessions.',
+    send: client => client.get('/api/me/sessions'),
+  },
+  {
+    route: 'DELETE /api/me/sessions/[id]',
+    expected: anyAccount(404),
+    why: 'Only one\'s own sessions can be ended; an id that is not the caller\'s answers 404 like a missing one (ending one\'s own: sessions.test.ts).',
+    send: client => client.delete(`/api/me/sessions/${randomUUID()}`),
+  },
+  {
+    route: 'POST /api/me/two-factor/setup',
+    expected: anyAccount(200),
+    why: 'Each account sets up its own authenticator; the pending secret changes nothing until a code confirms it.',
+    send: client => client.post('/api/me/two-factor/setup'),
+  },
+  {
+    route: 'POST /api/me/two-factor/confirm',
+    expected: anyAccount(400),
+    why: 'Any account may confirm its own authenticator; a code that does not match answers 400, so two-factor stays off for later rows (a right code: two-factor.test.ts).',
+    send: client => client.post('/api/me/two-factor/confirm', { code: '000000' }),
+  },
+  {
+    route: 'POST /api/me/two-factor/disable',
+    expected: anyAccount(200),
+    why: 'Each account turns its own off with its password (off already: nothing changes).',
+    send: client => client.post('/api/me/two-factor/disable', { password: PASSWORD }),
+  },
+  {
+    route: 'POST /api/me/two-factor/recovery-codes',
+    expected: anyAccount(409),
+    why: 'Any account may replace its own codes; with two-factor off there are none, 409 (with it on: two-factor.test.ts).',
+    send: client => client.post('/api/me/two-factor/recovery-codes', { code: '000000' }),
   },
   {
     route: 'GET /api/me',
@@ -105,8 +173,8 @@ const ROWS: Row[] = [
   {
     route: 'PATCH /api/newsrooms/[id]',
     expected: allowOnly(ADMINS, 200),
-    why: 'The newsroom\'s settings (four eyes) are the admin\'s, like its members; sending the current value changes nothing for the other rows.',
-    send: (client, _t, desk) => client.patch(`/api/newsrooms/${desk.newsroom.id}`, { fourEyes: true }),
+    why: 'The newsroom\'s settings (four eyes, two-factor sign-in for every member) are the admin\'s, like its members; sending the current values changes nothing for the other rows.',
+    send: (client, _t, desk) => client.patch(`/api/newsrooms/${desk.newsroom.id}`, { fourEyes: true, requireTwoFactor: false }),
   },
   {
     route: 'GET /api/newsrooms/[id]/members',

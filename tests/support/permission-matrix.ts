@@ -1,10 +1,10 @@
 import { randomUUID } from 'node:crypto'
 import ExcelJS from 'exceljs'
 import { expect } from 'vitest'
-import { Client } from './api'
+import { Client, signedIn } from './api'
 import type { Reply } from './api'
 import { upload } from './datasets'
-import { invite, inviteMember } from './newsroom'
+import { invite, inviteMember, PASSWORD } from './newsroom'
 import { EVERYONE, openDesk, refusalFor } from './roles'
 import type { Desk, Who } from './roles'
 import { expectStatus, postClaim, proseDoc, uploadPayments, writeStory } from './stories'
@@ -47,8 +47,9 @@ export function anyAccount(success: number): Expected {
 }
 
 /** The desk the matrix runs on: roles.ts's desk, a story with a posted claim and a run block, published once, and a visitor of its link. */
-export interface MatrixDesk extends Omit<Desk, 'as'> {
+export interface MatrixDesk extends Omit<Desk, 'as' | 'emails'> {
   as: Record<Actor, Client>
+  emails: Record<Actor, string | null>
   story: Story
   /** The published story's public token, which the visitor holds. */
   publicToken: string
@@ -73,7 +74,7 @@ export async function openMatrixDesk(): Promise<MatrixDesk> {
   expectStatus(await visitor.request('GET', `/p/${publicToken}`, undefined, { accept: 'text/html' }), 200)
   expectStatus(await visitor.get(`/api/public/${publicToken}`), 200)
   const { token: invitationToken } = await invite(newsroom.admin, newsroom.id, uniqueEmail('peek'), 'reporter')
-  return { ...desk, as: { ...as, visitor }, story, publicToken, invitationToken }
+  return { ...desk, as: { ...as, visitor }, emails: { ...desk.emails, visitor: null }, story, publicToken, invitationToken }
 }
 
 /** A client holding the same session, for routes that replace or end it. */
@@ -190,8 +191,10 @@ export interface Row<T = any> {
   why?: string
   fresh?: boolean
   target?: (desk: MatrixDesk) => Promise<T>
-  /** Send from a copy of the actor's session (the route replaces or ends it). */
+  /** Send from a copy of the actor's session (the route replaces it). */
   ownSession?: boolean
+  /** The route ends the actor's sessions: afterwards the actor signs in again, so later rows find them signed in. */
+  endsSessions?: boolean
   send: (client: Client, target: T, desk: MatrixDesk) => Promise<Reply>
 }
 
@@ -210,6 +213,8 @@ export async function runRow<T>(desk: MatrixDesk, row: Row<T>): Promise<Cell[]> 
   return Promise.all(ACTORS.map(async (who, i) => {
     const client = row.ownSession ? sameSession(desk.as[who]) : desk.as[who]
     const reply = await row.send(client, targets[i]!, desk)
+    const email = desk.emails[who]
+    if (row.endsSessions && email) desk.as[who].cookie = (await signedIn(email, PASSWORD)).cookie
     return { who, want: row.expected[who], got: reply.status, body: reply.body }
   }))
 }

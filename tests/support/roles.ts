@@ -15,6 +15,8 @@ export interface Desk {
   newsroom: TestNewsroom
   datasetId: string
   as: Record<Who, Client>
+  /** Each caller's sign-in address (anonymous has none), for routes that end sessions and sign in again. */
+  emails: Record<Who, string | null>
 }
 
 export async function openDesk(): Promise<Desk> {
@@ -34,6 +36,15 @@ export async function openDesk(): Promise<Desk> {
       // An admin elsewhere: the strongest role, still a stranger here.
       'outsider': outside.admin,
       'anonymous': new Client(),
+    },
+    emails: {
+      'admin': newsroom.emails.admin,
+      'data-editor': newsroom.emails['data-editor'],
+      'fact-checker': newsroom.emails['fact-checker'],
+      'owner': newsroom.emails.reporter,
+      'other-reporter': otherEmail,
+      'outsider': outside.emails.admin,
+      'anonymous': null,
     },
   }
 }

@@ -1,4 +1,6 @@
+import { endCurrentSession } from '../../services/account/sessions'
+
 export default defineEventHandler(async (event) => {
-  await clearUserSession(event)
+  await endCurrentSession(event)
   return { ok: true }
 })

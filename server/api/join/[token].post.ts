@@ -1,11 +1,12 @@
 import { invitationAcceptSchema, tokenParamsSchema } from '#shared/schemas/auth'
+import { openSession } from '../../services/account/sessions'
 import { acceptInvitation } from '../../services/invitations'
 
 export default defineEventHandler(async (event) => {
   const { token } = readParams(event, tokenParamsSchema)
   const { name, password } = await readInput(event, invitationAcceptSchema)
-  const user = await acceptInvitation(token, name, password)
-  await replaceUserSession(event, { user })
+  const { user, mayOpenSession } = await acceptInvitation(token, name, password, getRequestIP(event) ?? 'unknown')
+  if (mayOpenSession) await openSession(event, user, false)
   setResponseStatus(event, 201)
-  return { user }
+  return { user, signedIn: mayOpenSession }
 })

@@ -46,7 +46,7 @@ interface DemoPeople { newsroomId: string, reporterId: string, editorId: string,
 
 function actorOf(people: DemoPeople, userId: string, role: Actor['role']): Actor {
   const person = DEMO_PEOPLE.find(p => p.role === role)!
-  return { userId, name: person.name, email: person.email, newsroomId: people.newsroomId, role }
+  return { userId, name: person.name, email: person.email, newsroomId: people.newsroomId, role, secondFactor: false }
 }
 
 /** The draft with its blocks run, a claim in each state, reviews in each state, a published version, and work since, back in review. */

@@ -1,0 +1,7 @@
+import { tokenParamsSchema } from '#shared/schemas/auth'
+import { peekPasswordReset } from '../../../services/account/passwords'
+
+export default defineEventHandler(async (event) => {
+  const { token } = readParams(event, tokenParamsSchema)
+  return peekPasswordReset(token)
+})

@@ -1,0 +1,11 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { recordAccountEvent } from '../../../services/account/audit'
+import { endOwnSession } from '../../../services/account/sessions'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireSignedIn(event)
+  const { id } = readParams(event, idParamsSchema)
+  await endOwnSession(user.id, id)
+  await recordAccountEvent(user.id, 'account.session-ended', { sessionId: id })
+  return { ok: true }
+})

@@ -1,0 +1,8 @@
+import { codeSchema } from '#shared/schemas/auth'
+import { regenerateRecoveryCodes } from '../../../services/account/two-factor'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireSignedIn(event)
+  const { code } = await readInput(event, codeSchema)
+  return regenerateRecoveryCodes(user.id, code)
+})

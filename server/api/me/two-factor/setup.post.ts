@@ -1,0 +1,6 @@
+import { startTwoFactorSetup } from '../../../services/account/two-factor'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireSignedIn(event)
+  return startTwoFactorSetup(user.id, user.email)
+})
