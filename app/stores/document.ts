@@ -35,6 +35,7 @@ const KEEPALIVE_LIMIT = 60_000
  * that each shows beside the action that caused it; `message` is for what has no place.
  */
 export const useDocumentStore = defineStore('document', () => {
+  const nuxtApp = useNuxtApp()
   const investigation = ref<InvestigationDTO | null>(null)
   const blocks = ref<BlockDTO[]>([])
   const saveState = ref<Record<string, SaveState>>({})
@@ -62,7 +63,8 @@ export const useDocumentStore = defineStore('document', () => {
     conflicts.value = {}
     notices.value = {}
     removed.value = []
-    if (import.meta.client) resumeUnsent(dto)
+    // After hydration: the page first shows what the server drew, then the changes it had not yet received.
+    if (import.meta.client) nuxtApp.runWithContext(() => onNuxtReady(() => resumeUnsent(dto)))
   }
 
   // Changes still travelling as the page went (see sendBeforeLeaving) are also kept in the tab's session,
@@ -113,14 +115,16 @@ export const useDocumentStore = defineStore('document', () => {
   }
 
   /**
-   * Runs a change on the server, then shows the document as the server now has it. A refusal is
-   * kept under `place`; a 409 or 423 means the document moved on, so it is shown as it now is.
+   * Runs a change on the server and shows its answer: `apply` takes what the server answered, and
+   * without it the document is read again (changes that reach other blocks, such as a lock). A
+   * refusal is kept under `place`; a 409 or 423 means the document moved on, so it is read again.
    */
-  async function act(place: string, request: () => Promise<unknown>): Promise<boolean> {
+  async function act<T>(place: string, request: () => Promise<T>, apply?: (answer: T) => void): Promise<boolean> {
     dismiss(place)
     try {
-      await request()
-      await refreshLayout()
+      const answer = await request()
+      if (apply) apply(answer)
+      else await refreshLayout()
       return true
     }
     catch (error) {
@@ -132,21 +136,34 @@ export const useDocumentStore = defineStore('document', () => {
   }
 
   // Typed loosely on purpose: Nitro's route typing over a plain string path is too deep for tsc.
-  const send = $fetch as (url: string, options: { method: 'POST' | 'PATCH' | 'DELETE', body?: object, keepalive?: boolean }) => Promise<unknown>
-  const post = (path: string, body?: object) => () => send(path, { method: 'POST', body })
+  const send = $fetch as <T = unknown>(url: string, options: { method: 'POST' | 'PATCH' | 'DELETE', body?: object, keepalive?: boolean }) => Promise<T>
+  const post = <T>(path: string, body?: object) => () => send<T>(path, { method: 'POST', body })
+
+  function putClaim(claim: ClaimDTO) {
+    const index = claims.value.findIndex(c => c.id === claim.id)
+    if (index >= 0) claims.value[index] = claim
+    else claims.value.push(claim)
+  }
 
   function markClaim(blockId: string, claimId: string) {
-    return act(blockId, post(`/api/investigations/${investigation.value!.id}/claims`, { id: claimId, blockId, supportingBlockIds: [] }))
+    return act(blockId, post<ClaimDTO>(`/api/investigations/${investigation.value!.id}/claims`, { id: claimId, blockId, supportingBlockIds: [] }), putClaim)
   }
   function citeBlocks(claimId: string, supportingBlockIds: string[]) {
-    return act(claimId, () => send(`/api/claims/${claimId}`, { method: 'PATCH', body: { supportingBlockIds } }))
+    return act(claimId, () => send<ClaimDTO>(`/api/claims/${claimId}`, { method: 'PATCH', body: { supportingBlockIds } }), putClaim)
   }
+  // Verifying and lifting a lock also lock or free the analysis blocks the claim rests on: read the document again.
   const verify = (claimId: string) => act(claimId, post(`/api/claims/${claimId}/verify`))
-  const dispute = (claimId: string, note: string) => act(claimId, post(`/api/claims/${claimId}/dispute`, { note }))
+  const dispute = (claimId: string, note: string) => act(claimId, post<ClaimDTO>(`/api/claims/${claimId}/dispute`, { note }), putClaim)
   const unlock = (claimId: string, reason: string) => act(claimId, post(`/api/claims/${claimId}/unlock`, { reason }))
   const review = (blockId: string, decision: 'approved' | 'changes-requested', note?: string) =>
-    act(`review:${blockId}`, post(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }))
-  const requestReview = () => act('review-request', post(`/api/investigations/${investigation.value!.id}/review-request`))
+    act(`review:${blockId}`, post<BlockDTO>(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }), replace)
+  const requestReview = () => act('review-request', post<InvestigationDTO>(`/api/investigations/${investigation.value!.id}/review-request`), applyLayout)
+
+  /** What the publishing checks depend on: changes when a review or claim changes, not on every keystroke. */
+  const checksKey = computed(() => [
+    ...blocks.value.map(b => `${b.id}:${b.review?.status ?? ''}:${b.lock ? 'locked' : ''}`),
+    ...claims.value.map(c => `${c.id}:${c.status}`),
+  ].join('|'))
 
   function replace(block: BlockDTO) {
     const index = blocks.value.findIndex(b => b.id === block.id)
@@ -307,7 +324,11 @@ export const useDocumentStore = defineStore('document', () => {
     if (!investigation.value) return
     const block = await $fetch<BlockDTO>(`/api/investigations/${investigation.value.id}/blocks`, { method: 'POST', body: { kind, afterBlockId } })
     focusRequest.value = block.id
-    await refreshLayout()
+    // As the server did: every later block moves down one place, and the layout has a new version.
+    const index = afterBlockId ? blocks.value.findIndex(b => b.id === afterBlockId) + 1 : 0
+    for (const later of blocks.value.slice(index)) later.position += 1
+    blocks.value.splice(index, 0, block)
+    investigation.value.layoutVersion += 1
     return block
   }
 
@@ -344,7 +365,7 @@ export const useDocumentStore = defineStore('document', () => {
   }
 
   return {
-    investigation, blocks, claims, saveState, conflicts, removed, message, notices, viewer, focusRequest, unsaved,
+    investigation, blocks, claims, saveState, conflicts, removed, message, notices, viewer, focusRequest, unsaved, checksKey,
     load, save, whenSaved, saveAll, sendBeforeLeaving, retry, takeTheirs, keepMine, insert, remove, undoRemove, move, refreshLayout, may, dismiss,
     markClaim, citeBlocks, verify, dispute, unlock, review, requestReview,
   }

@@ -38,8 +38,10 @@ describe('nothing typed is lost', () => {
     await page.reload()
     expect(dialogs).toEqual(['beforeunload'])
     await expect.poll(() => proseOf(story), { timeout: 10_000 }).toContain('Typed just before leaving.')
-    await page.locator('.ProseMirror').first().waitFor()
-    expect(await page.locator('.ProseMirror').first().textContent()).toContain('Typed just before leaving.')
+    // The page may be drawn before the request sent on leaving has landed: then it sends the words again.
+    await expect.poll(() => page.locator('.ProseMirror').first().textContent(), { timeout: 10_000 }).toContain('Typed just before leaving.')
+    await page.getByText('All changes saved').waitFor({ timeout: 10_000 })
+    expect(await proseOf(story)).toContain('Typed just before leaving.')
     await page.context().close()
   })
 
