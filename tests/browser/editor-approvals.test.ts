@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot } from '../support/browser'
-import { openStory, watchSaves } from '../support/editor-page'
+import { launchBrowser, openStory, watchSaves, screenshot } from '../support/browser'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { blockOf, expectStatus, uploadPayments, writeStory } from '../support/stories'

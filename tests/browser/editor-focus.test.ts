@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot } from '../support/browser'
-import { openStory, selectTextOf } from '../support/editor-page'
+import { launchBrowser, openStory, selectTextOf, screenshot } from '../support/browser'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { BEFORE_CLAIM, CLAIM_TEXT, AFTER_CLAIM, blockOf, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'

@@ -1,7 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, screenshot } from '../support/browser'
-import { openStory } from '../support/editor-page'
+import { launchBrowser, openStory, screenshot } from '../support/browser'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { blockOf, uploadPayments, writeStory } from '../support/stories'

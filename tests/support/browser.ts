@@ -3,6 +3,9 @@ import { join } from 'node:path'
 import { chromium } from 'playwright-core'
 import type { Browser, Page } from 'playwright-core'
 import { baseUrl } from './api'
+import { PASSWORD } from './newsroom'
+import type { TestNewsroom } from './newsroom'
+import type { Story } from './stories'
 
 // Flags that keep Debian's Chromium quiet on a closed network (../shared/STACK.md).
 const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
@@ -49,4 +52,37 @@ export async function watchCspViolations(page: Page): Promise<() => Promise<stri
 export async function screenshot(page: Page, name: string) {
   mkdirSync(artifacts, { recursive: true })
   await page.screenshot({ path: join(artifacts, `${name}.png`), fullPage: true })
+}
+
+/** Signs in through the page as `role` of `newsroom` and opens `story` in the editor, ready to type. */
+export async function openStory(browser: Browser, newsroom: TestNewsroom, role: 'reporter' | 'data-editor' | 'fact-checker' | 'admin', story: Story): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width: 1366, height: 1000 } })
+  const page = await context.newPage()
+  await signInThroughPage(page, newsroom.emails[role], PASSWORD)
+  await page.waitForURL(/\/newsrooms\//)
+  await page.goto(`${baseUrl}/investigations/${story.id}`)
+  await waitForApp(page)
+  await page.locator('.ProseMirror').first().waitFor()
+  return page
+}
+
+/** The PATCH requests the page sends to save `blockId`, as they leave the browser. */
+export function watchSaves(page: Page, blockId: string): unknown[] {
+  const bodies: unknown[] = []
+  page.on('request', (request) => {
+    if (request.method() === 'PATCH' && request.url().endsWith(`/api/blocks/${blockId}`)) bodies.push(request.postDataJSON())
+  })
+  return bodies
+}
+
+/** Selects the text of the first element matching `selector` in the page, as a mouse drag over it would. */
+export async function selectTextOf(page: Page, selector: string) {
+  await page.evaluate((css) => {
+    const element = document.querySelector(css)!
+    const range = document.createRange()
+    range.selectNodeContents(element)
+    const selection = window.getSelection()!
+    selection.removeAllRanges()
+    selection.addRange(range)
+  }, selector)
 }
