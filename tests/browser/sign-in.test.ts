@@ -40,17 +40,21 @@ describe('signing in through the page', () => {
     for (let attempt = 0; attempt < 3; attempt++) {
       const context = await browser.newContext()
       const page = await context.newPage()
-      // A slow connection: the page is drawn, its scripts arrive a second later.
+      // A slow connection: the page is drawn, its scripts arrive only once the person has typed.
+      let release!: () => void
+      const typed = new Promise<void>(resolve => (release = resolve))
       await page.route('**/_nuxt/**/*.js', async (route) => {
-        await new Promise(r => setTimeout(r, 1000))
+        await typed
         await route.continue()
       })
-      await page.goto(`${baseUrl}/login`, { waitUntil: 'domcontentloaded' })
+      // Module scripts hold DOMContentLoaded back: wait only for the drawn form.
+      await page.goto(`${baseUrl}/login`, { waitUntil: 'commit' })
       await page.getByLabel('E-mail').click()
       await page.keyboard.type(person.email)
       await page.getByLabel('Password').click()
       await page.keyboard.type(demo.password)
       expect(await page.evaluate(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))).toBe(false)
+      release()
       await waitForApp(page)
       await page.waitForTimeout(200)
       expect(await page.getByLabel('E-mail').inputValue()).toBe(person.email)
