@@ -106,8 +106,13 @@ export const useDocumentStore = defineStore('document', () => {
     return can(viewer.value.role, action, investigation.value.createdById === viewer.value.userId)
   }
 
+  /** The latest refusal, for a component that shows it beside its own button (useRefusal). */
+  const lastRefusal = ref<{ place: string, text: string } | null>(null)
+
   function notify(place: string, error: unknown) {
-    notices.value = { ...notices.value, [place]: describeApiError(error).message }
+    const text = describeApiError(error).message
+    notices.value = { ...notices.value, [place]: text }
+    lastRefusal.value = { place, text }
   }
 
   function dismiss(place: string) {
@@ -155,8 +160,14 @@ export const useDocumentStore = defineStore('document', () => {
   const verify = (claimId: string) => act(claimId, post(`/api/claims/${claimId}/verify`))
   const dispute = (claimId: string, note: string) => act(claimId, post<ClaimDTO>(`/api/claims/${claimId}/dispute`, { note }), putClaim)
   const unlock = (claimId: string, reason: string) => act(claimId, post(`/api/claims/${claimId}/unlock`, { reason }))
-  const review = (blockId: string, decision: 'approved' | 'changes-requested', note?: string) =>
+  const review = (blockId: string, decision: 'approved' | 'sent-back', note?: string) =>
     act(`review:${blockId}`, post<BlockDTO>(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }), replace)
+  /** Takes a claim off its passage (the words stay); its block's pending typing is saved first, so the server strips the mark from the latest text. */
+  async function removeClaim(claimId: string, reason?: string) {
+    const claim = claims.value.find(c => c.id === claimId)
+    if (claim) await whenSaved(claim.blockId)
+    return act(claimId, () => send(`/api/claims/${claimId}`, { method: 'DELETE', body: { reason } }))
+  }
   const requestReview = () => act('review-request', post<InvestigationDTO>(`/api/investigations/${investigation.value!.id}/review-request`), applyLayout)
 
   /** What the publishing checks depend on: changes when a review or claim changes, not on every keystroke. */
@@ -365,8 +376,8 @@ export const useDocumentStore = defineStore('document', () => {
   }
 
   return {
-    investigation, blocks, claims, saveState, conflicts, removed, message, notices, viewer, focusRequest, unsaved, checksKey,
+    investigation, blocks, claims, saveState, conflicts, removed, message, notices, viewer, focusRequest, unsaved, checksKey, lastRefusal,
     load, save, whenSaved, saveAll, sendBeforeLeaving, retry, takeTheirs, keepMine, insert, remove, undoRemove, move, refreshLayout, may, dismiss,
-    markClaim, citeBlocks, verify, dispute, unlock, review, requestReview,
+    markClaim, citeBlocks, verify, dispute, unlock, removeClaim, review, requestReview,
   }
 })

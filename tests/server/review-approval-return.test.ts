@@ -61,7 +61,7 @@ describe('an approval tied to the settings it approved', () => {
   it('does not return an approval that the data editor has since replaced by sending the method back', async () => {
     const { story } = await approvedStory()
     expectStatus(await saveBlock(newsroom.reporter, story, story.analysisBlockId, { settings: { ...story.settings, test: 'second-digit' } }), 200)
-    expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'changes-requested', note: 'Use the first digit after all?' }), 200)
+    expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back', note: 'Use the first digit after all?' }), 200)
     expect((await reviewOf(story)).lapsed).toBeNull()
     expectStatus(await saveBlock(newsroom.reporter, story, story.analysisBlockId, { settings: story.settings }), 200)
     expect(await reviewOf(story)).toMatchObject({ status: 'unreviewed', lapsed: null })

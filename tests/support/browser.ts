@@ -2,6 +2,7 @@ import { mkdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { chromium } from 'playwright-core'
 import type { Browser, Page } from 'playwright-core'
+import type { Role } from '#shared/auth/roles'
 import { baseUrl } from './api'
 import { PASSWORD } from './newsroom'
 import type { TestNewsroom } from './newsroom'
@@ -54,15 +55,25 @@ export async function screenshot(page: Page, name: string) {
   await page.screenshot({ path: join(artifacts, `${name}.png`), fullPage: true })
 }
 
-/** Signs in through the page as `role` of `newsroom` and opens `story` in the editor, ready to type. */
-export async function openStory(browser: Browser, newsroom: TestNewsroom, role: 'reporter' | 'data-editor' | 'fact-checker' | 'admin', story: Story): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1366, height: 1000 } })
+/**
+ * Signs in through the page as the test newsroom's member with `role` and opens the investigation
+ * `id`, in a fresh context of its own (with the clipboard allowed, for copy buttons).
+ */
+export async function openInvestigationAs(browser: Browser, newsroom: TestNewsroom, role: Role, id: string, width = 1400): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width, height: 1000 } })
+  await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: baseUrl })
   const page = await context.newPage()
   await signInThroughPage(page, newsroom.emails[role], PASSWORD)
   await page.waitForURL(/\/newsrooms\//)
-  await page.goto(`${baseUrl}/investigations/${story.id}`)
-  await waitForApp(page)
+  await page.goto(`${baseUrl}/investigations/${id}`)
   await page.locator('.ProseMirror').first().waitFor()
+  return page
+}
+
+/** Opens `story` in the editor as `role`, at 1366 px, once the page is interactive and ready to type. */
+export async function openStory(browser: Browser, newsroom: TestNewsroom, role: Role, story: Story): Promise<Page> {
+  const page = await openInvestigationAs(browser, newsroom, role, story.id, 1366)
+  await waitForApp(page)
   return page
 }
 
