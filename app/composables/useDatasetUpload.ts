@@ -3,6 +3,8 @@ export interface UploadFields {
   sourceNote?: string
   sourceUrl?: string
   obtainedOn?: string
+  /** The dataset this upload corrects. */
+  replacesId?: string
 }
 
 export interface UploadOutcome {

@@ -51,6 +51,8 @@ export function digitChartSpec(result: TestResult, options: { width?: number | '
   const labelExpr = axisLabelEvery(data.length)
   const x = {
     field: 'key', type: 'ordinal', sort: null,
+    // The bins' own order: a layer that draws only some bins (the threshold test ranges two) would otherwise put those first.
+    scale: { domain: data.map(d => d.key) },
     title: result.test === 'threshold' ? 'Amount band (from)' : result.test === 'duplicates' ? 'Amount' : TEST_LABELS[result.test],
     axis: { labelAngle: data.length > 12 || result.test === 'duplicates' || result.test === 'threshold' ? -45 : 0, ...(labelExpr ? { labelExpr } : {}) },
   }

@@ -1,5 +1,6 @@
 import jStat from 'jstat'
-import type { Bin } from './types'
+import { binomialAtMost } from './tails'
+import type { Bin, BinsOutside } from './types'
 
 /**
  * Z for one bin with the continuity correction of Fleiss (1981) as digit tests use it (Nigrini 2012):
@@ -14,15 +15,6 @@ export function binZ(count: number, n: number, p: number): number {
   return Math.sign(gap) * corrected / Math.sqrt(p * (1 - p) / n)
 }
 
-/** P(X ≤ k) for X ~ Binomial(n, p), through the regularized incomplete beta function. */
-export function binomialCdf(k: number, n: number, p: number): number {
-  if (k < 0) return 0
-  if (k >= n) return 1
-  if (p <= 0) return 1
-  if (p >= 1) return 0
-  return jStat.ibeta(1 - p, n - k, k + 1)
-}
-
 /**
  * Smallest k with P(X ≤ k) ≥ q. The search starts at the normal approximation's guess and steps
  * from there, so it needs a few evaluations of the CDF instead of the ~log2(n) of a bisection:
@@ -33,11 +25,11 @@ export function binomialQuantile(q: number, n: number, p: number): number {
   if (p >= 1) return n
   const guess = Math.round(n * p + normalQuantile(q) * Math.sqrt(n * p * (1 - p)))
   let k = Math.min(n, Math.max(0, guess))
-  if (binomialCdf(k, n, p) >= q) {
-    while (k > 0 && binomialCdf(k - 1, n, p) >= q) k--
+  if (binomialAtMost(k, n, p) >= q) {
+    while (k > 0 && binomialAtMost(k - 1, n, p) >= q) k--
   }
   else {
-    while (k < n && binomialCdf(k, n, p) < q) k++
+    while (k < n && binomialAtMost(k, n, p) < q) k++
   }
   return k
 }
@@ -75,4 +67,18 @@ export function buildBins(n: number, keys: readonly string[], counts: readonly n
       amount: null,
     }
   })
+}
+
+/**
+ * Bins outside their binomial 95% range, with the number expected by chance: the sum over bins of
+ * P(X < low) + P(X > high) under Binomial(n, p), exactly. Null when the bins carry no ranges.
+ */
+export function binsOutsideOf(bins: readonly Bin[], n: number): BinsOutside | null {
+  const ranged = bins.filter(bin => bin.low !== null && bin.high !== null && bin.expectedShare !== null)
+  if (ranged.length === 0) return null
+  let expected = 0
+  for (const bin of ranged) {
+    expected += binomialAtMost(bin.low! - 1, n, bin.expectedShare!) + 1 - binomialAtMost(bin.high!, n, bin.expectedShare!)
+  }
+  return { count: ranged.filter(bin => bin.count < bin.low! || bin.count > bin.high!).length, expected }
 }

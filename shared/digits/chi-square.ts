@@ -1,7 +1,7 @@
-import jStat from 'jstat'
+import { chiSquareUpper } from './tails'
 import type { ChiSquare } from './types'
 
-/** Pearson's chi-square of counts (n > 0) against expected shares, df = bins − 1, p from jStat. */
+/** Pearson's chi-square of counts (n > 0) against expected shares, df = bins − 1, p from the upper tail itself. */
 export function chiSquare(counts: readonly number[], expectedShares: readonly number[]): ChiSquare {
   const n = counts.reduce((a, b) => a + b, 0)
   let statistic = 0
@@ -10,5 +10,5 @@ export function chiSquare(counts: readonly number[], expectedShares: readonly nu
     statistic += (count - expected) ** 2 / expected
   })
   const df = counts.length - 1
-  return { statistic, df, p: 1 - jStat.chisquare.cdf(statistic, df) }
+  return { statistic, df, p: chiSquareUpper(statistic, df) }
 }

@@ -1,4 +1,4 @@
-import { buildBins } from './bin-statistics'
+import { binsOutsideOf, buildBins } from './bin-statistics'
 import { chiSquare } from './chi-square'
 import { leadingShares, lastTwoShares, secondDigitShares } from './expected-shares'
 import { kolmogorovSmirnov } from './kolmogorov-smirnov'
@@ -14,6 +14,11 @@ export interface DistributionDefinition {
   shares: readonly number[]
   /** Whether the mantissa arc applies (the first-digit family). */
   arc: boolean
+  /**
+   * Whether Kolmogorov–Smirnov applies: it needs bins in a natural order. The endings 00–99 have
+   * none that matters (00 sits next to 99 as much as to 01), so D would change with the order.
+   */
+  ks: boolean
 }
 
 function range(from: number, to: number, width = 1): string[] {
@@ -21,11 +26,11 @@ function range(from: number, to: number, width = 1): string[] {
 }
 
 export const DISTRIBUTIONS: Record<DistributionTest, DistributionDefinition> = {
-  'first-digit': { field: 'firstDigit', keys: range(1, 9), shares: leadingShares(1, 9), arc: true },
-  'second-digit': { field: 'secondDigit', keys: range(0, 9), shares: secondDigitShares(), arc: false },
-  'first-two-digits': { field: 'firstTwo', keys: range(10, 99), shares: leadingShares(10, 99), arc: true },
-  'first-three-digits': { field: 'firstThree', keys: range(100, 999), shares: leadingShares(100, 999), arc: true },
-  'last-two-digits': { field: 'lastTwo', keys: range(0, 99, 2), shares: lastTwoShares(), arc: false },
+  'first-digit': { field: 'firstDigit', keys: range(1, 9), shares: leadingShares(1, 9), arc: true, ks: true },
+  'second-digit': { field: 'secondDigit', keys: range(0, 9), shares: secondDigitShares(), arc: false, ks: true },
+  'first-two-digits': { field: 'firstTwo', keys: range(10, 99), shares: leadingShares(10, 99), arc: true, ks: true },
+  'first-three-digits': { field: 'firstThree', keys: range(100, 999), shares: leadingShares(100, 999), arc: true, ks: true },
+  'last-two-digits': { field: 'lastTwo', keys: range(0, 99, 2), shares: lastTwoShares(), arc: false, ks: false },
 }
 
 /** Bin text for a key as SQL returns it: last two digits keep their leading zero ("05"). */
@@ -55,14 +60,16 @@ export function runDistributionTest(test: DistributionTest, counts: Distribution
   const bins = buildBins(n, definition.keys, binCounts, definition.shares, ranges)
   if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
   const shares = bins.map(bin => bin.share)
+  const chi = chiSquare(binCounts, definition.shares)
   return {
     ...NO_STATISTICS,
     n,
     excluded,
     bins,
-    chiSquare: chiSquare(binCounts, definition.shares),
-    mad: madOf(test, n, shares, definition.shares),
-    ks: kolmogorovSmirnov(shares, definition.shares, n),
+    chiSquare: chi,
+    mad: madOf(test, n, shares, definition.shares, chi.p),
+    ks: definition.ks ? kolmogorovSmirnov(shares, definition.shares, n) : null,
     arc: definition.arc && counts.arc ? mantissaArc(counts.arc, n) : null,
+    binsOutside: binsOutsideOf(bins, n),
   }
 }

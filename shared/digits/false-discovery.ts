@@ -1,7 +1,8 @@
 /**
  * Benjamini–Hochberg q-values (Benjamini & Hochberg 1995, JRSS B 57(1)): the smallest false
  * discovery rate at which each hypothesis would be rejected, so that ranking many groups at once
- * does not turn chance deviations into leads. Returned in input order.
+ * does not turn chance deviations into leads. Returned in input order. A p at P_FLOOR ("below
+ * 1e-300") gives a q that is an upper bound, which errs on the side of caution.
  */
 export function benjaminiHochberg(pValues: readonly number[]): number[] {
   const m = pValues.length

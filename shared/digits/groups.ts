@@ -1,6 +1,8 @@
 import { benjaminiHochberg } from './false-discovery'
+import { DISTRIBUTIONS } from './distribution-tests'
+import { conformityOfReading, GROUP_LEVEL, readingOf } from './mad'
 import type { TestOutcome } from './outcome'
-import type { GroupResult } from './types'
+import type { GroupableTest, GroupResult } from './types'
 
 export interface GroupOutcome {
   key: string
@@ -8,11 +10,18 @@ export interface GroupOutcome {
 }
 
 /**
- * Ranks groups (vendors, departments, years) by excess MAD, then MAD, after leaving out those
- * with fewer than `minSize` values. Each group keeps its chi-square p; q is the Benjamini–Hochberg
- * q-value over the groups ranked, which is what to read when many groups are compared at once.
+ * Ranks groups (vendors, departments, years) after leaving out those with fewer than `minSize`
+ * values. Each group keeps its chi-square p; q is the Benjamini–Hochberg q-value over the groups
+ * ranked, which is what to read when many groups are compared at once, and each group's reading
+ * uses q as its chance test so that the table never contradicts itself.
+ *
+ * The order must not favour small groups: their MAD and excess MAD scatter more by chance alone
+ * (the MAD of a conforming sample shrinks like 1/√n), so ranking by them puts noise on top.
+ * Distribution tests rank by p, which is uniform under the law at every size; summation, which has
+ * no p, ranks by MAD·√n, which a sample whose amounts spread alike keeps at the same level at every
+ * size. Groups too small to read sort after those that can be read.
  */
-export function rankGroups(groups: readonly GroupOutcome[], minSize: number): { groups: GroupResult[], skipped: number } {
+export function rankGroups(test: GroupableTest, groups: readonly GroupOutcome[], minSize: number): { groups: GroupResult[], skipped: number } {
   const kept = groups.filter(group => group.outcome.n >= minSize && group.outcome.n > 0)
   const ranked: GroupResult[] = kept.map(({ key, outcome }) => ({
     key,
@@ -20,7 +29,8 @@ export function rankGroups(groups: readonly GroupOutcome[], minSize: number): { 
     mad: outcome.mad?.value ?? null,
     expectedMad: outcome.mad?.expected ?? null,
     excessMad: outcome.mad?.excess ?? null,
-    conformity: outcome.mad?.conformity ?? null,
+    conformity: null,
+    reading: outcome.mad?.reading ?? null,
     p: outcome.chiSquare?.p ?? null,
     q: null,
   }))
@@ -28,14 +38,13 @@ export function rankGroups(groups: readonly GroupOutcome[], minSize: number): { 
   benjaminiHochberg(tested.map(group => group.p!)).forEach((q, i) => {
     tested[i]!.q = q
   })
-  ranked.sort((a, b) => byDescending(a.excessMad, b.excessMad) || byDescending(a.mad, b.mad) || a.key.localeCompare(b.key))
+  if (test !== 'summation') {
+    for (const group of tested) {
+      group.reading = readingOf({ test, n: group.n, mad: group.mad!, expectedShares: DISTRIBUTIONS[test].shares, p: group.q!, level: GROUP_LEVEL })
+      group.conformity = conformityOfReading(group.reading)
+    }
+  }
+  const score = (group: GroupResult) => (test === 'summation' ? -(group.mad ?? 0) * Math.sqrt(group.n) : group.p ?? 1)
+  ranked.sort((a, b) => Number(a.reading === 'too-few') - Number(b.reading === 'too-few') || score(a) - score(b) || b.n - a.n || a.key.localeCompare(b.key))
   return { groups: ranked, skipped: groups.length - kept.length }
-}
-
-/** Larger first, missing values last. */
-function byDescending(a: number | null, b: number | null): number {
-  if (a === b) return 0
-  if (a === null) return 1
-  if (b === null) return -1
-  return b - a
 }

@@ -1,9 +1,9 @@
 import type { Excluded, SignFilter, StatusCounts, TestResult } from './types'
 
 /** What one test works out; the entry point adds the request's labels and the suitability findings. */
-export type TestOutcome = Pick<TestResult, 'n' | 'excluded' | 'bins' | 'chiSquare' | 'mad' | 'ks' | 'arc' | 'duplicates' | 'threshold'>
+export type TestOutcome = Pick<TestResult, 'n' | 'excluded' | 'bins' | 'chiSquare' | 'mad' | 'ks' | 'arc' | 'duplicates' | 'threshold' | 'binsOutside'>
 
-export const NO_STATISTICS = { chiSquare: null, mad: null, ks: null, arc: null, duplicates: null, threshold: null } as const
+export const NO_STATISTICS = { chiSquare: null, mad: null, ks: null, arc: null, duplicates: null, threshold: null, binsOutside: null } as const
 
 /** Values of the tested sign. */
 export function signCount(status: StatusCounts, sign: SignFilter): number {

@@ -1,4 +1,4 @@
-import { buildBins } from './bin-statistics'
+import { binsOutsideOf, buildBins } from './bin-statistics'
 import { roundShare } from './expected-shares'
 import { assertCountsAddUp, excludedOf, NO_STATISTICS, type TestOutcome } from './outcome'
 import type { RoundCounts, SignFilter } from './types'
@@ -31,12 +31,8 @@ export function runRoundNumbersTest(counts: RoundCounts, sign: SignFilter): Test
     const expected = eligible.reduce((sum, cell) => sum + cell.count * roundShare(cell.integerDigits, zeros, precision), 0)
     return expected / n
   })
-  return {
-    ...NO_STATISTICS,
-    n,
-    excluded: excludedOf(counts.status, sign, total - n),
-    bins: buildBins(n, KEYS, observed, expectedShares),
-  }
+  const bins = buildBins(n, KEYS, observed, expectedShares)
+  return { ...NO_STATISTICS, n, excluded: excludedOf(counts.status, sign, total - n), bins, binsOutside: binsOutsideOf(bins, n) }
 }
 
 function recordedPrecision(counts: RoundCounts, total: number): number {

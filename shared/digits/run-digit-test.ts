@@ -34,7 +34,11 @@ export interface DigitTestRequest<T extends TestName = TestName> {
   threshold?: ThresholdOptions
   /** How many repeated values the duplicates test lists; default 20. */
   duplicatesShown?: number
-  /** One run per group; groups under minSize (default: the test's minimum) are skipped and counted. */
+  /**
+   * One run per group. Groups under minSize (default: a fifth of the test's minimum, where the
+   * rarest bin expects one value) are skipped and counted; those between it and the test's minimum
+   * are listed and read "too few values to read".
+   */
   groups?: { minSize?: number, items: Array<{ key: string, input: TestInput<T> }> }
 }
 
@@ -106,16 +110,16 @@ export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): 
     column: request.column ?? null,
     sign,
     ...outcome,
-    suitability: checkSuitability({ test, n: outcome.n, profile }),
+    suitability: checkSuitability({ test, n: outcome.n, profile, bins: outcome.bins }),
     caution: CAUTION,
   }
   if (request.groups) {
     if (!GROUPABLE.has(test)) throw new RangeError(`The ${test} test does not rank groups`)
-    const minSize = request.groups.minSize ?? MINIMUM_VALUES[test]!.warning
+    const minSize = request.groups.minSize ?? MINIMUM_VALUES[test]!.stop
     // Ranges would be two binomial quantiles per bin of every group (most of a grouped test's time), unread by the ranking.
     const ranking = { ...options, binRanges: false }
     const outcomes = request.groups.items.map(item => ({ key: item.key, outcome: evaluate(test, item.input, sign, ranking, style).outcome }))
-    const ranked = rankGroups(outcomes, minSize)
+    const ranked = rankGroups(test as GroupableTest, outcomes, minSize)
     result.groups = ranked.groups
     result.groupsSkipped = ranked.skipped
   }

@@ -1,7 +1,8 @@
+import { cochranMinimum } from './cochran'
 import { mantissaOf } from './digit-record'
 import { DISTRIBUTIONS } from './distribution-tests'
 import { readNumber } from './read-number'
-import type { ColumnProfile, DistributionTest, Finding, TestName } from './types'
+import type { Bin, ColumnProfile, DistributionTest, Finding, TestName } from './types'
 
 export interface SuitabilityInput {
   test: TestName
@@ -9,28 +10,33 @@ export interface SuitabilityInput {
   n: number
   /** Column facts for the tested sign; without them only the size is checked. */
   profile?: ColumnProfile | null
+  /**
+   * The result's bins. Round numbers expect shares that depend on the column's lengths and
+   * precision (multiples of 1,000 are ten times rarer than multiples of 100, and rarer still in a
+   * column of cents), so their size check reads the expected counts rather than a fixed minimum.
+   */
+  bins?: readonly Bin[]
 }
 
 interface Minimum {
-  /** Below this, the rarest bin expects fewer than 5 values; below `stop`, fewer than 1. */
+  /** Below this, more than a fifth of the bins expect fewer than 5 values (Cochran's rule); below `stop`, the rarest expects fewer than 1. */
   warning: number
   stop: number
   rarest: string
 }
 
-const COCHRAN = 'expected counts of at least 5 in every bin before trusting a chi-square test (Cochran 1954; common practice)'
+const COCHRAN = 'no bin expecting fewer than 1 value and no more than a fifth of them fewer than 5 before trusting a chi-square test (Cochran 1954)'
 
-function minimumFor(rarestShare: number, rarest: string): Minimum {
-  return { warning: Math.ceil(5 / rarestShare), stop: Math.ceil(1 / rarestShare), rarest }
+function minimumFor(shares: readonly number[], rarest: string): Minimum {
+  return { warning: cochranMinimum(shares), stop: Math.ceil(1 / Math.min(...shares)), rarest }
 }
 
 function distributionMinimum(test: DistributionTest): Minimum {
   const { keys, shares } = DISTRIBUTIONS[test]
-  const i = shares.indexOf(Math.min(...shares))
-  return minimumFor(shares[i]!, `"${keys[i]}"`)
+  return minimumFor(shares, `"${keys[shares.indexOf(Math.min(...shares))]}"`)
 }
 
-/** Smallest useful sizes per test, all from the rule of five expected values in the rarest bin. */
+/** Smallest useful sizes per test, all from Cochran's rule for the expected counts. */
 export const MINIMUM_VALUES: Record<TestName, Minimum | null> = {
   'first-digit': distributionMinimum('first-digit'),
   'second-digit': distributionMinimum('second-digit'),
@@ -38,7 +44,7 @@ export const MINIMUM_VALUES: Record<TestName, Minimum | null> = {
   'first-three-digits': distributionMinimum('first-three-digits'),
   'last-two-digits': distributionMinimum('last-two-digits'),
   'summation': distributionMinimum('first-two-digits'),
-  'round-numbers': minimumFor(0.01, 'multiples of 100 (about 1 in 100 whole numbers)'),
+  'round-numbers': minimumFor([0.001], 'multiples of 1,000 (about 1 in 1,000 whole amounts of four or more digits)'),
   'threshold': { warning: 50, stop: 10, rarest: 'the ten buckets around the limit' },
   'duplicates': null,
 }
@@ -65,19 +71,38 @@ export const RULES = {
  * repeated amounts. Each finding names its rule of thumb and where it comes from. A finding is a
  * reason for care, and a clean bill is no proof that the law applies.
  */
-export function checkSuitability({ test, n, profile }: SuitabilityInput): Finding[] {
+export function checkSuitability({ test, n, profile, bins }: SuitabilityInput): Finding[] {
   const findings: Finding[] = []
   const minimum = MINIMUM_VALUES[test]
-  if (minimum && n < minimum.warning) {
+  const rarest = test === 'round-numbers' && bins && n > 0 ? rarestBin(bins) : null
+  if (rarest) {
+    if (rarest.expected! < 5) {
+      findings.push({
+        code: 'too-few-values',
+        severity: rarest.expected! < 1 ? 'stop' : 'warning',
+        message: `Only ${n} values. At this column's lengths and precision the rarest bin (${ROUND_NAMES[rarest.key] ?? rarest.key}) `
+          + `is expected ${Number(rarest.expected!.toPrecision(2))} times; the test wants at least 5: ${COCHRAN}.`,
+      })
+    }
+  }
+  else if (minimum && n < minimum.warning) {
     findings.push({
       code: 'too-few-values',
       severity: n < minimum.stop ? 'stop' : 'warning',
-      message: `Only ${n} values. The ${test} test wants at least ${minimum.warning}, so that even the rarest bin `
-        + `(${minimum.rarest}) is expected at least 5 times: ${COCHRAN}.`,
+      message: `Only ${n} values. The ${test} test wants at least ${minimum.warning}, so that few of its bins `
+        + `expect fewer than 5 values and even the rarest (${minimum.rarest}) at least 1: ${COCHRAN}.`,
     })
   }
   if (profile && profile.n > 0 && LAW_BASED.has(test)) findings.push(...columnFindings(profile))
   return findings
+}
+
+const ROUND_NAMES: Record<string, string> = { '0': 'multiples of 10', '00': 'multiples of 100', '000': 'multiples of 1,000' }
+
+/** The bin with the smallest expected count above zero (a bin the law rules out entirely needs no values). */
+function rarestBin(bins: readonly Bin[]): Bin | null {
+  const possible = bins.filter(bin => bin.expected !== null && bin.expected > 0)
+  return possible.length ? possible.reduce((a, b) => (b.expected! < a.expected! ? b : a)) : null
 }
 
 function percent(part: number, whole: number): string {

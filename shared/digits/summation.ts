@@ -1,5 +1,6 @@
 import { addDecimal, DECIMAL_ZERO, decimalToNumber, decimalToText, toDecimal, type Decimal } from './decimal'
 import { DISTRIBUTIONS } from './distribution-tests'
+import { cochranMinimum } from './cochran'
 import { meanAbsoluteDeviation } from './mad'
 import { assertCountsAddUp, excludedOf, NO_STATISTICS, type TestOutcome } from './outcome'
 import type { Bin, SignFilter, SummationCounts } from './types'
@@ -46,5 +47,7 @@ export function runSummationTest(counts: SummationCounts, sign: SignFilter): Tes
   const excluded = excludedOf(counts.status, sign, belowMinimum)
   if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
   const value = meanAbsoluteDeviation(bins.map(bin => bin.share), bins.map(() => EXPECTED_SHARE))
-  return { ...NO_STATISTICS, n, excluded, bins, mad: { value, conformity: null, expected: null, excess: null } }
+  // No published ranges and no chance model for amount shares: the only reading is "too few values".
+  const reading = n < cochranMinimum(DISTRIBUTIONS['first-two-digits'].shares) ? 'too-few' : null
+  return { ...NO_STATISTICS, n, excluded, bins, mad: { value, conformity: null, expected: null, excess: null, reading } }
 }

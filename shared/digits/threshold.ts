@@ -1,11 +1,12 @@
-import jStat from 'jstat'
-import { binomialCdf, buildBins } from './bin-statistics'
 import {
   absDecimal, addDecimal, compareDecimal, decimalToText, floorDivideDecimal, multiplyDecimal, subtractDecimal, toDecimal,
   type Decimal,
 } from './decimal'
 import { excludedOf, NO_STATISTICS, signCount, type TestOutcome } from './outcome'
-import type { SignFilter, ThresholdCounts, ThresholdOptions } from './types'
+import { P_FLOOR } from './p-floor'
+import { studentUpper } from './tails'
+import { excessP, t95, trendThrough, type TrendModel } from './threshold-model'
+import type { Bin, SignFilter, ThresholdCounts, ThresholdOptions } from './types'
 
 export const BUCKETS_EACH_SIDE = 5
 const BELOW = BUCKETS_EACH_SIDE - 1
@@ -44,10 +45,12 @@ export function thresholdBucket(band: ThresholdBand, value: Decimal): number | n
 
 /**
  * Threshold test: are amounts bunched just under a limit the user gives (an approval limit)?
- * Compares the bucket just under the limit with the one just over it, and both with a straight
- * line fitted through the other eight buckets (what a smooth distribution predicts there).
- * pBunching is the Poisson chance of at least the count under the limit given the line;
- * pSplit the binomial chance of at least that share of the two windows falling under the limit.
+ * A straight line through the eight buckets away from the limit predicts the two beside it, with
+ * the scatter those eight show around it (quasi-Poisson; see threshold-model.ts). The excess is
+ * the count just under the limit less that prediction, with a 95% interval; pBunching is how often
+ * an excess at least this large appears where no limit acts, under that model. pSplit asks the same
+ * of the share of the two windows' values that falls under the limit. The two buckets beside the
+ * limit carry their 95% prediction range; the eight others are the fit itself and carry none.
  * Values outside the band count as below the test's minimum.
  */
 export function runThresholdTest(counts: ThresholdCounts, sign: SignFilter, options: ThresholdOptions): TestOutcome {
@@ -63,13 +66,28 @@ export function runThresholdTest(counts: ThresholdCounts, sign: SignFilter, opti
   const outside = signCount(counts.status, sign) - n
   if (outside < 0) throw new RangeError('The threshold buckets hold more values than the column')
 
-  const fitted = lineThroughOuterBuckets(binCounts)
-  const keys = binCounts.map((_, i) => decimalToText(addDecimal(band.low, multiplyDecimal(band.width, toDecimal(i)))))
-  const bins = buildBins(n, keys, binCounts, fitted.map(count => (n > 0 ? count / n : 0)))
+  const model = trendThrough(binCounts, binCounts.map((_, x) => x).filter(x => x !== BELOW && x !== ABOVE))
+  const t = t95(model.df)
+  const predictions = new Map([BELOW, ABOVE].map(x => [x, model.predict(x)]))
+  const bins: Bin[] = binCounts.map((count, x) => {
+    const prediction = predictions.get(x)
+    return {
+      key: decimalToText(addDecimal(band.low, multiplyDecimal(band.width, toDecimal(x)))),
+      count,
+      share: n > 0 ? count / n : 0,
+      expected: model.fitted[x]!,
+      expectedShare: n > 0 ? model.fitted[x]! / n : 0,
+      low: prediction ? Math.max(0, Math.ceil(prediction.expected - t * prediction.se)) : null,
+      high: prediction ? Math.floor(prediction.expected + t * prediction.se) : null,
+      z: prediction ? (count - prediction.expected) / prediction.se : null,
+      amount: null,
+    }
+  })
   const below = binCounts[BELOW]!
   const above = binCounts[ABOVE]!
-  const expectedBelow = fitted[BELOW]!
-  const expectedAbove = fitted[ABOVE]!
+  const under = predictions.get(BELOW)!
+  const over = predictions.get(ABOVE)!
+  const excess = below - under.expected
   return {
     ...NO_STATISTICS,
     n,
@@ -80,34 +98,27 @@ export function runThresholdTest(counts: ThresholdCounts, sign: SignFilter, opti
       width: decimalToText(band.width),
       below,
       above,
-      expectedBelow,
-      expectedAbove,
-      pBunching: poissonAtLeast(below, expectedBelow),
-      pSplit: splitAtLeast(below, above, expectedBelow, expectedAbove),
+      expectedBelow: under.expected,
+      expectedAbove: over.expected,
+      excess,
+      excessLow: excess - t * under.se,
+      excessHigh: excess + t * under.se,
+      dispersion: model.dispersion,
+      pBunching: excessP(below, under, model.df),
+      pSplit: splitP(below, above, under.expected, over.expected, model),
     },
   }
 }
 
-/** Least-squares line through the buckets other than the two beside the limit; never below 0. */
-function lineThroughOuterBuckets(counts: readonly number[]): number[] {
-  const points = counts.map((count, x) => ({ x, count })).filter(({ x }) => x !== BELOW && x !== ABOVE)
-  const meanX = points.reduce((s, p) => s + p.x, 0) / points.length
-  const meanY = points.reduce((s, p) => s + p.count, 0) / points.length
-  const sxy = points.reduce((s, p) => s + (p.x - meanX) * (p.count - meanY), 0)
-  const sxx = points.reduce((s, p) => s + (p.x - meanX) ** 2, 0)
-  const slope = sxy / sxx
-  return counts.map((_, x) => Math.max(0, meanY + slope * (x - meanX)))
-}
-
-function poissonAtLeast(k: number, mean: number): number {
-  if (k <= 0) return 1
-  if (mean <= 0) return 0
-  return jStat.lowRegGamma(k, mean)
-}
-
-function splitAtLeast(below: number, above: number, expectedBelow: number, expectedAbove: number): number {
+/**
+ * The share of the two windows' values under the limit against the trend's split, with the
+ * binomial variance inflated by the dispersion (quasi-binomial) and Student's t for its estimate.
+ */
+function splitP(below: number, above: number, expectedBelow: number, expectedAbove: number, model: TrendModel): number {
   const m = below + above
-  if (below === 0) return 1
-  const p = expectedBelow + expectedAbove > 0 ? expectedBelow / (expectedBelow + expectedAbove) : 0.5
-  return 1 - binomialCdf(below - 1, m, p)
+  if (m === 0) return 1
+  const share = expectedBelow + expectedAbove > 0 ? expectedBelow / (expectedBelow + expectedAbove) : 0.5
+  const spread = Math.sqrt(model.dispersion * m * share * (1 - share))
+  if (spread === 0) return below > m * share ? P_FLOOR : 1
+  return studentUpper((below - m * share) / spread, model.df)
 }

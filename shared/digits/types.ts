@@ -196,6 +196,13 @@ export interface Finding {
 
 export type Conformity = 'close' | 'acceptable' | 'marginal' | 'nonconforming'
 
+/**
+ * What a MAD may be read as at its sample size (see mad.ts): too few values to read; within what
+ * chance gives at this size; departing by more than chance explains at this size (below the size
+ * where the published ranges apply); or, from that size on, one of the published ranges.
+ */
+export type Reading = 'too-few' | 'chance' | 'deviates' | Conformity
+
 export interface Bin {
   key: string
   count: number
@@ -226,11 +233,21 @@ export interface Excluded {
 }
 
 export interface ChiSquare { statistic: number, df: number, p: number }
-/** `expected` is the MAD a conforming sample of this n shows on average; null where no formula applies (summation). */
-export interface Mad { value: number, conformity: Conformity | null, expected: number | null, excess: number | null }
+/**
+ * `expected` is the MAD a conforming sample of this n shows on average; null where no formula applies (summation).
+ * `conformity` is a published range only where the sample is large enough for it to mean what it says
+ * (MAD_RANGES_FROM) and agrees with the chance test; `reading` is what every surface prints.
+ */
+export interface Mad { value: number, conformity: Conformity | null, expected: number | null, excess: number | null, reading: Reading | null }
 export interface Ks { d: number, critical: number }
 /** Mantissa arc (Rayleigh): squared mean resultant length and its approximate p. */
 export interface Arc { l2: number, p: number }
+
+/**
+ * How many bins fall outside their 95% range, and how many would on average if the data followed
+ * the test's expectation exactly (each range covers at least 95%, so fewer than 5% of the bins).
+ */
+export interface BinsOutside { count: number, expected: number }
 
 export interface DuplicatesSummary { distinct: number, repeatedValues: number, repeatedRows: number }
 
@@ -243,9 +260,19 @@ export interface ThresholdSummary {
   /** What a straight line through the other eight buckets predicts for those two. */
   expectedBelow: number
   expectedAbove: number
-  /** Poisson chance of at least `below` values given `expectedBelow`. */
+  /** below − expectedBelow, with its 95% interval from the prediction's scatter (Student's t, 6 df). */
+  excess: number
+  excessLow: number
+  excessHigh: number
+  /** How much more the eight outer buckets scatter around the line than Poisson counts would (at least 1). */
+  dispersion: number
+  /**
+   * How often an excess at least this large appears where no limit acts, under the stated model:
+   * the line plus quasi-Poisson scatter estimated from the outer buckets. Not the chance that the
+   * bunching is innocent.
+   */
   pBunching: number
-  /** Binomial chance of at least `below` of the two windows' values falling below, given the fitted split. */
+  /** The same for the share of the two windows' values that falls under the limit (quasi-binomial). */
   pSplit: number
 }
 
@@ -256,6 +283,8 @@ export interface GroupResult {
   expectedMad: number | null
   excessMad: number | null
   conformity: Conformity | null
+  /** Read with q (not p) as the chance test, so that it never contradicts the table's q. */
+  reading: Reading | null
   p: number | null
   q: number | null
 }
@@ -273,6 +302,8 @@ export interface TestResult {
   arc: Arc | null
   duplicates: DuplicatesSummary | null
   threshold: ThresholdSummary | null
+  /** Null where the bins have no range (summation, duplicates). */
+  binsOutside: BinsOutside | null
   suitability: Finding[]
   groups?: GroupResult[]
   /** Groups left out for having fewer values than the minimum. */

@@ -1,6 +1,7 @@
-import { MAD_RANGES } from '../digits/mad'
+import { MAD_RANGES, MAD_RANGES_FROM } from '../digits/mad'
 import type { DistributionTest, TestResult } from '../digits/types'
-import { TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
+import { OUTSIDE_RANGE_RULES, READING_LABELS, TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
+import { formatP } from '../charts/p-value'
 import type { AnalysisSettings } from '../types/investigation'
 import type { DatasetFingerprint, PublishedChecks } from '../types/publication'
 
@@ -16,14 +17,14 @@ function excluded(result: TestResult): string {
   const parts = [
     e.blank && `${count(e.blank)} blank`, e.unreadable && `${count(e.unreadable)} unreadable`, e.zero && `${count(e.zero)} zero`,
     e.negative && `${count(e.negative)} negative (tested apart)`, e.positive && `${count(e.positive)} positive (tested apart)`,
-    e.belowMinimum && `${count(e.belowMinimum)} outside the test's range`,
+    e.belowMinimum && `${count(e.belowMinimum)} outside the test's range (${OUTSIDE_RANGE_RULES[result.test]})`,
   ].filter(Boolean)
   return parts.length ? parts.join(', ') : 'none'
 }
 
 function ranges(test: DistributionTest): string | null {
   const r = MAD_RANGES[test]
-  return r ? `MAD up to ${r[0]} close, up to ${r[1]} acceptable, up to ${r[2]} marginally acceptable conformity, above that nonconformity (Nigrini 2012, *Benford's Law*, Wiley)` : null
+  return r ? `MAD up to ${r[0]} close, up to ${r[1]} acceptable, up to ${r[2]} marginally acceptable conformity, above that nonconformity (Nigrini 2012, *Benford's Law*, Wiley), read only from ${count(MAD_RANGES_FROM[test]!)} values, where a sample that follows the law falls in the close range at least 99% of the time; below that the reading says only whether the departure is more than chance explains (chi-square p < 0.01)` : null
 }
 
 function analysisSection(index: number, { settings, result }: AppendixAnalysis, datasets: Map<string, DatasetFingerprint>): string {
@@ -33,13 +34,15 @@ function analysisSection(index: number, { settings, result }: AppendixAnalysis, 
   if (test) lines.push(TEST_DESCRIPTIONS[test], '')
   if (dataset) lines.push(`- Dataset: ${dataset.title} (${dataset.originalName}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
   if (settings.filters?.length) lines.push(`- Rows: only where ${settings.filters.map(f => (f.op === 'equals' ? `${f.column} is “${f.value}”` : `${f.column} is between ${f.min ?? '−∞'} and ${f.max ?? '∞'}`)).join(' and ')}`)
-  if (settings.groupBy) lines.push(`- Groups: one test per value of “${settings.groupBy}”, ranked by excess MAD, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995)`)
-  if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it, compared with a straight line through the outer eight`)
+  if (settings.groupBy) lines.push(`- Groups: one test per value of “${settings.groupBy}”, ranked by ${test === 'summation' ? 'MAD × √n' : 'chi-square p'} so that small groups do not rise by chance alone, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995); each group's reading uses its q (under 0.05 to read as a departure)`)
+  if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it. The two beside the limit are compared with a straight line through the outer eight, allowing for the scatter those eight show around it (quasi-Poisson; McCullagh & Nelder 1989)`)
   lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
   if (result) {
     lines.push(`- Values tested (n): ${count(result.n)}; left out: ${excluded(result)}`)
-    if (result.chiSquare) lines.push(`- Chi-square ${result.chiSquare.statistic.toFixed(2)} with ${result.chiSquare.df} degrees of freedom, p = ${result.chiSquare.p.toPrecision(3)}`)
-    if (result.mad) lines.push(`- MAD ${result.mad.value.toFixed(5)}${result.mad.conformity ? ` (${result.mad.conformity})` : ''}${result.mad.expected !== null ? `; a conforming sample of this size averages ${result.mad.expected.toFixed(5)}` : ''}`)
+    if (result.chiSquare) lines.push(`- Chi-square ${result.chiSquare.statistic.toFixed(2)} with ${result.chiSquare.df} degrees of freedom, ${formatP(result.chiSquare.p)}`)
+    if (result.mad) lines.push(`- MAD ${result.mad.value.toFixed(5)}${result.mad.reading ? `, ${READING_LABELS[result.mad.reading]}` : ''}${result.mad.expected !== null ? `; a conforming sample of this size averages ${result.mad.expected.toFixed(5)}` : ''}`)
+    const t = result.threshold
+    if (t?.excess !== undefined) lines.push(`- Just under the limit: ${count(t.below)} against ${t.expectedBelow.toFixed(1)} predicted, an excess of ${t.excess.toFixed(1)} (95% interval ${t.excessLow.toFixed(1)} to ${t.excessHigh.toFixed(1)}); an excess at least this large turns up where no limit acts with ${formatP(t.pBunching)} under that model`)
     if (result.ks) lines.push(`- Kolmogorov–Smirnov D ${result.ks.d.toFixed(4)} against a 5% critical value of ${result.ks.critical.toFixed(4)} (1.36/√n; Massey 1951)`)
     for (const finding of result.suitability) lines.push(`- Suitability (${finding.severity}): ${finding.message}`)
   }
@@ -91,7 +94,8 @@ export function methodologyAppendix(title: string, analyses: AppendixAnalysis[],
     '- Each bin’s count is compared with the count the law expects at this sample size; the chart’s band is the range a conforming sample of this size shows 95% of the time (binomial).',
     '- Z per bin with a continuity correction (Nigrini 2012, after Fleiss 1981); |Z| above 1.96 is unusual at the 5% level, one bin at a time.',
     '- Chi-square over all bins; at large n it flags even tiny, harmless departures, which is why the MAD is reported beside it.',
-    '- Mean absolute deviation (MAD) with the published conformity ranges, and the MAD a conforming sample of this size shows on average (Barney & Schulzke 2016).',
+    '- Mean absolute deviation (MAD) and the MAD a conforming sample of this size shows on average (Barney & Schulzke 2016). The published conformity ranges (Nigrini 2012) are read only where the sample is large enough for them to mean what they say; below that size the reading says whether the departure is more than chance explains (chi-square p < 0.01), and below the test’s minimum it says there are too few values to read.',
+    '- Every p-value is the chance, under the stated model, of a departure at least as large as the one seen; it is not the chance that the data are honest. Values below 1e-300 are given as “p < 1e-300”.',
     '',
     '## The analyses',
     '',

@@ -32,21 +32,24 @@ export interface DatasetSummaryDTO {
   createdAt: string
   createdBy: string
   archived: boolean
+  obtainedOn: string | null
+  sha256: string
+  /** The workbook sheet read, when not the first visible one. */
+  sheet: string | null
 }
 
 export interface DatasetDTO extends DatasetSummaryDTO {
   newsroomId: string
+  /** The uploader's user id (createdBy is their name). */
+  createdById: string
   sourceNote: string | null
   sourceUrl: string | null
-  obtainedOn: string | null
-  sha256: string
   format: string
   /** How the file was compressed ("gzip" or "zip"), or null. */
   compression: string | null
   /** The table read from a zip archive. */
   archiveEntry: string | null
-  /** The workbook sheet that was read (null: the first visible one) and the sheets the workbook lists. */
-  sheet: string | null
+  /** The sheets the workbook lists (the one read is `sheet`). */
   sheets: string[] | null
   encoding: string | null
   delimiter: string | null

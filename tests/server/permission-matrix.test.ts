@@ -202,6 +202,20 @@ const ROWS: Row[] = [
     send: (client, dataset) => client.post(`/api/datasets/${dataset.id}/archive`),
   },
   {
+    route: 'POST /api/datasets/[id]/restore',
+    expected: allowOnly(WRITERS, 200),
+    why: 'The reverse of archiving, by the same people.',
+    fresh: true,
+    target: freshDataset,
+    send: (client, dataset) => client.post(`/api/datasets/${dataset.id}/restore`),
+  },
+  {
+    route: 'GET /api/datasets/[id]/original',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'Everyone who may read a dataset may check it against its source.',
+    send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/original`),
+  },
+  {
     route: 'DELETE /api/datasets/[id]',
     expected: allowOnly(WRITERS, 200),
     why: 'As archiving: the uploader or a data editor; a fact-checker only reads.',

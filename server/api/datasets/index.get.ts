@@ -1,10 +1,10 @@
 import { z } from 'zod'
 import { listDatasets } from '../../services/datasets/catalog'
 
-const querySchema = z.object({ newsroomId: z.string().uuid() })
+const querySchema = z.object({ newsroomId: z.string().uuid(), q: z.string().trim().max(200).optional() })
 
 export default defineEventHandler(async (event) => {
-  const { newsroomId } = readQuery(event, querySchema)
+  const { newsroomId, q } = readQuery(event, querySchema)
   await requirePermission(event, 'dataset.read', { newsroomId })
-  return listDatasets(newsroomId)
+  return listDatasets(newsroomId, q || undefined)
 })

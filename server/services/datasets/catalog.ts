@@ -1,3 +1,6 @@
+import { createHash } from 'node:crypto'
+import type { Readable } from 'node:stream'
+import { Op } from 'sequelize'
 import type { ColumnDTO, ColumnKind, DatasetDTO, DatasetSummaryDTO } from '#shared/types/dataset'
 import type { Dataset, DatasetColumn } from '../../models'
 import { dropPartitionsSql } from './partitions'
@@ -7,6 +10,7 @@ function summary(dataset: Dataset, creator: string): DatasetSummaryDTO {
     id: dataset.id, title: dataset.title, status: dataset.status, progress: dataset.progress, error: dataset.error ?? null,
     rowCount: dataset.rowCount ?? null, byteSize: dataset.byteSize, originalName: dataset.originalName,
     createdAt: dataset.createdAt.toISOString(), createdBy: creator, archived: Boolean(dataset.archivedAt),
+    obtainedOn: dataset.obtainedOn, sha256: dataset.sha256, sheet: dataset.sheet ?? null,
   }
 }
 
@@ -20,10 +24,14 @@ function columnDTO(column: DatasetColumn): ColumnDTO {
   }
 }
 
-export async function listDatasets(newsroomId: string): Promise<DatasetSummaryDTO[]> {
+/** A newsroom's datasets, newest first; `search` finds words in the title, source note, source link or file name. */
+export async function listDatasets(newsroomId: string, search?: string): Promise<DatasetSummaryDTO[]> {
   const { Dataset, User } = useDb().models
+  const pattern = search ? `%${search.replace(/[\\%_]/g, match => `\\${match}`)}%` : null
   const rows = await Dataset.findAll({
-    where: { newsroomId },
+    where: pattern
+      ? { newsroomId, [Op.or]: ['title', 'sourceNote', 'sourceUrl', 'originalName'].map(field => ({ [field]: { [Op.iLike]: pattern } })) }
+      : { newsroomId },
     include: [{ model: User, as: 'creator', attributes: ['name'] }],
     order: [['createdAt', 'DESC']],
   })
@@ -47,9 +55,9 @@ export async function describeDataset(dataset: Dataset): Promise<DatasetDTO> {
   const creator = await useDb().models.User.findByPk(dataset.createdBy, { attributes: ['name'] })
   return {
     ...summary(dataset, creator?.name ?? ''),
-    newsroomId: dataset.newsroomId, sourceNote: dataset.sourceNote, sourceUrl: dataset.sourceUrl,
-    obtainedOn: dataset.obtainedOn, sha256: dataset.sha256, format: dataset.format, encoding: dataset.encoding ?? null,
-    compression: dataset.compression ?? null, archiveEntry: dataset.archiveEntry ?? null, sheet: dataset.sheet ?? null, sheets: dataset.sheets ?? null,
+    newsroomId: dataset.newsroomId, createdById: dataset.createdBy, sourceNote: dataset.sourceNote, sourceUrl: dataset.sourceUrl,
+    format: dataset.format, encoding: dataset.encoding ?? null,
+    compression: dataset.compression ?? null, archiveEntry: dataset.archiveEntry ?? null, sheets: dataset.sheets ?? null,
     delimiter: dataset.delimiter ?? null, raggedRows: dataset.raggedRows, replacesId: dataset.replacesId,
     columns: await datasetColumns(dataset.id),
   }
@@ -61,6 +69,28 @@ export async function archiveDataset(actor: Actor, dataset: Dataset) {
     await dataset.update({ archivedAt: new Date() }, { transaction })
     await recordAudit({ newsroomId: actor.newsroomId, actorId: actor.userId, action: 'dataset.archived', subjectType: 'dataset', subjectId: dataset.id, detail: { title: dataset.title } }, transaction)
   })
+}
+
+export async function restoreDataset(actor: Actor, dataset: Dataset) {
+  if (!dataset.archivedAt) return
+  await useDb().sequelize.transaction(async (transaction) => {
+    await dataset.update({ archivedAt: null }, { transaction })
+    await recordAudit({ newsroomId: actor.newsroomId, actorId: actor.userId, action: 'dataset.restored', subjectType: 'dataset', subjectId: dataset.id, detail: { title: dataset.title } }, transaction)
+  })
+}
+
+/**
+ * The original bytes as they were uploaded, once they are checked against the fingerprint taken
+ * at upload: a file damaged in storage is refused, never handed out as the source.
+ */
+export async function originalBytes(dataset: Dataset): Promise<Readable> {
+  const files = useFileStore()
+  const hash = createHash('sha256')
+  for await (const chunk of await files.open(dataset.storageKey, 0)) hash.update(chunk as Buffer)
+  if (hash.digest('hex') !== dataset.sha256) {
+    throw fail(500, { message: 'The stored file no longer matches the fingerprint it had when it was uploaded, so it is not handed out. Tell your admin: the file storage may be damaged.' })
+  }
+  return files.open(dataset.storageKey, 0)
 }
 
 /** Deletes a dataset that no investigation uses: its partitions, columns, row and (unless shared) stored file. */

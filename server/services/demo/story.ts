@@ -35,7 +35,8 @@ export const DEMO_STORY: StoryBlock[] = [
       paragraph('Across the whole ledger the leading digits look ordinary. ', { claim: DEMO_CLAIMS.disputed.id, text: 'Split by supplier, one name ranks well above the rest.' }),
     ),
   },
-  { kind: 'analysis', settings: { column: 'amount', test: 'first-two-digits', groupBy: 'supplier' } },
+  // First digit by supplier: the planted supplier's 600 payments are under the 939 values the first-two test needs to be read.
+  { kind: 'analysis', settings: { column: 'amount', test: 'first-digit', groupBy: 'supplier' } },
   {
     kind: 'prose',
     content: doc(paragraph(`Council rules require a second signature on any payment of ${APPROVAL_LIMIT.toLocaleString('en-GB')} or more. `, { claim: DEMO_CLAIMS.open.id, text: 'Payments cluster just below that line.' })),

@@ -1,7 +1,9 @@
+import jStat from 'jstat'
 import { describe, expect, it } from 'vitest'
 import { toDecimal } from '../../../shared/digits/decimal'
 import { runDigitTest } from '../../../shared/digits/run-digit-test'
 import { thresholdBand, thresholdBucket } from '../../../shared/digits/threshold'
+import { jsonColumn } from './open-data'
 
 /** x = 10^(1 + 3i/count) to the cent: log-uniform over three decades, so every first-two bucket holds about 1/90 of the sum. */
 function logUniformAmounts(count: number): string[] {
@@ -94,11 +96,30 @@ describe('threshold', () => {
     const result = runDigitTest({ test: 'threshold', threshold: { limit: '1000' }, input: { values: bunched } })
     const { threshold } = result
     expect(threshold!.below - threshold!.above).toBeGreaterThan(150)
-    expect(threshold!.pBunching).toBeLessThan(1e-4)
-    expect(threshold!.pSplit).toBeLessThan(1e-4)
+    // The 1/x curve bends away from a straight line, so the interval is wide; it still holds the 150 planted and excludes 0.
+    expect(threshold!.excessLow).toBeGreaterThan(0)
+    expect(threshold!.excessLow).toBeLessThan(150)
+    expect(threshold!.excessHigh).toBeGreaterThan(150)
+    expect(threshold!.pBunching).toBeLessThan(0.01)
+    expect(threshold!.pSplit).toBeLessThan(0.01)
     expect(result.bins.map(b => b.key)).toEqual(['750', '800', '850', '900', '950', '1000', '1050', '1100', '1150', '1200'])
     expect(result.bins[4]!.count).toBeGreaterThan(result.bins[4]!.high!)
+    // Only the two buckets beside the limit carry a prediction range; the eight others are the fit.
+    expect(result.bins.filter(b => b.low !== null).map(b => b.key)).toEqual(['950', '1000'])
     expect(result.excluded.belowMinimum).toBe(bunched.length - result.n)
+  })
+
+  it('models the scatter it sees: heaps at round amounts in open data are not read as bunching', () => {
+    // movies.json "Production Budget" (vega-datasets 3.2.1): budgets heap at round millions, and the
+    // bucket under 50,500,000 holds the heap at exactly 50,000,000 — as do the outer buckets at theirs.
+    const values = jsonColumn('movies.json', 'Production Budget') as Array<number | null>
+    const { threshold, bins } = runDigitTest({ test: 'threshold', threshold: { limit: '50500000' }, input: { values } })
+    expect(bins.map(b => b.count)).toEqual([122, 19, 65, 14, 94, 18, 52, 14, 76, 8])
+    // What a Poisson count around the same line would say (jStat's Poisson upper tail): "p = 5e-9".
+    expect(jStat.lowRegGamma(threshold!.below, threshold!.expectedBelow)).toBeLessThan(1e-8)
+    expect(threshold!.dispersion).toBeGreaterThan(20) // the outer buckets scatter 34 times more than Poisson
+    expect(threshold!.pBunching).toBeGreaterThan(0.1)
+    expect(threshold!.excessLow).toBeLessThan(0)
   })
 
   it('puts bucket edges where exact decimals put them', () => {

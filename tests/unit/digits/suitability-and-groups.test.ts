@@ -12,22 +12,37 @@ const codes = (profile: Partial<ColumnProfile>, n = 5000) => checkSuitability({ 
 const healthy: ColumnProfile = { n: 5000, min: '0.5', max: '250000', atMin: 1, atMax: 1, whole: 2000, roundHundreds: 40, commonLength: 1500, topValue: 3 }
 
 describe('suitability', () => {
-  it('derives each test\'s minimum from five expected values in the rarest bin (Cochran 1954; common practice)', () => {
-    // Rarest shares from CHECKS.md: P(9) = 0.04576, P(D2 = 9) = 0.08500, P(99) = 0.004365, P(999) = 0.00043451, 0.01.
-    expect(MINIMUM_VALUES['first-digit']).toMatchObject({ warning: Math.ceil(5 / 0.04576), stop: Math.ceil(1 / 0.04576), rarest: '"9"' })
-    expect(MINIMUM_VALUES['second-digit']!.warning).toBe(Math.ceil(5 / 0.085))
-    expect(MINIMUM_VALUES['first-two-digits']!.warning).toBe(Math.ceil(5 / 0.004365))
-    expect(MINIMUM_VALUES['first-three-digits']!.warning).toBe(Math.ceil(5 / 0.00043451))
+  it('derives each test\'s minimum from Cochran\'s rule: no bin under 1 expected, at most a fifth under 5 (Cochran 1954)', () => {
+    // Shares from CHECKS.md. First digit: one bin of nine may expect under 5, so the second rarest, P(8) = 0.05115, sets it.
+    expect(MINIMUM_VALUES['first-digit']).toMatchObject({ warning: Math.ceil(5 / 0.05115), stop: Math.ceil(1 / 0.04576), rarest: '"9"' })
+    // Second digit: two of ten may; the third rarest is P(D2 = 7) = 0.09035.
+    expect(MINIMUM_VALUES['second-digit']!.warning).toBe(Math.ceil(5 / 0.09035))
+    // First two: 18 of 90 may; the 19th rarest is P(81) = log10(1 + 1/81). First three: 180 of 900; the 181st rarest is P(819).
+    expect(MINIMUM_VALUES['first-two-digits']!.warning).toBe(Math.ceil(5 / Math.log10(1 + 1 / 81)))
+    expect(MINIMUM_VALUES['first-three-digits']!.warning).toBe(Math.ceil(5 / Math.log10(1 + 1 / 819)))
+    expect(MINIMUM_VALUES['first-two-digits']!.stop).toBe(Math.ceil(1 / 0.004365))
     expect(MINIMUM_VALUES['last-two-digits']!.warning).toBe(500)
   })
 
   it('warns below the minimum and stops far below it, naming the rule and its source', () => {
-    expect(checkSuitability({ test: 'first-digit', n: 110 })).toEqual([])
-    const warning = checkSuitability({ test: 'first-digit', n: 109 })
+    expect(checkSuitability({ test: 'first-digit', n: 98 })).toEqual([])
+    const warning = checkSuitability({ test: 'first-digit', n: 97 })
     expect(warning.map(f => f.severity)).toEqual(['warning'])
-    expect(warning[0]!.message).toMatch(/Cochran 1954; common practice/)
+    expect(warning[0]!.message).toMatch(/Cochran 1954/)
     expect(checkSuitability({ test: 'first-digit', n: 21 })[0]!.severity).toBe('stop')
     expect(checkSuitability({ test: 'first-three-digits', n: 5000 })[0]!.code).toBe('too-few-values')
+  })
+
+  it('sizes the round-numbers test by its rarest bin at the column\'s precision, not by multiples of 100', () => {
+    // Whole amounts of four and more digits: multiples of 1,000 are about 1 in 1,000 (the law; CHECKS.md round shares).
+    const whole = Array.from({ length: 3000 }, (_, i) => String(Math.round(10 ** (3 + (3 * i) / 3000))))
+    const few = runDigitTest({ test: 'round-numbers', input: { values: whole } }).suitability.find(f => f.code === 'too-few-values')!
+    expect(few.message).toContain('multiples of 1,000')
+    expect(few.severity).toBe('warning') // about 3 expected
+    // In a column of cents, 3,000 values expect well under one multiple of 1,000.00: no reading is possible.
+    const cents = whole.map(x => `${x}.37`)
+    expect(runDigitTest({ test: 'round-numbers', input: { values: cents } }).suitability.find(f => f.code === 'too-few-values')!.severity).toBe('stop')
+    expect(runDigitTest({ test: 'round-numbers', input: { values: [...whole, ...whole, ...whole] } }).suitability.map(f => f.code)).not.toContain('too-few-values')
   })
 
   it('finds nothing to say about a healthy column', () => {
@@ -86,20 +101,25 @@ describe('groups', () => {
     { key: 'tiny', values: powerSeries(7, 40) },
   ]
 
-  it('ranks groups by excess MAD, skips small ones and gives p and q', () => {
-    const result = runDigitTest({ test: 'first-digit', input: { values: items.flatMap(i => i.values) }, groups: { items: items.map(({ key, values }) => ({ key, input: { values } })) } })
+  it('ranks groups by p, reads small ones as too few and gives p and q', () => {
+    const withSpeck = [...items, { key: 'speck', values: powerSeries(7, 10) }]
+    const result = runDigitTest({ test: 'first-digit', input: { values: withSpeck.flatMap(i => i.values) }, groups: { items: withSpeck.map(({ key, values }) => ({ key, input: { values } })) } })
+    // Default minimum: the rarest bin expects one value (22 for the first digit); below the test's minimum (98), "too few".
     expect(result.groupsSkipped).toBe(1)
+    expect(result.groups!.map(g => g.key)).not.toContain('speck')
     expect(result.groups!.map(g => g.key).slice(0, 2).sort()).toEqual(['counting', 'squares'])
-    expect(result.groups!.map(g => g.key)).not.toContain('tiny')
+    const tiny = result.groups!.at(-1)!
+    expect([tiny.key, tiny.reading, tiny.conformity]).toEqual(['tiny', 'too-few', null])
     const counting = result.groups!.find(g => g.key === 'counting')!
-    expect(counting.conformity).toBe('nonconforming')
+    expect(counting.reading).toBe('deviates') // 600 values: below the size where the published ranges apply
+    expect(counting.conformity).toBeNull()
     expect(counting.q!).toBeLessThan(0.01)
     for (const group of result.groups!) {
       expect(group.q!).toBeGreaterThanOrEqual(group.p!)
       expect(group.excessMad).toBeCloseTo(group.mad! - group.expectedMad!, 15)
     }
-    const excess = result.groups!.map(g => g.excessMad!)
-    expect(excess).toEqual([...excess].sort((a, b) => b - a))
+    const readable = result.groups!.filter(g => g.reading !== 'too-few').map(g => g.p!)
+    expect(readable).toEqual([...readable].sort((a, b) => a - b))
   })
 
   it('gives the same ranking from per-group counts', () => {
@@ -110,7 +130,7 @@ describe('groups', () => {
       groups: { minSize: 50, items: items.map(({ key, values }) => ({ key, input: { counts: countDistribution('first-digit', recordsOf(values), 'positive') } })) },
     })
     expect(fromCounts.groups).toEqual(fromValues.groups)
-    expect(fromValues.groupsSkipped).toBe(1)
+    expect(fromValues.groupsSkipped).toBe(1) // 'tiny' has 40 values, under the minSize of 50 asked for
   })
 
   it('ranks each group by the same MAD and chi-square p as a test of that group alone', () => {

@@ -1,0 +1,10 @@
+import { idParamsSchema } from '#shared/schemas/auth'
+import { findDataset, restoreDataset } from '../../../services/datasets/catalog'
+
+export default defineEventHandler(async (event) => {
+  const { id } = readParams(event, idParamsSchema)
+  const dataset = await findDataset(id)
+  const actor = await requirePermission(event, 'dataset.archive', { newsroomId: dataset.newsroomId, ownerId: dataset.createdBy })
+  await restoreDataset(actor, dataset)
+  return { ok: true }
+})

@@ -1,0 +1,56 @@
+import type { Browser } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { baseUrl } from '../support/api'
+import { launchBrowser, screenshot, signInThroughPage, waitForApp } from '../support/browser'
+import { uploadCsv } from '../support/datasets'
+import { createTestNewsroom, PASSWORD } from '../support/newsroom'
+import type { TestNewsroom } from '../support/newsroom'
+import { writeStory } from '../support/stories'
+
+// Issue 19: the datasets page finds a dataset by its source, and a dataset's page offers what a
+// reporter does with it; a refusal shows beside the button that was pressed.
+
+let browser: Browser
+let desk: TestNewsroom
+let used: string
+
+beforeAll(async () => {
+  browser = await launchBrowser()
+  desk = await createTestNewsroom('Shelf')
+  used = await uploadCsv(desk.reporter, desk.id, 'supplier,amount\nNorthgate Paving,1840.00\nQuay Lighting,1215.50\n', 'Ferry subsidies')
+  await uploadCsv(desk.reporter, desk.id, 'supplier,amount\nWillow Drains,143.20\n', 'Road grit tenders')
+  await writeStory(desk.reporter, desk.id, used)
+})
+afterAll(async () => {
+  await browser?.close()
+})
+
+describe('the datasets of a newsroom', () => {
+  it('finds one by a word of its title and keeps the search in the address', async () => {
+    const page = await browser.newPage({ viewport: { width: 1366, height: 900 } })
+    await signInThroughPage(page, desk.emails.reporter, PASSWORD)
+    await page.waitForURL(url => !url.pathname.startsWith('/login'))
+    await page.goto(`${baseUrl}/newsrooms/${desk.id}/datasets`)
+    await waitForApp(page)
+    await page.getByLabel('Find a dataset').fill('grit')
+    await page.waitForURL(/q=grit/)
+    await expect.poll(() => page.getByRole('link', { name: 'Ferry subsidies' }).count()).toBe(0)
+    expect(await page.getByRole('link', { name: 'Road grit tenders' }).count()).toBe(1)
+    await page.reload()
+    await waitForApp(page)
+    expect(await page.getByLabel('Find a dataset').inputValue()).toBe('grit')
+    expect(await page.getByRole('link', { name: 'Road grit tenders' }).count()).toBe(1)
+
+    await page.goto(`${baseUrl}/datasets/${used}`)
+    await waitForApp(page)
+    await page.getByRole('button', { name: 'Delete…' }).click()
+    await page.getByRole('button', { name: 'Delete', exact: true }).click()
+    await expect.poll(() => page.getByRole('alert').filter({ hasText: 'uses this dataset' }).count()).toBe(1)
+    await screenshot(page, 'dataset-actions-refused-delete')
+
+    await page.getByRole('button', { name: 'Start an investigation from it' }).click()
+    await page.waitForURL(/\/investigations\//)
+    await expect.poll(() => page.title()).toBe('On Ferry subsidies · Mantissa')
+    await page.close()
+  })
+})
