@@ -8,8 +8,12 @@ export function useRefusal() {
   const refusal = ref('')
   async function run(action: () => Promise<boolean>) {
     refusal.value = ''
+    store.lastRefusal = null
     if (await action()) return
-    refusal.value = store.message
+    // Shown here instead of under its place in the document.
+    const last = store.lastRefusal as { place: string, text: string } | null
+    refusal.value = last?.text ?? store.message
+    if (last) store.dismiss(last.place)
     store.message = ''
   }
   return { refusal: readonly(refusal), run }

@@ -2,11 +2,14 @@ import { Mark, mergeAttributes } from '@tiptap/vue-3'
 import type { Node as ProseNode } from '@tiptap/pm/model'
 import { Plugin, PluginKey } from '@tiptap/pm/state'
 import { Decoration, DecorationSet } from '@tiptap/pm/view'
+import { formatDateTime } from '#shared/format/dates'
 import type { ClaimStatus } from '#shared/types/investigation'
 
 export interface ClaimMarkOptions {
   /** The status of each claim in this block, read whenever the editor redraws. */
   statusOf: () => Map<string, ClaimStatus>
+  /** Told which locked claim an edit tried to change, so the editor can say so where the caret is. */
+  onRefused: (claimId: string) => void
 }
 
 function claimTextIn(doc: ProseNode, claimId: string): string {
@@ -26,7 +29,7 @@ export const ClaimMark = Mark.create<ClaimMarkOptions>({
   inclusive: false,
   excludes: '',
   addOptions() {
-    return { statusOf: () => new Map() }
+    return { statusOf: () => new Map(), onRefused: () => {} }
   },
   addAttributes() {
     return {
@@ -44,13 +47,16 @@ export const ClaimMark = Mark.create<ClaimMarkOptions>({
     return ['span', mergeAttributes(HTMLAttributes, { class: 'claim' }), 0]
   },
   addProseMirrorPlugins() {
-    const statusOf = this.options.statusOf
+    const { statusOf, onRefused } = this.options
     return [new Plugin({
       key: new PluginKey('claim-lock'),
       filterTransaction(transaction, state) {
         if (!transaction.docChanged) return true
         for (const [id, status] of statusOf()) {
-          if (status === 'verified' && claimTextIn(state.doc, id) !== claimTextIn(transaction.doc, id)) return false
+          if (status === 'verified' && claimTextIn(state.doc, id) !== claimTextIn(transaction.doc, id)) {
+            onRefused(id)
+            return false
+          }
         }
         return true
       },
@@ -68,3 +74,10 @@ export const ClaimMark = Mark.create<ClaimMarkOptions>({
     })]
   },
 })
+
+/** What the editor says when an edit would change a verified claim: who locked it, when, and what to do. */
+export function lockedPassageText(claim: { decision: { by: string, at: string } | null } | undefined, mayLift: boolean): string {
+  const who = claim?.decision ? `${claim.decision.by} verified it on ${formatDateTime(claim.decision.at)}` : 'a fact-checker verified it'
+  const next = mayLift ? 'To change it, lift the lock in the margin; the audit trail keeps your reason.' : 'To change it, ask a data editor to lift the lock.'
+  return `This passage is locked: ${who}. ${next}`
+}

@@ -10,13 +10,8 @@ export function formatBytes(bytes: number): string {
   return `${(bytes / 1024 / 1024).toFixed(1)} MB`
 }
 
-export function formatDate(iso: string | null | undefined): string {
-  return iso ? new Date(iso).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' }) : '—'
-}
-
-export function formatDateTime(iso: string | null | undefined): string {
-  return iso ? new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' }) : '—'
-}
+// Dates live with the server's: one format on every page, in every e-mail and message.
+export { formatDate, formatDateTime } from '#shared/format/dates'
 
 /** A difference with fixed decimals: one too small to show is 0, never "-0.00000" or an exponent. */
 export function formatDifference(value: number | null | undefined, digits = 5): string {

@@ -18,6 +18,11 @@ export class Block extends Model<InferAttributes<Block>, InferCreationAttributes
   declare reviewedBy: CreationOptional<string | null>
   declare reviewedAt: CreationOptional<Date | null>
   declare lockedBy: CreationOptional<string | null>
+  /** The last approval, kept while the settings differ from the ones it approved (see updateBlock). */
+  declare approvedFingerprint: CreationOptional<string | null>
+  declare approvedSettings: CreationOptional<AnalysisSettings | null>
+  declare approvedBy: CreationOptional<string | null>
+  declare approvedAt: CreationOptional<Date | null>
   declare lockedAt: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -40,6 +45,10 @@ export class Block extends Model<InferAttributes<Block>, InferCreationAttributes
       reviewedAt: DataTypes.DATE,
       lockedBy: DataTypes.UUID,
       lockedAt: DataTypes.DATE,
+      approvedFingerprint: DataTypes.TEXT,
+      approvedSettings: DataTypes.JSONB,
+      approvedBy: DataTypes.UUID,
+      approvedAt: DataTypes.DATE,
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     }, { sequelize, tableName: 'blocks', underscored: true })

@@ -50,7 +50,13 @@ export interface BlockDTO {
   updatedAt: string
   updatedBy: string | null
   /** Analysis blocks only: the data editor's verdict on the method. */
-  review: { status: ReviewStatus, note: string | null, stamp: Stamp | null } | null
+  review: {
+    status: ReviewStatus
+    note: string | null
+    stamp: Stamp | null
+    /** An approval set aside because the settings changed; saving `settings` again brings it back. */
+    lapsed: { stamp: Stamp, settings: AnalysisSettings } | null
+  } | null
   /** Set while a verified claim cites this analysis block: its settings cannot change. */
   lock: Stamp | null
 }

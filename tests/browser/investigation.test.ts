@@ -31,7 +31,7 @@ describe('writing an investigation', () => {
 
     await page.locator('.ProseMirror').first().click()
     await page.keyboard.type('Suppliers were paid thousands of times last year.')
-    await expect.poll(() => page.getByText('Saved').count(), { timeout: 10_000 }).toBeGreaterThan(0)
+    await expect.poll(() => page.getByText('Saved', { exact: true }).count(), { timeout: 10_000 }).toBeGreaterThan(0)
 
     await page.getByRole('button', { name: '+ Analysis' }).last().click()
     await page.getByLabel('Dataset').selectOption({ label: 'Port Averly supplier payments, 2025' })

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import demo from '../../server/services/demo/people.json'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
+import { baseUrl } from '../support/api'
+import { launchBrowser, screenshot, signInThroughPage, waitForApp } from '../support/browser'
 
 let browser: Browser
 beforeAll(async () => {
@@ -32,5 +33,36 @@ describe('signing in through the page', () => {
     await expect(page.getByRole('alert').first().textContent()).resolves.toMatch(/does not match/)
     expect(page.url()).toMatch(/\/login/)
     await context.close()
+  })
+
+  it('keeps what a person typed before the page became interactive', async () => {
+    const person = demo.people[0]!
+    for (let attempt = 0; attempt < 3; attempt++) {
+      const context = await browser.newContext()
+      const page = await context.newPage()
+      // A slow connection: the page is drawn, its scripts arrive only once the person has typed.
+      let release!: () => void
+      const typed = new Promise<void>(resolve => (release = resolve))
+      await page.route('**/_nuxt/**/*.js', async (route) => {
+        await typed
+        await route.continue()
+      })
+      // Module scripts hold DOMContentLoaded back: wait only for the drawn form.
+      await page.goto(`${baseUrl}/login`, { waitUntil: 'commit' })
+      await page.getByLabel('E-mail').click()
+      await page.keyboard.type(person.email)
+      await page.getByLabel('Password').click()
+      await page.keyboard.type(demo.password)
+      expect(await page.evaluate(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))).toBe(false)
+      release()
+      await waitForApp(page)
+      await page.waitForTimeout(200)
+      expect(await page.getByLabel('E-mail').inputValue()).toBe(person.email)
+      expect(await page.getByLabel('Password').inputValue()).toBe(demo.password)
+      // And what was kept is what signs in.
+      await page.getByRole('button', { name: 'Sign in' }).click()
+      await page.waitForURL(/\/newsrooms\//)
+      await context.close()
+    }
   })
 })

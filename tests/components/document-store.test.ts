@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { registerEndpoint } from '@nuxt/test-utils/runtime'
-import { readBody } from 'h3'
+import { createError, readBody } from 'h3'
 import type { BlockDTO, InvestigationDTO } from '#shared/types/investigation'
 
 const BLOCK = '44444444-4444-4444-8444-444444444444'
@@ -41,5 +41,38 @@ describe('saving an analysis block while the reporter keeps choosing', () => {
     expect(current()).toEqual({ datasetId: DATASET, column: 'amount', test: 'first-digit' })
     expect(received.at(-1)!.settings).toEqual({ datasetId: DATASET, column: 'amount', test: 'first-digit' })
     expect(stored.settings).toEqual({ datasetId: DATASET, column: 'amount', test: 'first-digit' })
+  })
+})
+
+const FLAKY = '55555555-5555-4555-8555-555555555555'
+const flakyBodies: unknown[] = []
+let failNext = true
+registerEndpoint(`/api/blocks/${FLAKY}`, {
+  method: 'PATCH',
+  handler: async (event) => {
+    const body = await readBody(event)
+    flakyBodies.push(body)
+    if (failNext) {
+      failNext = false
+      throw createError({ statusCode: 503, statusMessage: 'Service Unavailable' })
+    }
+    return { ...block(body.version + 1, null), id: FLAKY, kind: 'prose', content: body.content }
+  },
+})
+
+describe('a save that failed', () => {
+  it('is sent again by "Try again", and whenSaved waits for it', async () => {
+    const store = useDocumentStore()
+    const prose = { ...block(3, null), id: FLAKY, kind: 'prose' as const, content: { type: 'doc' as const, content: [] } }
+    store.load({ id: 'i', title: 'Story', newsroomId: 'n', layoutVersion: 1, blocks: [prose], claims: [] } as unknown as InvestigationDTO)
+    const content = { type: 'doc' as const, content: [{ type: 'paragraph', content: [{ type: 'text', text: 'Kept for the retry.' }] }] }
+    await store.save(FLAKY, { content })
+    expect(store.saveState[FLAKY]).toBe('failed')
+    expect(store.unsaved).toBe(true)
+    await store.retry(FLAKY)
+    expect(flakyBodies).toEqual([{ version: 3, content }, { version: 3, content }])
+    expect(store.saveState[FLAKY]).toBe('saved')
+    expect(store.unsaved).toBe(false)
+    expect(store.blocks[0]!.version).toBe(4)
   })
 })

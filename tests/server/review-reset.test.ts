@@ -31,7 +31,7 @@ describe('a review after the method changes', () => {
   it('sends an approved block back to unreviewed when its settings change, and says so in the trail', async () => {
     const story = await reviewed('approved')
     expectStatus(await saveBlock(newsroom.reporter, story, story.analysisBlockId, { settings: { ...story.settings, test: 'second-digit' } }), 200)
-    expect(await reviewOf(story)).toEqual({ status: 'unreviewed', note: null, stamp: null })
+    expect(await reviewOf(story)).toMatchObject({ status: 'unreviewed', note: null, stamp: null, lapsed: { stamp: { by: newsroom.names['data-editor'] } } })
     expect(await resets(story)).toEqual([expect.objectContaining({
       actor: newsroom.names.reporter, subjectId: story.analysisBlockId, detail: { was: 'approved', reason: 'settings changed' },
     })])

@@ -6,6 +6,7 @@ import type { Role } from '#shared/auth/roles'
 import { baseUrl } from './api'
 import { PASSWORD } from './newsroom'
 import type { TestNewsroom } from './newsroom'
+import type { Story } from './stories'
 
 // Flags that keep Debian's Chromium quiet on a closed network (../shared/STACK.md).
 const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
@@ -67,4 +68,32 @@ export async function openInvestigationAs(browser: Browser, newsroom: TestNewsro
   await page.goto(`${baseUrl}/investigations/${id}`)
   await page.locator('.ProseMirror').first().waitFor()
   return page
+}
+
+/** Opens `story` in the editor as `role`, at 1366 px, once the page is interactive and ready to type. */
+export async function openStory(browser: Browser, newsroom: TestNewsroom, role: Role, story: Story): Promise<Page> {
+  const page = await openInvestigationAs(browser, newsroom, role, story.id, 1366)
+  await waitForApp(page)
+  return page
+}
+
+/** The PATCH requests the page sends to save `blockId`, as they leave the browser. */
+export function watchSaves(page: Page, blockId: string): unknown[] {
+  const bodies: unknown[] = []
+  page.on('request', (request) => {
+    if (request.method() === 'PATCH' && request.url().endsWith(`/api/blocks/${blockId}`)) bodies.push(request.postDataJSON())
+  })
+  return bodies
+}
+
+/** Selects the text of the first element matching `selector` in the page, as a mouse drag over it would. */
+export async function selectTextOf(page: Page, selector: string) {
+  await page.evaluate((css) => {
+    const element = document.querySelector(css)!
+    const range = document.createRange()
+    range.selectNodeContents(element)
+    const selection = window.getSelection()!
+    selection.removeAllRanges()
+    selection.addRange(range)
+  }, selector)
 }

@@ -1,23 +1,8 @@
-import { createHash } from 'node:crypto'
 import { digitTestRequestSchema } from '#shared/schemas/dataset'
-import type { AnalysisRunDTO, AnalysisSettings } from '#shared/types/investigation'
+import type { AnalysisRunDTO } from '#shared/types/investigation'
 import type { Block } from '../../models'
 import { findDataset } from '../datasets/catalog'
 import { runDatasetTest } from '../datasets/digit-tests'
-
-/** Settings in a fixed key order, so equal settings always give the same cache key. */
-function canonical(value: unknown): unknown {
-  if (Array.isArray(value)) return value.map(canonical)
-  if (value && typeof value === 'object') {
-    return Object.fromEntries(Object.keys(value).sort().filter(k => (value as Record<string, unknown>)[k] !== undefined)
-      .map(k => [k, canonical((value as Record<string, unknown>)[k])]))
-  }
-  return value
-}
-
-export function cacheKeyOf(settings: AnalysisSettings): string {
-  return createHash('sha256').update(JSON.stringify(canonical(settings))).digest('hex')
-}
 
 function completeSettings(block: Block) {
   const settings = block.settings ?? {}
@@ -30,7 +15,7 @@ function completeSettings(block: Block) {
 /** The stored result for the block's current settings, or null when it has not been run. */
 export async function cachedAnalysis(block: Block): Promise<AnalysisRunDTO | null> {
   if (!block.settings?.datasetId) return null
-  const hit = await useDb().models.AnalysisResult.findByPk(cacheKeyOf(block.settings))
+  const hit = await useDb().models.AnalysisResult.findByPk(fingerprintOf(block.settings))
   return hit ? { result: hit.result, cached: true } : null
 }
 
@@ -45,6 +30,6 @@ export async function runAnalysis(block: Block, newsroomId: string): Promise<Ana
   const dataset = await findDataset(datasetId)
   if (dataset.newsroomId !== newsroomId) throw fail(404)
   const result = await runDatasetTest(dataset, request)
-  await useDb().models.AnalysisResult.upsert({ cacheKey: cacheKeyOf(block.settings!), datasetId, result })
+  await useDb().models.AnalysisResult.upsert({ cacheKey: fingerprintOf(block.settings!), datasetId, result })
   return { result, cached: false }
 }

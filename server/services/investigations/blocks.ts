@@ -42,11 +42,23 @@ async function auditEdit(actor: Actor, block: Block, fromVersion: number, settin
   await auditBlock(actor, block, 'block.edited', { kind: block.kind, fromVersion, ...(settings === undefined ? {} : { settings }) }, transaction)
 }
 
-/** JSON with object keys sorted, so that two settings that differ only in key order compare equal. */
-function canonicalJson(value: unknown): string {
-  return JSON.stringify(value, (_key, v) => v && typeof v === 'object' && !Array.isArray(v)
-    ? Object.fromEntries(Object.entries(v).sort(([a], [b]) => a.localeCompare(b)))
-    : v)
+/**
+ * What a change of settings does to the block's review: a reviewed method that changes needs a fresh
+ * review, and settings that come back to the ones last approved bring that approval back (who and
+ * when as they were). Null when the review stays as it is.
+ */
+function reviewAfterChange(block: Block, fingerprint: string) {
+  if (block.approvedFingerprint === fingerprint && block.approvedBy && block.approvedAt && block.reviewStatus !== 'approved') {
+    return {
+      fields: { reviewStatus: 'approved' as const, reviewNote: null, reviewedBy: block.approvedBy, reviewedAt: block.approvedAt },
+      action: 'review.restored', detail: { approvedAt: block.approvedAt.toISOString(), reason: 'settings back to the approved ones' },
+    }
+  }
+  if (block.reviewStatus === 'unreviewed') return null
+  return {
+    fields: { reviewStatus: 'unreviewed' as const, reviewNote: null, reviewedBy: null, reviewedAt: null },
+    action: 'review.reset', detail: { was: block.reviewStatus, reason: 'settings changed' },
+  }
 }
 
 /** A block may only point at a dataset of its own newsroom. */
@@ -113,23 +125,22 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
     const current = await lockBlockForChange(block, transaction)
     if (current.version !== input.version) return { stale: true, block: current }
     // jsonb hands keys back in its own order, so a plain string comparison would see a change in every resave.
-    const settingsChanged = input.settings !== undefined && canonicalJson(input.settings) !== canonicalJson(current.settings)
+    const fingerprint = input.settings !== undefined ? fingerprintOf(input.settings) : undefined
+    const settingsChanged = fingerprint !== undefined && fingerprint !== fingerprintOf(current.settings ?? {})
     await assertUnlocked(current, { content: input.content, settings: settingsChanged ? input.settings : undefined }, transaction)
-    // A reviewed method that changes needs a fresh review.
-    const resetReview = settingsChanged && current.reviewStatus !== 'unreviewed'
-    const was = current.reviewStatus
+    const review = settingsChanged ? reviewAfterChange(current, fingerprint) : null
     await current.update({
       ...(input.content ? { content: input.content } : {}),
       ...(input.settings ? { settings: input.settings } : {}),
-      ...(resetReview ? { reviewStatus: 'unreviewed' as const, reviewNote: null, reviewedBy: null, reviewedAt: null } : {}),
+      ...review?.fields,
       version: input.version + 1,
       updatedBy: actor.userId,
     }, { transaction })
     if (input.content || settingsChanged) await auditEdit(actor, current, input.version, settingsChanged ? input.settings : undefined, transaction)
-    if (resetReview) {
+    if (review) {
       await recordAudit({
-        newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action: 'review.reset',
-        subjectType: 'block', subjectId: block.id, detail: { was, reason: 'settings changed' },
+        newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action: review.action,
+        subjectType: 'block', subjectId: block.id, detail: review.detail,
       }, transaction)
     }
     await touchInvestigation(block.investigationId, actor.userId, transaction)

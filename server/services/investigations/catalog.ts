@@ -27,13 +27,18 @@ export function stamp(userId: string | null | undefined, at: Date | null | undef
   return userId && at ? { by: names.get(userId) ?? 'a former member', at: at.toISOString() } : null
 }
 
+function lapsedApproval(block: Block, names: Map<string, string>) {
+  const approval = block.reviewStatus !== 'approved' && block.approvedSettings ? stamp(block.approvedBy, block.approvedAt, names) : null
+  return approval ? { stamp: approval, settings: block.approvedSettings! } : null
+}
+
 export function blockDTO(block: Block, names: Map<string, string>): BlockDTO {
   return {
     id: block.id, kind: block.kind, position: block.position, version: block.version,
     content: block.content, settings: block.settings, updatedAt: block.updatedAt.toISOString(),
     updatedBy: block.updatedBy ? names.get(block.updatedBy) ?? null : null,
     review: block.kind === 'analysis'
-      ? { status: block.reviewStatus, note: block.reviewNote ?? null, stamp: stamp(block.reviewedBy, block.reviewedAt, names) }
+      ? { status: block.reviewStatus, note: block.reviewNote ?? null, stamp: stamp(block.reviewedBy, block.reviewedAt, names), lapsed: lapsedApproval(block, names) }
       : null,
     lock: stamp(block.lockedBy, block.lockedAt, names),
   }
@@ -48,9 +53,9 @@ export function claimDTO(claim: Claim, names: Map<string, string>, quote = claim
   }
 }
 
-/** Names of everyone a block mentions (editor, reviewer, locker). */
+/** Names of everyone a block mentions (editor, reviewer, locker, last approver). */
 export function blockPeople(block: Block) {
-  return [block.updatedBy, block.reviewedBy, block.lockedBy]
+  return [block.updatedBy, block.reviewedBy, block.lockedBy, block.approvedBy]
 }
 
 export async function listInvestigations(newsroomId: string): Promise<InvestigationSummaryDTO[]> {

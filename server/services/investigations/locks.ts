@@ -1,4 +1,5 @@
 import type { Transaction } from 'sequelize'
+import { formatDateTime } from '#shared/format/dates'
 import type { ProseContent } from '#shared/types/investigation'
 import { Op } from 'sequelize'
 import type { Block, Claim } from '../../models'
@@ -6,9 +7,8 @@ import { userNames } from './catalog'
 import { claimIdsIn, claimPassage } from './prose-claims'
 
 function lockedError(by: string, at: Date, what: string) {
-  const when = at.toISOString().slice(0, 16).replace('T', ' ')
   return fail(423, {
-    message: `${what} was locked by ${by} on ${when} UTC after fact-checking. Ask a data editor to lift the lock if it must change.`,
+    message: `${what} was locked by ${by} on ${formatDateTime(at)} after fact-checking. Ask a data editor to lift the lock if it must change.`,
     lockedBy: by, lockedAt: at.toISOString(),
   })
 }

@@ -34,7 +34,13 @@ export async function decideReview(actor: Actor, block: Block, investigation: In
     const current = await lockBlockForChange(block, transaction)
     if (version !== undefined && current.version !== version) return { stale: true, block: current }
     if (decision === 'approved') await assertFourEyes(actor, [current.createdBy, current.updatedBy], 'method', transaction)
-    await current.update({ reviewStatus: decision, reviewNote: note ?? null, reviewedBy: actor.userId, reviewedAt: new Date() }, { transaction })
+    const at = new Date()
+    // An approval keeps the settings it approved, so that settings changed and changed back can return it;
+    // sending back forgets it.
+    const approval = decision === 'approved'
+      ? { approvedFingerprint: fingerprintOf(current.settings ?? {}), approvedSettings: current.settings ?? {}, approvedBy: actor.userId, approvedAt: at }
+      : { approvedFingerprint: null, approvedSettings: null, approvedBy: null, approvedAt: null }
+    await current.update({ reviewStatus: decision, reviewNote: note ?? null, reviewedBy: actor.userId, reviewedAt: at, ...approval }, { transaction })
     await recordAudit({
       newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
       action: decision === 'approved' ? 'block.approved' : 'block.sent-back', subjectType: 'block', subjectId: block.id,
