@@ -1,4 +1,5 @@
 import { MAD_RANGES } from '../digits/mad'
+import { describeFilters, describeGrouping } from '../charts/filters'
 import type { DistributionTest, TestResult } from '../digits/types'
 import { TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
 import type { AnalysisSettings } from '../types/investigation'
@@ -32,8 +33,8 @@ function analysisSection(index: number, { settings, result }: AppendixAnalysis, 
   const lines = [`### ${index}. ${test ? TEST_LABELS[test] : 'Analysis'}${settings.column ? ` of “${settings.column}”` : ''}`, '']
   if (test) lines.push(TEST_DESCRIPTIONS[test], '')
   if (dataset) lines.push(`- Dataset: ${dataset.title} (${dataset.originalName}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
-  if (settings.filters?.length) lines.push(`- Rows: only where ${settings.filters.map(f => (f.op === 'equals' ? `${f.column} is “${f.value}”` : `${f.column} is between ${f.min ?? '−∞'} and ${f.max ?? '∞'}`)).join(' and ')}`)
-  if (settings.groupBy) lines.push(`- Groups: one test per value of “${settings.groupBy}”, ranked by excess MAD, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995)`)
+  if (settings.filters?.length) lines.push(`- Rows: only where ${describeFilters(settings.filters)}`)
+  if (settings.groupBy) lines.push(`- Groups: one test per ${settings.period ? describeGrouping(settings.groupBy, settings.period) : `value of “${settings.groupBy}”`}, ranked by excess MAD, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995)`)
   if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it, compared with a straight line through the outer eight`)
   lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
   if (result) {

@@ -1,5 +1,6 @@
 import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
+import { PERIODS } from '../dates/read-date'
 
 const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)
 
@@ -26,20 +27,34 @@ export const datasetUploadSchema = z.object({
 })
 export type DatasetUpload = z.output<typeof datasetUploadSchema>
 
+const filterColumn = z.string().min(1).max(200)
+const day = z.string().refine(isCalendarDate, 'Use a date that exists, like 2026-03-31')
+const textValues = z.array(z.string().max(1000)).min(1, 'Give at least one value').max(500)
+
+/** Rows a test keeps; several filters all hold at once. Text values compare with their spaces trimmed. */
 export const filterSchema = z.discriminatedUnion('op', [
-  z.object({ column: z.string().min(1).max(200), op: z.literal('equals'), value: z.string().max(1000) }),
-  z.object({ column: z.string().min(1).max(200), op: z.literal('between'), min: z.number().finite().optional(), max: z.number().finite().optional() }),
+  z.object({ column: filterColumn, op: z.literal('equals'), value: z.string().max(1000) }),
+  z.object({ column: filterColumn, op: z.literal('one-of'), values: textValues }),
+  z.object({ column: filterColumn, op: z.literal('not-one-of'), values: textValues }),
+  z.object({ column: filterColumn, op: z.literal('between'), min: z.number().finite().optional(), max: z.number().finite().optional() })
+    .refine(f => f.min === undefined || f.max === undefined || f.min <= f.max, { path: ['max'], message: 'The upper bound is below the lower one' }),
+  z.object({ column: filterColumn, op: z.literal('dates'), from: day.optional(), to: day.optional() })
+    .refine(f => !f.from || !f.to || f.from <= f.to, { path: ['to'], message: 'The end date is before the start date' }),
 ])
 export type DatasetFilter = z.output<typeof filterSchema>
+export const periodSchema = z.enum(PERIODS)
 
 export const digitTestRequestSchema = z.object({
   column: z.string().min(1, 'Choose a number column').max(200),
   test: z.enum(TEST_NAMES),
   filters: z.array(filterSchema).max(10).optional(),
   groupBy: z.string().min(1).max(200).optional(),
+  /** With groupBy naming a date column: group by its year, quarter or month instead of each date. */
+  period: periodSchema.optional(),
   threshold: z.number().positive().finite().optional(),
   sign: z.enum(['positive', 'negative']).optional(),
 }).refine(v => v.test !== 'threshold' || v.threshold !== undefined, { path: ['threshold'], message: 'The threshold test needs the limit, e.g. an approval limit of 10000' })
+  .refine(v => !v.period || v.groupBy, { path: ['period'], message: 'A period needs a date column to group by' })
 export type DigitTestRequestBody = z.output<typeof digitTestRequestSchema>
 
 export const previewQuerySchema = z.object({
@@ -70,5 +85,6 @@ export const drillDownQuerySchema = z.object({
     })
     .pipe(z.array(filterSchema).max(10).optional()),
   groupBy: z.string().max(200).optional(),
+  period: periodSchema.optional(),
   group: z.string().max(1000).optional(),
 }).transform(query => ({ ...query, test: query.test ?? KEY_LENGTH_TESTS[query.key.length] ?? 'first-digit' }))

@@ -1,6 +1,6 @@
 import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
-import { filterSchema } from './dataset'
+import { filterSchema, periodSchema } from './dataset'
 
 export const investigationCreateSchema = z.object({
   newsroomId: z.string().uuid(),
@@ -24,6 +24,7 @@ export const analysisSettingsSchema = z.object({
   test: z.enum(TEST_NAMES).optional(),
   filters: z.array(filterSchema).max(10).optional(),
   groupBy: z.string().max(200).optional(),
+  period: periodSchema.optional(),
   threshold: z.number().positive().finite().optional(),
   sign: z.enum(['positive', 'negative']).optional(),
 })

@@ -17,6 +17,7 @@ function columnDTO(column: DatasetColumn): ColumnDTO {
     parsed: numeric ? column.parsed : null, blank: column.blank, unreadable: numeric ? column.unreadable : null,
     zero: numeric ? column.zero : null, negative: numeric ? column.negative : null,
     min: column.min, max: column.max, magnitudeSpan: column.magnitudeSpan, samples: column.samples, coded: column.coded,
+    dates: column.dates ?? null,
   }
 }
 

@@ -1,4 +1,4 @@
-import { DISTRIBUTIONS, MINIMUM_VALUES, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
+import { DISTRIBUTIONS, MINIMUM_VALUES, RULES, compareDecimal, runDigitTest, thresholdBand, decimalToText, toDecimal } from '#shared/digits'
 import type {
   ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
   SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
@@ -8,8 +8,8 @@ import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
 import { cubeKeyIndex, cubeSlices, countsFromCube } from './digit-cube'
-import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows, signCode } from './digit-query'
-import type { DigitQuery } from './digit-query'
+import { buildDigitQuery, codeCondition, columnByName, decodeGroups, groupNames, rawSelect, selectRows, signCode } from './digit-query'
+import type { CodeFilter, DigitQuery } from './digit-query'
 
 const SNAKE: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
 const STATUS_NAMES = ['blank', 'unreadable', 'zero'] as const
@@ -65,7 +65,7 @@ async function statusAndDistribution(test: DistributionTest, query: DigitQuery, 
 }
 
 /** The whole column's counts as the sum of its groups' counts. */
-function mergeGroups(groups: Grouped<DistributionCounts>): DistributionCounts {
+function mergeGroups(groups: Map<string | null, DistributionCounts>): DistributionCounts {
   const status = emptyStatus()
   const keys = new Map<number | string | null, number>()
   const arc = { cos: 0, sin: 0 }
@@ -87,17 +87,21 @@ async function summationCounts(query: DigitQuery, sign: SignFilter, grouped: boo
   return byGroup
 }
 
-async function duplicateCounts(query: DigitQuery, sign: SignFilter): Promise<Omit<DuplicateCounts, 'status'>> {
-  const top = await selectRows<{ value: string, count: number }>(query, {
-    select: 'd.value::text AS value, count(*)::int AS count', extra: ofSign(sign), groupBy: 'd.value',
-    tail: 'HAVING count(*) > 1 ORDER BY count(*) DESC, d.value LIMIT 50',
-  })
-  const [totals = { distinct: 0, values: 0, rows: 0 }] = await rawSelect<{ distinct: number, values: number, rows: number }>(
-    `SELECT count(*)::int AS distinct, (count(*) FILTER (WHERE c > 1))::int AS values, coalesce(sum(c) FILTER (WHERE c > 1), 0)::int AS rows
-     FROM (SELECT count(*) AS c FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)} GROUP BY d.value) g`,
+/**
+ * Repeated values of the query's records, in one GROUP BY value: how many distinct values, how many
+ * repeat and in how many rows, and the 50 most repeated. Also run once after an import for each whole
+ * column (import.ts keeps it in dataset_columns.repeats).
+ */
+export async function duplicateCounts(query: Pick<DigitQuery, 'from' | 'where' | 'replacements'>, sign: SignFilter): Promise<Omit<DuplicateCounts, 'status'>> {
+  const [row] = await rawSelect<{ distinct: number, values: number, rows: number, top: Array<{ value: string, count: number }> | null }>(
+    `WITH g AS MATERIALIZED (SELECT d.value, count(*)::int AS c FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)} GROUP BY d.value)
+     SELECT (SELECT count(*) FROM g)::int AS distinct, (SELECT count(*) FROM g WHERE c > 1)::int AS values,
+       (SELECT coalesce(sum(c), 0) FROM g WHERE c > 1)::int AS rows,
+       (SELECT json_agg(json_build_object('value', t.value::text, 'count', t.c) ORDER BY t.c DESC, t.value)
+          FROM (SELECT value, c FROM g WHERE c > 1 ORDER BY c DESC, value LIMIT 50) t) AS top`,
     query.replacements,
   )
-  return { distinct: totals.distinct, repeated: { values: totals.values, rows: totals.rows }, top }
+  return { distinct: row?.distinct ?? 0, repeated: { values: row?.values ?? 0, rows: row?.rows ?? 0 }, top: row?.top ?? [] }
 }
 
 async function roundCounts(query: DigitQuery, sign: SignFilter): Promise<Omit<RoundCounts, 'status'>> {
@@ -119,7 +123,7 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
 
 /** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
 export function storedColumn(datasetId: string, position: number) {
-  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups'] })
+  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'repeats'] })
 }
 
 /**
@@ -128,18 +132,45 @@ export function storedColumn(datasetId: string, position: number) {
  */
 async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
   if (!filtered && stored?.profiles) return stored.profiles[sign]
-  return profileCounts(query, sign)
+  return profileCounts(query, sign, stored?.profiles?.[sign]?.topValue)
 }
 
-/** A distribution test's counts as the import kept them (digit-cube.ts), whole or per group, without a scan. */
-async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter): Promise<Grouped<DistributionCounts>> {
+/** The import's counts (digit-cube.ts) of one column by one text column (-1: whole), by code, for the codes the filters keep. */
+async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter, filters: CodeFilter[]): Promise<Map<string, DistributionCounts>> {
   const slices = cubeSlices(test, sign)
+  const kept = filters.map(filter => ` AND ${codeCondition('group_code', filter)}`).join('')
   const rows = await rawSelect<{ grp: number, status: number[], keys: number[], arc: number[] }>(
     `SELECT group_code AS grp, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc
-     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos`,
+     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos${kept}`,
     { datasetId, columnPos, groupPos },
   )
-  return new Map(rows.map(row => [groupPos < 0 ? null : String(row.grp), countsFromCube(test, sign, row)]))
+  return new Map(rows.map(row => [String(row.grp), countsFromCube(test, sign, row)]))
+}
+
+/**
+ * A distribution test's counts from the import's cube, without a scan, when it holds them: no
+ * filters, or text and date filters on one column only, with no grouping or a grouping by that
+ * same column (its values or the periods of its dates). Null when the records must be counted.
+ */
+async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, cubeGroups: number[] | null | undefined, query: DigitQuery, sign: SignFilter): Promise<Grouped<DistributionCounts> | null> {
+  const filters = query.codeFilters
+  if (!filters || !cubeGroups) return null
+  const filtered = new Set(filters.map(f => f.position))
+  const groupPos = query.decoding ? query.decoding.position : query.group ? null : filters.length ? filters[0]!.position : -1
+  if (groupPos === null || filtered.size > 1 || (filtered.size && !filtered.has(groupPos)) || !cubeGroups.includes(groupPos)) return null
+  const cells = await cubeCells(test, datasetId, columnPos, groupPos, sign, filters)
+  if (!query.decoding) return new Map([[null, groupPos < 0 ? cells.get('0') ?? { status: emptyStatus(), keys: [] } : mergeGroups(new Map(cells))]])
+  const periods = query.decoding.periods
+  if (!periods) {
+    const names = await groupNames(datasetId, query.decoding)
+    return new Map([...cells].map(([code, counts]) => [names.get(code) ?? '', counts]))
+  }
+  const byPeriod: Grouped<DistributionCounts> = new Map()
+  for (const [label, codes] of periods) {
+    const inPeriod = new Map(codes.flatMap(code => (cells.has(String(code)) ? [[String(code), cells.get(String(code))!] as const] : [])))
+    if (inPeriod.size) byPeriod.set(label, mergeGroups(inPeriod))
+  }
+  return byPeriod
 }
 
 /**
@@ -160,21 +191,50 @@ export async function cubeBinCount(datasetId: string, tested: ColumnDTO, bin: { 
   return row?.count ?? 0
 }
 
-async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<CountedProfile | null> {
-  const [row] = await rawSelect<CountedProfile>(`
-    WITH v AS MATERIALIZED (SELECT abs(d.value) AS a, d.value, d.integer_digits, d.fraction_digits, d.trailing_zeros FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)})
-    SELECT (SELECT count(*) FROM v)::int AS n, (SELECT min(a) FROM v)::text AS min, (SELECT max(a) FROM v)::text AS max,
-      (SELECT count(*) FROM v WHERE a = (SELECT min(a) FROM v))::int AS "atMin",
-      (SELECT count(*) FROM v WHERE a = (SELECT max(a) FROM v))::int AS "atMax",
-      (SELECT count(*) FROM v WHERE fraction_digits = 0)::int AS whole,
-      (SELECT count(*) FROM v WHERE fraction_digits = 0 AND trailing_zeros >= 2)::int AS "roundHundreds",
-      coalesce((SELECT max(c) FROM (SELECT count(*) AS c FROM v GROUP BY integer_digits) l), 0)::int AS "commonLength",
-      coalesce((SELECT max(c) FROM (SELECT count(*) AS c FROM v GROUP BY value) t), 0)::int AS "topValue"
-  `, query.replacements)
-  return row && row.n > 0 ? row : null
+/**
+ * The suitability facts of the query's values. One pass by number of integer digits gives n, the
+ * ends, whole and round counts and the commonest length. How many values sit at each end and how
+ * often the commonest value repeats matter only when they could reach the pile-up or repeated-value
+ * rule: the whole column's commonest value (`wholeTop`, exact) bounds all three, so below the rules
+ * they keep that bound and cost no second scan.
+ */
+async function profileCounts(query: DigitQuery, sign: SignFilter, wholeTop?: number): Promise<CountedProfile | null> {
+  const lengths = await selectRows<{ n: number, min: string, max: string, whole: number, round: number }>(query, {
+    select: `count(*)::int AS n, min(abs(d.value))::text AS min, max(abs(d.value))::text AS max,
+      (count(*) FILTER (WHERE d.fraction_digits = 0))::int AS whole,
+      (count(*) FILTER (WHERE d.fraction_digits = 0 AND d.trailing_zeros >= 2))::int AS round`,
+    extra: ofSign(sign), groupBy: 'd.integer_digits',
+  })
+  if (!lengths.length) return null
+  const byValue = (a: string, b: string) => compareDecimal(toDecimal(a), toDecimal(b))
+  const n = lengths.reduce((sum, l) => sum + l.n, 0)
+  const min = lengths.map(l => l.min).reduce((a, b) => (byValue(a, b) <= 0 ? a : b))
+  const max = lengths.map(l => l.max).reduce((a, b) => (byValue(a, b) >= 0 ? a : b))
+  const profile: CountedProfile = {
+    n, min, max, atMin: 0, atMax: 0,
+    whole: lengths.reduce((sum, l) => sum + l.whole, 0),
+    roundHundreds: lengths.reduce((sum, l) => sum + l.round, 0),
+    commonLength: Math.max(...lengths.map(l => l.n)),
+    topValue: 0,
+  }
+  const bound = wholeTop ?? n
+  if (bound < Math.min(RULES.pileUp, RULES.repeated) * n) return { ...profile, atMin: bound, atMax: bound, topValue: bound }
+  const signed = (text: string) => (sign === 'positive' ? text : `-${text}`)
+  const [ends, top] = await Promise.all([
+    selectRows<{ atMin: number, atMax: number }>(query, {
+      select: '(count(*) FILTER (WHERE d.value = CAST(:atMin AS numeric)))::int AS "atMin", (count(*) FILTER (WHERE d.value = CAST(:atMax AS numeric)))::int AS "atMax"',
+      extra: `${ofSign(sign)} AND d.value IN (CAST(:atMin AS numeric), CAST(:atMax AS numeric))`,
+    }, { atMin: signed(min), atMax: signed(max) }),
+    selectRows<{ top: number }>(query, { select: 'count(*)::int AS top', extra: ofSign(sign), groupBy: 'd.value', tail: 'ORDER BY 1 DESC LIMIT 1' }),
+  ])
+  return { ...profile, atMin: ends[0]?.atMin ?? 0, atMax: ends[0]?.atMax ?? 0, topValue: top[0]?.top ?? 0 }
 }
 
 const GROUPABLE = new Set<TestName>(['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'])
+
+/** Why a test ranks no groups, in the words the settings form and the API give. */
+export const UNGROUPED_REASON = 'Repeated amounts, round amounts and the threshold test are not ranked by group: '
+  + 'they have no expected distribution to measure each group against. Filter the rows to one group instead.'
 
 async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number): Promise<Grouped<object>> {
   if (test === 'summation') return summationCounts(query, sign, grouped)
@@ -186,42 +246,47 @@ async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, g
 
 /**
  * Runs one digit test on a stored dataset: PostgreSQL counts the stored digit records
- * (filtered, optionally per group), the engine turns the counts into statistics.
+ * (filtered, optionally per group), the engine turns the counts into statistics. Where the
+ * import's counts hold the answer (no filters, or filters on the grouping column only) they are
+ * read instead of the records.
  */
 export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBody): Promise<TestResult> {
   if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
   const columns = await datasetColumns(dataset.id)
   const tested = columnByName(columns, body.column, 'column')
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers. Choose an amount or count column.` }])
-  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: 'Groups can be ranked for the digit tests and the summation test only.' }])
+  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: UNGROUPED_REASON }])
   const sign = body.sign ?? 'positive'
-  const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
-  const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
-  const stored = await storedColumn(dataset.id, tested.position)
-  const profile = profileOf(stored, whole, sign, Boolean(body.filters?.length))
+  const filtered = Boolean(body.filters?.length)
+  const [whole, grouping, stored] = await Promise.all([
+    buildDigitQuery(dataset.id, columns, tested, body.filters),
+    body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy, body.period) : null,
+    storedColumn(dataset.id, tested.position),
+  ])
+  const profile = profileOf(stored, whole, sign, filtered)
 
   let counts: TestCountsMap[TestName]
   let groupCounts: Grouped<{ status: StatusCounts }> | null = null
   if (body.test in DISTRIBUTIONS) {
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
-    // Unfiltered, the counts the import kept answer without a scan.
     const test = body.test as DistributionTest
-    const groupPos = body.groupBy ? columnByName(columns, body.groupBy, 'groupBy').position : -1
-    const scanned = !body.filters?.length && stored?.cubeGroups?.includes(groupPos)
-      ? await cubeDistribution(test, dataset.id, tested.position, groupPos, sign)
-      : await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping))
+    const fromCube = await cubeDistribution(test, dataset.id, tested.position, stored?.cubeGroups, grouping ?? whole, sign)
+    const scanned: Grouped<DistributionCounts> = fromCube ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
     counts = grouping ? mergeGroups(scanned) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {
-    const [status, byTest] = await Promise.all([statusCounts(whole, false), testCounts(body.test, whole, sign, false, body.threshold)])
+    const repeats = body.test === 'duplicates' && !filtered ? stored?.repeats?.[sign] : null
+    const [status, byTest] = await Promise.all([
+      statusCounts(whole, false),
+      repeats ? new Map([[null, repeats]]) : testCounts(body.test, whole, sign, false, body.threshold),
+    ])
     counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]
     if (grouping) {
       const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), testCounts(body.test, grouping, sign, true)])
-      groupCounts = new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }]))
+      groupCounts = await decodeGroups(grouping, new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }])))
     }
   }
-  if (grouping && groupCounts) groupCounts = await decodeGroups(grouping, groupCounts)
   const input = { counts, profile: await profile }
   const groups: Parameters<typeof runDigitTest>[0]['groups'] = groupCounts
     ? {
