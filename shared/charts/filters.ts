@@ -1,4 +1,5 @@
 import type { DatasetFilter } from '../schemas/dataset'
+import { periodRange } from '../dates/read-date'
 import type { Period } from '../dates/read-date'
 
 const quoted = (values: readonly string[]) => values.map(v => `“${v}”`).join(', ')
@@ -29,4 +30,21 @@ export const PERIOD_LABELS: Record<Period, string> = { year: 'year', quarter: 'q
 export function describeGrouping(groupBy: string | undefined, period: Period | undefined): string | null {
   if (!groupBy) return null
   return period ? `${PERIOD_LABELS[period]} of “${groupBy}”` : `“${groupBy}”`
+}
+
+/**
+ * The settings of one group's own test, drilled into from a ranking: the same test without the
+ * grouping, with one more filter that keeps the group's rows. Null for the group of texts that read
+ * as no date, which no date range holds.
+ */
+export function settingsOfGroup<T extends { groupBy?: string, period?: Period, filters?: DatasetFilter[] }>(settings: T, group: string): T | null {
+  if (!settings.groupBy) return null
+  let filter: DatasetFilter
+  if (settings.period) {
+    const range = periodRange(group)
+    if (!range) return null
+    filter = { column: settings.groupBy, op: 'dates', ...range }
+  }
+  else filter = { column: settings.groupBy, op: 'one-of', values: [group] }
+  return { ...settings, groupBy: undefined, period: undefined, filters: [...(settings.filters ?? []), filter] }
 }

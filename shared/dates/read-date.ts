@@ -114,3 +114,14 @@ export function periodOf(day: number, period: Period): string {
   if (period === 'month') return text.slice(0, 7)
   return `${text.slice(0, 4)}-Q${Math.floor((Number(text.slice(5, 7)) - 1) / 3) + 1}`
 }
+
+/** The first and last day (YYYY-MM-DD) of a period label as periodOf writes it, or null for another text. */
+export function periodRange(label: string): { from: string, to: string } | null {
+  const match = /^(\d{4})(?:-Q([1-4])|-(\d{2}))?$/.exec(label)
+  if (!match) return null
+  const year = Number(match[1])
+  const [first, last] = match[2] ? [3 * Number(match[2]) - 2, 3 * Number(match[2])] : match[3] ? [Number(match[3]), Number(match[3])] : [1, 12]
+  const from = dayNumber(year, first, 1)
+  const to = dayNumber(last === 12 ? year + 1 : year, last === 12 ? 1 : last + 1, 1)
+  return from === null || to === null ? null : { from: dayText(from), to: dayText(to - 1) }
+}

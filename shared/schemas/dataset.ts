@@ -70,6 +70,8 @@ export const drillDownQuerySchema = z.object({
   column: z.string().min(1).max(200),
   key: z.string().min(1).max(60),
   page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+  /** Rows a page: 50 unless asked; up to 5,000 for the browser's own table and downloads. */
+  pageSize: z.coerce.number().int().min(1).max(5000).default(50),
   sign: z.enum(['positive', 'negative']).optional(),
   threshold: z.coerce.number().positive().finite().optional(),
   filters: z.string().max(20_000).optional()

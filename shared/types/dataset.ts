@@ -7,6 +7,8 @@ export interface ColumnDTO {
   kind: ColumnKind
   /** Whether digit records were stored for it (the column reads mostly as numbers). */
   numeric: boolean
+  /** How its numbers were read: the decimal mark (null for text columns). */
+  decimalMark: '.' | ',' | null
   parsed: number | null
   blank: number
   unreadable: number | null

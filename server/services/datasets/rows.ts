@@ -42,6 +42,7 @@ export interface DrillDown {
   column: string
   key: string
   page: number
+  pageSize?: number
   sign?: 'positive' | 'negative'
   threshold?: number
   filters?: DatasetFilter[]
@@ -80,7 +81,8 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   const query = await buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy, request.period)
   const bin = binCondition(request.test, request.key, request.threshold)
   let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
-  const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
+  const pageSize = request.pageSize ?? PAGE_SIZE
+  const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * pageSize, limit: pageSize }
   if (query.groupEquals && request.group !== undefined) {
     where += ` AND ${query.groupEquals}`
     Object.assign(replacements, groupReplacements(query, request.group))
@@ -91,12 +93,12 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   const groupColumn = request.groupBy && request.group !== undefined && !request.period ? columnByName(columns, request.groupBy, 'groupBy') : null
   const [items, counted] = await Promise.all([
     rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells
-      FROM (SELECT d.row_no FROM ${query.from} WHERE ${where} ORDER BY d.row_no LIMIT ${PAGE_SIZE} OFFSET :offset) hit
+      FROM (SELECT d.row_no FROM ${query.from} WHERE ${where} ORDER BY d.row_no LIMIT :limit OFFSET :offset) hit
       JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = hit.row_no ORDER BY r.row_no`, replacements),
     distribution && !request.filters?.length && !(request.period && request.group !== undefined)
       ? cubeBinCount(dataset.id, tested, { test: distribution, key: Number(request.key), sign: request.sign ?? 'positive' }, groupColumn ? { column: groupColumn, value: request.group! } : undefined)
       : null,
   ])
   const total = counted ?? (await rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${query.from} WHERE ${where}`, replacements))[0]?.total ?? 0
-  return { page: request.page, pageSize: PAGE_SIZE, total, items, column: tested.name, key: request.key }
+  return { page: request.page, pageSize, total, items, column: tested.name, key: request.key }
 }
