@@ -7,7 +7,7 @@ import type { DigitTestRequestBody } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { cubeKeyIndex, cubeSlices, countsFromCube } from './digit-cube'
+import { cubeFactSlices, cubeKeyIndex, cubeSlices, countsFromCube, profileFromCells } from './digit-cube'
 import { buildDigitQuery, codeCondition, columnByName, decodeGroups, groupNames, rawSelect, selectRows, signCode } from './digit-query'
 import type { CodeFilter, DigitQuery } from './digit-query'
 
@@ -130,21 +130,36 @@ export function storedColumn(datasetId: string, position: number) {
  * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
  * for a whole column, counted here when filters narrow the rows.
  */
-async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
+async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean, fromCells?: CellProfile): Promise<CountedProfile | null> {
   if (!filtered && stored?.profiles) return stored.profiles[sign]
-  return profileCounts(query, sign, stored?.profiles?.[sign]?.topValue)
+  const wholeTop = stored?.profiles?.[sign]?.topValue
+  if (!fromCells) return profileCounts(query, sign, wholeTop)
+  // The commonest value's count of a part never exceeds the whole column's: below the rule, that bound will do.
+  if (wholeTop !== undefined && wholeTop < RULES.repeated * fromCells.n) return { ...fromCells, topValue: wholeTop }
+  const [top] = await selectRows<{ top: number }>(query, { select: 'count(*)::int AS top', extra: ofSign(sign), groupBy: 'd.value', tail: 'ORDER BY 1 DESC LIMIT 1' })
+  return { ...fromCells, topValue: top?.top ?? 0 }
 }
 
-/** The import's counts (digit-cube.ts) of one column by one text column (-1: whole), by code, for the codes the filters keep. */
-async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter, filters: CodeFilter[]): Promise<Map<string, DistributionCounts>> {
+type CellProfile = Omit<CountedProfile, 'topValue'>
+
+/**
+ * The import's counts (digit-cube.ts) of one column by one text column (-1: whole), by code, for the
+ * codes the filters keep; and the suitability facts of the values they hold.
+ */
+async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter, filters: CodeFilter[]) {
   const slices = cubeSlices(test, sign)
+  const facts = cubeFactSlices(sign)
   const kept = filters.map(filter => ` AND ${codeCondition('group_code', filter)}`).join('')
-  const rows = await rawSelect<{ grp: number, status: number[], keys: number[], arc: number[] }>(
-    `SELECT group_code AS grp, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc
+  const rows = await rawSelect<{ grp: number, status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }>(
+    `SELECT group_code AS grp, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
      FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos${kept}`,
     { datasetId, columnPos, groupPos },
   )
-  return new Map(rows.map(row => [String(row.grp), countsFromCube(test, sign, row)]))
+  const counted = rows.map(row => ({ row, counts: countsFromCube(test, sign, row) }))
+  return {
+    counts: new Map(counted.map(({ row, counts }) => [String(row.grp), counts])),
+    profile: profileFromCells(counted.map(({ row, counts }) => ({ n: counts.status[sign], facts: row.facts, ends: row.ends }))),
+  }
 }
 
 /**
@@ -152,25 +167,25 @@ async function cubeCells(test: DistributionTest, datasetId: string, columnPos: n
  * filters, or text and date filters on one column only, with no grouping or a grouping by that
  * same column (its values or the periods of its dates). Null when the records must be counted.
  */
-async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, cubeGroups: number[] | null | undefined, query: DigitQuery, sign: SignFilter): Promise<Grouped<DistributionCounts> | null> {
+async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, cubeGroups: number[] | null | undefined, query: DigitQuery, sign: SignFilter): Promise<{ groups: Grouped<DistributionCounts>, profile: CellProfile | null } | null> {
   const filters = query.codeFilters
   if (!filters || !cubeGroups) return null
   const filtered = new Set(filters.map(f => f.position))
   const groupPos = query.decoding ? query.decoding.position : query.group ? null : filters.length ? filters[0]!.position : -1
   if (groupPos === null || filtered.size > 1 || (filtered.size && !filtered.has(groupPos)) || !cubeGroups.includes(groupPos)) return null
-  const cells = await cubeCells(test, datasetId, columnPos, groupPos, sign, filters)
-  if (!query.decoding) return new Map([[null, groupPos < 0 ? cells.get('0') ?? { status: emptyStatus(), keys: [] } : mergeGroups(new Map(cells))]])
+  const { counts: cells, profile } = await cubeCells(test, datasetId, columnPos, groupPos, sign, filters)
+  if (!query.decoding) return { groups: new Map([[null, groupPos < 0 ? cells.get('0') ?? { status: emptyStatus(), keys: [] } : mergeGroups(new Map(cells))]]), profile }
   const periods = query.decoding.periods
   if (!periods) {
     const names = await groupNames(datasetId, query.decoding)
-    return new Map([...cells].map(([code, counts]) => [names.get(code) ?? '', counts]))
+    return { groups: new Map([...cells].map(([code, counts]) => [names.get(code) ?? '', counts])), profile }
   }
   const byPeriod: Grouped<DistributionCounts> = new Map()
   for (const [label, codes] of periods) {
     const inPeriod = new Map(codes.flatMap(code => (cells.has(String(code)) ? [[String(code), cells.get(String(code))!] as const] : [])))
     if (inPeriod.size) byPeriod.set(label, mergeGroups(inPeriod))
   }
-  return byPeriod
+  return { groups: byPeriod, profile }
 }
 
 /**
@@ -263,19 +278,20 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy, body.period) : null,
     storedColumn(dataset.id, tested.position),
   ])
-  const profile = profileOf(stored, whole, sign, filtered)
-
   let counts: TestCountsMap[TestName]
   let groupCounts: Grouped<{ status: StatusCounts }> | null = null
+  let profile: Promise<CountedProfile | null>
   if (body.test in DISTRIBUTIONS) {
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
     const test = body.test as DistributionTest
     const fromCube = await cubeDistribution(test, dataset.id, tested.position, stored?.cubeGroups, grouping ?? whole, sign)
-    const scanned: Grouped<DistributionCounts> = fromCube ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
+    profile = profileOf(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
+    const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
     counts = grouping ? mergeGroups(scanned) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {
+    profile = profileOf(stored, whole, sign, filtered)
     const repeats = body.test === 'duplicates' && !filtered ? stored?.repeats?.[sign] : null
     const [status, byTest] = await Promise.all([
       statusCounts(whole, false),
