@@ -22,6 +22,8 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
   declare coded: CreationOptional<boolean>
   /** Text column positions (-1: none) whose digit counts were kept at import (digit-cube.ts); null: scan. */
   declare cubeGroups: CreationOptional<number[] | null>
+  /** Pairs of text column positions counted together (digit-cube.ts), one after the other; null: none. */
+  declare cubePairs: CreationOptional<number[] | null>
   /** Per sign, the suitability facts of the whole column (null for text columns). */
   declare profiles: CreationOptional<Record<'positive' | 'negative', SuitabilityProfile | null> | null>
 
@@ -49,6 +51,7 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
       profiles: { type: DataTypes.JSONB, allowNull: true },
       coded: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       cubeGroups: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
+      cubePairs: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
       dates: { type: DataTypes.JSONB, allowNull: true },
       repeats: { type: DataTypes.JSONB, allowNull: true },
     }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })

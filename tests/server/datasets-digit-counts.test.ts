@@ -51,6 +51,12 @@ const VARIANTS: Variant[] = [
   },
   { label: 'grouped by vendor', keep: () => true, groupBy: byVendor },
   { label: 'department equals Roads, grouped by vendor', filters: [{ column: 'department', op: 'equals', value: 'Roads' }], keep: e => e.department === 'Roads', groupBy: byVendor },
+  {
+    label: 'vendor one of two and department not Parks',
+    filters: [{ column: 'vendor', op: 'one-of', values: ['Alderbank Works', 'Fallowmere Ltd'] }, { column: 'department', op: 'not-one-of', values: ['Parks'] }],
+    keep: e => ['Alderbank Works', 'Fallowmere Ltd'].includes(e.vendor) && e.department !== 'Parks',
+  },
+  { label: 'department one of two, grouped by vendor', filters: [{ column: 'department', op: 'one-of', values: ['Roads', 'Libraries'] }], keep: e => e.department !== 'Parks', groupBy: byVendor },
   { label: 'vendor none of one, grouped by vendor', filters: [{ column: 'vendor', op: 'not-one-of', values: ['Alderbank Works'] }], keep: e => e.vendor !== 'Alderbank Works', groupBy: byVendor },
   { label: 'grouped by month of paid_on', keep: () => true, groupBy: { column: 'paid_on', period: 'month', of: periodOf('month') } },
   { label: 'grouped by quarter of paid_on, vendor Alderbank Works', filters: [{ column: 'vendor', op: 'one-of', values: ['Alderbank Works'] }], keep: e => e.vendor === 'Alderbank Works', groupBy: { column: 'paid_on', period: 'quarter', of: periodOf('quarter') } },

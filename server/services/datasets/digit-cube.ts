@@ -38,8 +38,32 @@ const STATUS_SLOT = { blank: 0, unreadable: 1, zero: 2 } as const
 
 /** A text column with more values than this is not counted per value: grouping by it scans. */
 const MAX_GROUPS = 5000
-/** Cells in memory per import, about 9 KB each, across all column pairs. */
+/** Cells in memory per import, about 9 KB each, across all number and text columns. */
 const MAX_CELLS = 8000
+/**
+ * Two text columns are also counted together, one cell per pair of values that occurs (department
+ * by vendor), so that a filter on one and a grouping by the other need no scan either; a pair with
+ * more cells than this stops being counted, and all pairs together keep at most PAIR_CELLS.
+ */
+const MAX_PAIR_CELLS = 2500
+const PAIR_CELLS = 4000
+/** Pairs counted per number column at most: each costs a lookup per value. */
+const MAX_PAIRS = 6
+
+/**
+ * The pairs of text columns worth counting together, from the first rows: both with few values
+ * there, the pairs with the fewest combinations first.
+ */
+export function choosePairs(textPositions: number[], sample: readonly string[][]): [number, number][] {
+  const distinct = new Map(textPositions.map(p => [p, new Set(sample.map(row => (row[p] ?? '').trim())).size]))
+  const few = textPositions.filter(p => distinct.get(p)! <= Math.min(MAX_PAIR_CELLS, Math.max(10, sample.length / 2)))
+  const pairs = few.flatMap((first, i) => few.slice(i + 1).map(second => [first, second] as [number, number]))
+  return pairs.filter(([a, b]) => distinct.get(a)! * distinct.get(b)! <= MAX_PAIR_CELLS)
+    .sort((x, y) => distinct.get(x[0])! * distinct.get(x[1])! - distinct.get(y[0])! * distinct.get(y[1])!)
+    .slice(0, MAX_PAIRS)
+}
+/** A pair's cell key: the first column's code times this, plus the second's (codes stay under MAX_GROUPS). */
+const PAIR_KEY = 8192
 
 /** Every combination of the tests a value has a key for (a value under 10 has no first two digits). */
 const MASKS = 1 << FIELDS.length
@@ -171,13 +195,22 @@ interface Grouping {
   cells: (Cell | undefined)[]
 }
 
-/** Counts for one number column: the whole column, and per code of each text column still counted. */
+/** Counts for one number column by two text columns together: a cell per pair of codes that occurs. */
+interface Pairing {
+  first: number
+  second: number
+  cells: Map<number, Cell>
+}
+
+/** Counts for one number column: the whole column, and per code of each text column (and pair of them) still counted. */
 class ColumnCube {
   readonly whole = new Cell()
   readonly groupings: Grouping[]
+  readonly pairings: Pairing[]
 
-  constructor(textPositions: number[]) {
+  constructor(textPositions: number[], pairs: [number, number][]) {
     this.groupings = textPositions.map(position => ({ position, cells: [] }))
+    this.pairings = pairs.map(([first, second]) => ({ first, second, cells: new Map<number, Cell>() }))
   }
 }
 
@@ -185,10 +218,11 @@ export class DigitCubeCounter {
   /** By column position; only number columns have one. */
   private readonly columns: (ColumnCube | undefined)[] = []
   private cells = 0
+  private pairCells = 0
   private readonly slots = new Slots()
 
-  constructor(numberPositions: number[], textPositions: number[]) {
-    for (const position of numberPositions) this.columns[position] = new ColumnCube(textPositions)
+  constructor(numberPositions: number[], textPositions: number[], pairs: [number, number][] = []) {
+    for (const position of numberPositions) this.columns[position] = new ColumnCube(textPositions, pairs)
   }
 
   /** Counts one number cell; `codes` are its row's group codes (0: none). */
@@ -214,6 +248,23 @@ export class DigitCubeCounter {
       }
       cell.add(slots)
     }
+    const pairings = cube.pairings
+    for (let p = 0; p < pairings.length; p++) {
+      const pairing = pairings[p]!
+      const [a, b] = [codes[pairing.first]!, codes[pairing.second]!]
+      const key = a * PAIR_KEY + b
+      let cell = pairing.cells.get(key)
+      if (!cell) {
+        if (a === 0 || b === 0 || a > MAX_GROUPS || b > MAX_GROUPS || pairing.cells.size >= MAX_PAIR_CELLS || this.pairCells >= PAIR_CELLS) {
+          pairings.splice(p--, 1)
+          this.pairCells -= pairing.cells.size
+          continue
+        }
+        pairing.cells.set(key, cell = new Cell())
+        this.pairCells++
+      }
+      cell.add(slots)
+    }
   }
 
   private drop(cube: ColumnCube, index: number) {
@@ -227,32 +278,45 @@ export class DigitCubeCounter {
     return cube ? [-1, ...cube.groupings.map(g => g.position)] : []
   }
 
+  /** The pairs of text columns a number column was counted by, one after the other: [first, second, first, second, …]. */
+  pairingsOf(columnPos: number): number[] {
+    return this.columns[columnPos]?.pairings.flatMap(p => [p.first, p.second]) ?? []
+  }
+
   write(out: CopyEncoder, dataset: Buffer) {
     this.columns.forEach((cube, columnPos) => {
       if (!cube) return
-      writeCell(out, dataset, columnPos, -1, 0, cube.whole)
+      writeCell(out, dataset, columnPos, { position: -1, code: 0 }, null, cube.whole)
       for (const { position, cells } of cube.groupings) {
         cells.forEach((cell, code) => {
-          if (cell) writeCell(out, dataset, columnPos, position, code, cell)
+          if (cell) writeCell(out, dataset, columnPos, { position, code }, null, cell)
         })
+      }
+      for (const { first, second, cells } of cube.pairings) {
+        for (const [key, cell] of cells) writeCell(out, dataset, columnPos, { position: first, code: Math.floor(key / PAIR_KEY) }, { position: second, code: key % PAIR_KEY }, cell)
       }
     })
   }
 }
 
-function writeCell(out: CopyEncoder, dataset: Buffer, columnPos: number, groupPos: number, code: number, cell: Cell) {
-  out.row(7)
+type CellGroup = { position: number, code: number }
+
+/** One cell: of the whole column (group position -1), of one text column's value, or of a pair of values. */
+function writeCell(out: CopyEncoder, dataset: Buffer, columnPos: number, group: CellGroup, pair: CellGroup | null, cell: Cell) {
+  out.row(9)
   out.raw(dataset)
   out.int16(columnPos)
-  out.int16(groupPos)
-  out.int32(code)
+  out.int16(group.position)
+  out.int32(group.code)
+  out.int16(pair?.position ?? -1)
+  out.int32(pair?.code ?? 0)
   out.int32Array(cell.counts)
   out.float8Array(cell.arcs())
   const ends = cell.extremeTexts()
   out.textArray(ends, 0, ends.length)
 }
 
-export const CUBE_COLUMNS = ['dataset_id', 'column_pos', 'group_pos', 'group_code', 'counts', 'arcs', 'ends']
+export const CUBE_COLUMNS = ['dataset_id', 'column_pos', 'group_pos', 'group_code', 'pair_pos', 'pair_code', 'counts', 'arcs', 'ends']
 
 /**
  * The SQL slices of a cube row that one test and sign need (PostgreSQL arrays count from 1):

@@ -65,11 +65,11 @@ async function statusAndDistribution(test: DistributionTest, query: DigitQuery, 
 }
 
 /** The whole column's counts as the sum of its groups' counts. */
-function mergeGroups(groups: Map<string | null, DistributionCounts>): DistributionCounts {
+function mergeGroups(groups: Iterable<DistributionCounts>): DistributionCounts {
   const status = emptyStatus()
   const keys = new Map<number | string | null, number>()
   const arc = { cos: 0, sin: 0 }
-  for (const group of groups.values()) {
+  for (const group of groups) {
     for (const name of Object.keys(status) as (keyof StatusCounts)[]) status[name] += group.status[name]
     for (const { key, count } of group.keys) keys.set(key, (keys.get(key) ?? 0) + count)
     arc.cos += group.arc?.cos ?? 0
@@ -123,7 +123,7 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
 
 /** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
 export function storedColumn(datasetId: string, position: number) {
-  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'repeats'] })
+  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'cubePairs', 'repeats'] })
 }
 
 /**
@@ -142,48 +142,72 @@ async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query
 
 type CellProfile = Omit<CountedProfile, 'topValue'>
 
+/** Which cells of the cube hold a question's counts: those of one text column, or of two together. */
+interface CubeCut {
+  first: number
+  second: number
+}
+
 /**
- * The import's counts (digit-cube.ts) of one column by one text column (-1: whole), by code, for the
- * codes the filters keep; and the suitability facts of the values they hold.
+ * The import's counts (digit-cube.ts) of one column for the codes the filters keep: of the whole
+ * (first -1), by one text column, or by a pair of them; each cell with the codes it stands for, and
+ * the suitability facts of the values the cells hold.
  */
-async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter, filters: CodeFilter[]) {
+async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, cut: CubeCut, sign: SignFilter, filters: CodeFilter[]) {
   const slices = cubeSlices(test, sign)
   const facts = cubeFactSlices(sign)
-  const kept = filters.map(filter => ` AND ${codeCondition('group_code', filter)}`).join('')
-  const rows = await rawSelect<{ grp: number, status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }>(
-    `SELECT group_code AS grp, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
-     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos${kept}`,
-    { datasetId, columnPos, groupPos },
+  const kept = filters.map(filter => ` AND ${codeCondition(filter.position === cut.first ? 'group_code' : 'pair_code', filter)}`).join('')
+  const rows = await rawSelect<{ first: number, second: number, status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }>(
+    `SELECT group_code AS first, pair_code AS second, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
+     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :first AND pair_pos = :second${kept}`,
+    { datasetId, columnPos, ...cut },
   )
-  const counted = rows.map(row => ({ row, counts: countsFromCube(test, sign, row) }))
-  return {
-    counts: new Map(counted.map(({ row, counts }) => [String(row.grp), counts])),
-    profile: profileFromCells(counted.map(({ row, counts }) => ({ n: counts.status[sign], facts: row.facts, ends: row.ends }))),
+  const cells = rows.map(row => ({ codes: [row.first, row.second] as const, counts: countsFromCube(test, sign, row) }))
+  return { cells, profile: profileFromCells(rows.map((row, i) => ({ n: cells[i]!.counts.status[sign], facts: row.facts, ends: row.ends }))) }
+}
+
+/** The cells a question needs, when the cube holds them: its filters and grouping touch at most two coded text columns counted together. */
+function cubeCut(query: DigitQuery, stored: NonNullable<Awaited<ReturnType<typeof storedColumn>>>): CubeCut | null {
+  if (!query.codeFilters || !stored.cubeGroups || (query.group && !query.decoding)) return null
+  const columns = [...new Set([...query.codeFilters.map(f => f.position), ...(query.decoding ? [query.decoding.position] : [])])].sort((a, b) => a - b)
+  if (columns.length === 0) return { first: -1, second: -1 }
+  if (columns.length === 1) return stored.cubeGroups.includes(columns[0]!) ? { first: columns[0]!, second: -1 } : null
+  const pairs = stored.cubePairs ?? []
+  for (let i = 0; i + 1 < pairs.length; i += 2) {
+    if (columns.length === 2 && pairs[i] === columns[0] && pairs[i + 1] === columns[1]) return { first: columns[0]!, second: columns[1]! }
   }
+  return null
 }
 
 /**
  * A distribution test's counts from the import's cube, without a scan, when it holds them: no
- * filters, or text and date filters on one column only, with no grouping or a grouping by that
- * same column (its values or the periods of its dates). Null when the records must be counted.
+ * filters, or text and date filters and a grouping (by values or by the periods of dates) that
+ * touch one text column, or two that were counted together. Null when the records must be counted.
  */
-async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, cubeGroups: number[] | null | undefined, query: DigitQuery, sign: SignFilter): Promise<{ groups: Grouped<DistributionCounts>, profile: CellProfile | null } | null> {
-  const filters = query.codeFilters
-  if (!filters || !cubeGroups) return null
-  const filtered = new Set(filters.map(f => f.position))
-  const groupPos = query.decoding ? query.decoding.position : query.group ? null : filters.length ? filters[0]!.position : -1
-  if (groupPos === null || filtered.size > 1 || (filtered.size && !filtered.has(groupPos)) || !cubeGroups.includes(groupPos)) return null
-  const { counts: cells, profile } = await cubeCells(test, datasetId, columnPos, groupPos, sign, filters)
-  if (!query.decoding) return { groups: new Map([[null, groupPos < 0 ? cells.get('0') ?? { status: emptyStatus(), keys: [] } : mergeGroups(new Map(cells))]]), profile }
-  const periods = query.decoding.periods
-  if (!periods) {
-    const names = await groupNames(datasetId, query.decoding)
-    return { groups: new Map([...cells].map(([code, counts]) => [names.get(code) ?? '', counts])), profile }
+async function cubeDistribution(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter): Promise<{ groups: Grouped<DistributionCounts>, profile: CellProfile | null } | null> {
+  const cut = stored && cubeCut(query, stored)
+  if (!cut) return null
+  const { cells, profile } = await cubeCells(test, datasetId, columnPos, cut, sign, query.codeFilters!)
+  const decoding = query.decoding
+  if (!decoding) return { groups: new Map([[null, mergeGroups(cells.map(c => c.counts))]]), profile }
+  // Each cell counts toward the group of its code in the grouping column.
+  const side = decoding.position === cut.first ? 0 : 1
+  const byCode = new Map<number, DistributionCounts[]>()
+  for (const cell of cells) {
+    const code = cell.codes[side]
+    const list = byCode.get(code)
+    if (list) list.push(cell.counts)
+    else byCode.set(code, [cell.counts])
+  }
+  const merged = (lists: DistributionCounts[][]) => mergeGroups(lists.flat())
+  if (!decoding.periods) {
+    const names = await groupNames(datasetId, decoding)
+    return { groups: new Map([...byCode].map(([code, lists]) => [names.get(String(code)) ?? '', merged([lists])])), profile }
   }
   const byPeriod: Grouped<DistributionCounts> = new Map()
-  for (const [label, codes] of periods) {
-    const inPeriod = new Map(codes.flatMap(code => (cells.has(String(code)) ? [[String(code), cells.get(String(code))!] as const] : [])))
-    if (inPeriod.size) byPeriod.set(label, mergeGroups(inPeriod))
+  for (const [label, codes] of decoding.periods) {
+    const lists = codes.flatMap(code => (byCode.has(code) ? [byCode.get(code)!] : []))
+    if (lists.length) byPeriod.set(label, merged(lists))
   }
   return { groups: byPeriod, profile }
 }
@@ -198,7 +222,7 @@ export async function cubeBinCount(datasetId: string, tested: ColumnDTO, bin: { 
   if (!stored?.cubeGroups?.includes(groupPos)) return null
   const [row] = await rawSelect<{ count: number }>(
     `SELECT coalesce((SELECT counts[${cubeKeyIndex(bin.test, bin.sign, bin.key)}] FROM digit_cube
-       WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos AND group_code = ${group
+       WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos AND pair_pos = -1 AND group_code = ${group
           ? '(SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :groupPos AND value = :group)'
           : '0'}), 0) AS count`,
     { datasetId, columnPos: tested.position, groupPos, group: group?.value.trim() },
@@ -284,10 +308,10 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   if (body.test in DISTRIBUTIONS) {
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
     const test = body.test as DistributionTest
-    const fromCube = await cubeDistribution(test, dataset.id, tested.position, stored?.cubeGroups, grouping ?? whole, sign)
+    const fromCube = await cubeDistribution(test, dataset.id, stored, tested.position, grouping ?? whole, sign)
     profile = profileOf(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
     const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
-    counts = grouping ? mergeGroups(scanned) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
+    counts = grouping ? mergeGroups(scanned.values()) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {

@@ -5,7 +5,7 @@ import type { DateReadingDTO } from '#shared/types/dataset'
 import { ColumnProfile, clip } from './column-profile'
 import type { ColumnKind } from './column-profile'
 import { CopyEncoder, uuidBytes, writeDigits, writeGroupValue, writeRow } from './copy-encoder'
-import { DigitCubeCounter } from './digit-cube'
+import { DigitCubeCounter, choosePairs } from './digit-cube'
 import { FrequentValues } from './frequent-values'
 import type { Leader } from './frequent-values'
 import { GroupCodes } from './group-codes'
@@ -73,6 +73,7 @@ export interface ColumnSummary {
   samples: string[]
   coded: boolean
   cubeGroups: number[] | null
+  cubePairs: number[] | null
   dates: DateReadingDTO | null
   /** Per sign, the suitability facts with topValue still 0, and the most frequent value. */
   signs: { positive: SuitabilityProfile | null, negative: SuitabilityProfile | null, top: { positive: TopValue | null, negative: TopValue | null } } | null
@@ -205,6 +206,7 @@ export class RowEncoder {
       samples: profile.samples,
       coded: this.groupCodes!.isCoded(position),
       cubeGroups: profile.numeric ? this.cube!.groupingsOf(position) : null,
+      cubePairs: profile.numeric ? this.cube!.pairingsOf(position) : null,
       dates,
       signs: signs
         ? {
@@ -226,7 +228,7 @@ export class RowEncoder {
     const texts = plan.flatMap(({ profile }, position) => (profile.numeric ? [] : [position]))
     this.plan = plan
     this.groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric), this.sample)
-    this.cube = new DigitCubeCounter(numbers, texts)
+    this.cube = new DigitCubeCounter(numbers, texts, choosePairs(texts, this.sample))
     // Per number column, the most frequent positive and negative value (the suitability check's repeated amounts).
     this.frequent = plan.map(({ profile }) => (profile.numeric ? [new FrequentValues(), new FrequentValues()] as const : null))
     const sample = this.sample
