@@ -64,12 +64,13 @@ export function viewRows(table: ColumnTable, columns: readonly ColumnDTO[], view
   return result
 }
 
-/** One page of a view, as the rows table draws them. */
+/** One page of a view, as the rows table draws them. A view's getters take positions in its own order. */
 export function pageRows(view: ColumnTable, columns: readonly ColumnDTO[], page: number, size: number): RowDTO[] {
   const rowNo = view.getter(ROW_NUMBER)
   const getters = columns.map(c => view.getter(c.name))
-  return Array.from(view.indices()).slice((page - 1) * size, page * size)
-    .map(row => ({ rowNo: Number(rowNo(row)), cells: getters.map(get => String(get(row))) }))
+  const from = (page - 1) * size
+  return Array.from({ length: Math.max(0, Math.min(size, view.numRows() - from)) }, (_, i) => from + i)
+    .map(at => ({ rowNo: Number(rowNo(at)), cells: getters.map(get => String(get(at))) }))
 }
 
 /**
@@ -78,5 +79,5 @@ export function pageRows(view: ColumnTable, columns: readonly ColumnDTO[], page:
  */
 export function rowsCsv(table: ColumnTable, about: readonly string[]): string {
   const format = Object.fromEntries(table.columnNames().map(name => [name, (value: unknown) => (typeof value === 'string' ? inertText(value) : value)]))
-  return `${about.map(line => `# ${line.replace(/[\r\n]+/g, ' ')}`).join('\r\n')}\r\n${table.toCSV({ format })}`
+  return `${about.map(line => `# ${line.replace(/[\r\n]+/g, ' ')}\n`).join('')}${table.toCSV({ format })}`
 }

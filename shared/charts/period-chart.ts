@@ -1,6 +1,7 @@
 import type { Period } from '../dates/read-date'
 import type { GroupResult } from '../digits/types'
 import { PALETTE } from './palette'
+import { CHART_LOOK } from './digit-chart'
 
 const STANDS_OUT = 0.05
 
@@ -24,12 +25,7 @@ export function periodChartSpec(groups: readonly GroupResult[], period: Period, 
     description: `Excess MAD per ${period}`,
     width: options.width ?? 'container',
     height: options.height ?? 120,
-    background: PALETTE.paper,
-    config: {
-      font: 'Inter, system-ui, sans-serif',
-      axis: { labelColor: PALETTE.inkSoft, titleColor: PALETTE.inkSoft, gridColor: PALETTE.rule, domainColor: PALETTE.graphite, tickColor: PALETTE.graphite },
-      view: { stroke: null },
-    },
+    ...CHART_LOOK,
     data: { values: data },
     layer: [
       {

@@ -50,7 +50,7 @@ describe('writing an investigation', () => {
     await page.getByRole('heading', { name: /Rows behind “1”/ }).waitFor({ timeout: 10_000 })
     const rowsPanel = page.locator('section[aria-labelledby="bin-rows-heading"]')
     await rowsPanel.getByText(/Page 1 of/).waitFor({ timeout: 10_000 })
-    expect(await rowsPanel.locator('tbody tr').count()).toBe(50)
+    expect(await rowsPanel.locator('tbody tr').count()).toBe(25)
     await screenshot(page, 'investigation-analysis')
     // The chart drew under the Content-Security-Policy, which forbids evaluating strings: nothing was blocked.
     expect(await cspViolations()).toEqual([])
