@@ -19,7 +19,7 @@ const label = (key: string) => key || 'no date'
  */
 export function periodChartSpec(groups: readonly GroupResult[], period: Period, options: { width?: number | 'container', height?: number } = {}) {
   const data = groupsInDateOrder(groups).map(g => ({ period: label(g.key), n: g.n, mad: g.mad, excess: g.excessMad, q: g.q, out: g.q !== null && g.q < STANDS_OUT }))
-  const x = { field: 'period', type: 'ordinal', sort: null, title: period[0]!.toUpperCase() + period.slice(1), axis: { labelAngle: data.length > 12 ? -45 : 0 } }
+  const x = { field: 'period', type: 'ordinal', sort: null, title: period[0]!.toUpperCase() + period.slice(1), axis: { labelAngle: data.length > 4 ? -45 : 0 } }
   return {
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     description: `Excess MAD per ${period}`,
