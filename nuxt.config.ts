@@ -20,6 +20,8 @@ export default defineNuxtConfig({
     mailFrom: 'Mantissa <desk@mantissa.invalid>',
     mailSink: { enabled: false, port: 2525 },
     publicUrl: 'http://localhost:3000',
+    // Public link tokens are HMAC(secret, link id); unset, the session password serves (README).
+    shareLinkSecret: '',
     demoSeed: false,
     uploadLimitBytes: 200 * 1024 * 1024,
     // driver "fs" keeps files under base; "s3" keeps them in the bucket and stages uploads under base.

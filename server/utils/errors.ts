@@ -7,6 +7,7 @@ export const STATUS_TEXT = {
   403: 'Not allowed',
   404: 'Not found',
   409: 'Changed by someone else',
+  410: 'No longer available',
   413: 'File too large',
   415: 'Unsupported file',
   422: 'Cannot be processed',

@@ -103,6 +103,12 @@ const ROWS: Row[] = [
     send: (client, _t, desk) => client.get(`/api/newsrooms/${desk.newsroom.id}`),
   },
   {
+    route: 'PATCH /api/newsrooms/[id]',
+    expected: allowOnly(ADMINS, 200),
+    why: 'The newsroom\'s settings (four eyes) are the admin\'s, like its members; sending the current value changes nothing for the other rows.',
+    send: (client, _t, desk) => client.patch(`/api/newsrooms/${desk.newsroom.id}`, { fourEyes: true }),
+  },
+  {
     route: 'GET /api/newsrooms/[id]/members',
     expected: allowOnly(MEMBERS, 200),
     why: 'Every member sees who is on the desk: their names stand on reviews, locks and the audit trail.',
@@ -255,7 +261,7 @@ const ROWS: Row[] = [
   {
     route: 'GET /api/investigations/[id]/publishing',
     expected: allowOnly(MEMBERS, 200),
-    why: 'What still blocks publication and the links made so far (never their tokens): part of reading the investigation.',
+    why: 'What still blocks publication, who did each check and the links made so far: part of reading the investigation. Only members who may publish get the links\' addresses (publishing-integrity.test.ts).',
     send: (client, _t, desk) => client.get(`/api/investigations/${desk.story.id}/publishing`),
   },
   {
@@ -322,6 +328,14 @@ const ROWS: Row[] = [
     fresh: true,
     target: freshClaim,
     send: (client, claim, desk) => client.patch(`/api/claims/${claim.id}`, { supportingBlockIds: [desk.story.analysisBlockId] }),
+  },
+  {
+    route: 'DELETE /api/claims/[id]',
+    expected: allowOnly(WRITERS, 200),
+    why: 'Unmarking an open claim undoes marking it, so it goes with marking; a disputed claim needs a data editor and a reason (claims-lifecycle.test.ts).',
+    fresh: true,
+    target: freshClaim,
+    send: (client, claim) => client.delete(`/api/claims/${claim.id}`),
   },
   {
     route: 'POST /api/claims/[id]/verify',
