@@ -13,6 +13,7 @@ export const STATUS_TEXT = {
   422: 'Cannot be processed',
   423: 'Locked',
   429: 'Too many attempts',
+  503: 'Server busy',
 } as const
 
 export type FailStatus = keyof typeof STATUS_TEXT

@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { PASSWORD } from '../support/newsroom'
 import {
-  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation,
+  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation, freshWorkbook,
   freshInvitation, freshMarkedPassage, freshMember, freshProseBlock, freshRemovedBlock, freshShareLink,
   freshVerifiedClaim, matrixTable, openMatrixDesk, runRow, uploadProbe,
 } from '../support/permission-matrix'
@@ -185,6 +185,13 @@ const ROWS: Row[] = [
     route: 'GET /api/datasets/[id]/rows',
     expected: allowOnly(MEMBERS, 200),
     send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/rows?column=amount&key=1`),
+  },
+  {
+    route: 'POST /api/datasets/[id]/sheets',
+    expected: allowOnly(CREATORS, 201),
+    why: 'Reading another sheet of a stored workbook makes a new dataset, as an upload does.',
+    target: freshWorkbook,
+    send: (client, workbook) => client.post(`/api/datasets/${workbook.id}/sheets`, { sheet: '2024' }),
   },
   {
     route: 'POST /api/datasets/[id]/archive',

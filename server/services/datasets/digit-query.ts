@@ -34,7 +34,7 @@ export interface DigitQuery {
   decoding: GroupDecoding | null
   /** The filters as code sets, when every filter is one (the import's counts can then answer). */
   codeFilters: CodeFilter[] | null
-  replacements: Record<string, unknown>
+  replacements: { datasetId: string } & Record<string, unknown>
 }
 
 export function columnByName(columns: ColumnDTO[], name: string, path: string): ColumnDTO {
@@ -121,7 +121,7 @@ export async function buildDigitQuery(
 ): Promise<DigitQuery> {
   const joins: string[] = []
   const conditions = ['d.dataset_id = :datasetId', 'd.column_pos = :columnPos']
-  const replacements: Record<string, unknown> = { datasetId, columnPos: tested.position }
+  const replacements: DigitQuery['replacements'] = { datasetId, columnPos: tested.position }
   const codeFilters: CodeFilter[] = []
   let allCoded = true
   let needsRows = false
@@ -229,9 +229,12 @@ export function selectRows<T extends object>(
   return rawSelect<T>(sql, { ...query.replacements, ...replacements })
 }
 
-/** A SELECT with bound replacements, answering plain rows. */
-export function rawSelect<T extends object>(sql: string, replacements: Record<string, unknown>): Promise<T[]> {
-  return useDb().sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT })
+/**
+ * A SELECT over one dataset's data with bound replacements, answering plain rows; it may run on a
+ * read replica (datasetReader), so it never writes.
+ */
+export async function rawSelect<T extends object>(sql: string, replacements: { datasetId: string } & Record<string, unknown>): Promise<T[]> {
+  return (await datasetReader(replacements.datasetId)).query<T>(sql, { replacements, type: QueryTypes.SELECT })
 }
 
 export function signCode(sign: SignFilter) {

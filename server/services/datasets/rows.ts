@@ -82,7 +82,7 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   const bin = binCondition(request.test, request.key, request.threshold)
   let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
   const pageSize = request.pageSize ?? PAGE_SIZE
-  const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * pageSize, limit: pageSize }
+  const replacements: typeof query.replacements = { ...query.replacements, ...bin.values, offset: (request.page - 1) * pageSize, limit: pageSize }
   if (query.groupEquals && request.group !== undefined) {
     where += ` AND ${query.groupEquals}`
     Object.assign(replacements, groupReplacements(query, request.group))
