@@ -11,7 +11,10 @@ import { seededRandom } from '../server/services/demo/seeded-random.ts'
 
 export const demo = JSON.parse(readFileSync(join(root, 'server', 'services', 'demo', 'people.json'), 'utf8'))
 
-/** Writes `rows` invented payments (200 vendors, 9 departments, amounts over four orders of magnitude). */
+/**
+ * Writes `rows` invented payments (200 vendors, 9 departments, amounts over four orders of magnitude,
+ * dates on 28 days of each month of 2024 and 2025).
+ */
 export async function writeLedger(path, rows) {
   const next = seededRandom(7)
   const out = createWriteStream(path)
@@ -19,7 +22,9 @@ export async function writeLedger(path, rows) {
   let chunk = ''
   for (let i = 0; i < rows; i++) {
     const amount = (10 ** (1.5 + 4 * next())).toFixed(2)
-    chunk += `P${100000 + i},2025-${String(1 + (i % 12)).padStart(2, '0')}-15,Vendor ${Math.floor(next() * 200)},Dept ${i % 9},${amount}\n`
+    const month = i % 24
+    const paidOn = `${2024 + Math.floor(month / 12)}-${String(1 + (month % 12)).padStart(2, '0')}-${String(1 + (Math.floor(i / 24) % 28)).padStart(2, '0')}`
+    chunk += `P${100000 + i},${paidOn},Vendor ${Math.floor(next() * 200)},Dept ${i % 9},${amount}\n`
     if (chunk.length > 1 << 20) {
       if (!out.write(chunk)) await once(out, 'drain')
       chunk = ''

@@ -1,6 +1,7 @@
 import { Model, DataTypes } from 'sequelize'
 import type { CreationOptional, InferAttributes, InferCreationAttributes, Sequelize } from 'sequelize'
-import type { ColumnProfile as SuitabilityProfile } from '#shared/digits'
+import type { ColumnProfile as SuitabilityProfile, DuplicateCounts } from '#shared/digits'
+import type { DateReadingDTO } from '#shared/types/dataset'
 
 export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCreationAttributes<DatasetColumn>> {
   declare datasetId: string
@@ -21,8 +22,15 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
   declare coded: CreationOptional<boolean>
   /** Text column positions (-1: none) whose digit counts were kept at import (digit-cube.ts); null: scan. */
   declare cubeGroups: CreationOptional<number[] | null>
+  /** Pairs of text column positions counted together (digit-cube.ts), one after the other; null: none. */
+  declare cubePairs: CreationOptional<number[] | null>
   /** Per sign, the suitability facts of the whole column (null for text columns). */
   declare profiles: CreationOptional<Record<'positive' | 'negative', SuitabilityProfile | null> | null>
+
+  /** A date column: how its dates were read at import. */
+  declare dates: CreationOptional<DateReadingDTO | null>
+  /** A number column: per sign, its repeated values over the whole column, counted once after the import. */
+  declare repeats: CreationOptional<Record<'positive' | 'negative', Omit<DuplicateCounts, 'status'>> | null>
 
   static setup(sequelize: Sequelize) {
     DatasetColumn.init({
@@ -43,6 +51,9 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
       profiles: { type: DataTypes.JSONB, allowNull: true },
       coded: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       cubeGroups: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
+      cubePairs: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
+      dates: { type: DataTypes.JSONB, allowNull: true },
+      repeats: { type: DataTypes.JSONB, allowNull: true },
     }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })
   }
 }

@@ -34,6 +34,16 @@ export function chartData(result: TestResult): ChartDatum[] {
   }))
 }
 
+/** The ground, type and axes every Mantissa chart shares. */
+export const CHART_LOOK = {
+  background: PALETTE.paper,
+  config: {
+    font: 'Inter, system-ui, sans-serif',
+    axis: { labelColor: PALETTE.inkSoft, titleColor: PALETTE.inkSoft, gridColor: PALETTE.rule, domainColor: PALETTE.graphite, tickColor: PALETTE.graphite },
+    view: { stroke: null },
+  },
+}
+
 function axisLabelEvery(bins: number): string | undefined {
   if (bins <= 20) return undefined
   const every = bins > 200 ? 100 : 10
@@ -94,12 +104,7 @@ export function digitChartSpec(result: TestResult, options: { width?: number | '
     description: `${TEST_LABELS[result.test]} of ${result.column ?? 'the column'}`,
     width: options.width ?? 'container',
     height: options.height ?? 240,
-    background: PALETTE.paper,
-    config: {
-      font: 'Inter, system-ui, sans-serif',
-      axis: { labelColor: PALETTE.inkSoft, titleColor: PALETTE.inkSoft, gridColor: PALETTE.rule, domainColor: PALETTE.graphite, tickColor: PALETTE.graphite },
-      view: { stroke: null },
-    },
+    ...CHART_LOOK,
     data: { values: data },
     layer: layers,
   }

@@ -10,9 +10,14 @@ export function toCsv(rows: readonly (readonly (string | number | null | undefin
 
 const PLAIN_NUMBER = /^-?\d+(\.\d+)?$/
 
+/** A text that a spreadsheet could run as a formula, shown as text instead (OWASP, CSV injection). */
+export function inertText(value: string): string {
+  return /^[=+\-@\t\r]/.test(value) && !PLAIN_NUMBER.test(value) ? `'${value}` : value
+}
+
 function csvCell(value: string | number | null | undefined): string {
   if (value === null || value === undefined) return ''
   if (typeof value === 'number') return Number.isFinite(value) ? String(value) : ''
-  const safe = /^[=+\-@\t\r]/.test(value) && !PLAIN_NUMBER.test(value) ? `'${value}` : value
+  const safe = inertText(value)
   return /[",\r\n]/.test(safe) ? `"${safe.replaceAll('"', '""')}"` : safe
 }

@@ -1,6 +1,7 @@
 import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
 import { oneLine } from './text'
+import { PERIODS } from '../dates/read-date'
 
 const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)
 
@@ -35,20 +36,34 @@ export const sheetImportSchema = z.object({
   title: z.string().trim().min(1, 'Give the dataset a title').max(200).optional(),
 })
 
+const filterColumn = z.string().min(1).max(200)
+const day = z.string().refine(isCalendarDate, 'Use a date that exists, like 2026-03-31')
+const textValues = z.array(z.string().max(1000)).min(1, 'Give at least one value').max(500)
+
+/** Rows a test keeps; several filters all hold at once. Text values compare with their spaces trimmed. */
 export const filterSchema = z.discriminatedUnion('op', [
-  z.object({ column: z.string().min(1).max(200), op: z.literal('equals'), value: z.string().max(1000) }),
-  z.object({ column: z.string().min(1).max(200), op: z.literal('between'), min: z.number().finite().optional(), max: z.number().finite().optional() }),
+  z.object({ column: filterColumn, op: z.literal('equals'), value: z.string().max(1000) }),
+  z.object({ column: filterColumn, op: z.literal('one-of'), values: textValues }),
+  z.object({ column: filterColumn, op: z.literal('not-one-of'), values: textValues }),
+  z.object({ column: filterColumn, op: z.literal('between'), min: z.number().finite().optional(), max: z.number().finite().optional() })
+    .refine(f => f.min === undefined || f.max === undefined || f.min <= f.max, { path: ['max'], message: 'The upper bound is below the lower one' }),
+  z.object({ column: filterColumn, op: z.literal('dates'), from: day.optional(), to: day.optional() })
+    .refine(f => !f.from || !f.to || f.from <= f.to, { path: ['to'], message: 'The end date is before the start date' }),
 ])
 export type DatasetFilter = z.output<typeof filterSchema>
+export const periodSchema = z.enum(PERIODS)
 
 export const digitTestRequestSchema = z.object({
   column: z.string().min(1, 'Choose a number column').max(200),
   test: z.enum(TEST_NAMES),
   filters: z.array(filterSchema).max(10).optional(),
   groupBy: z.string().min(1).max(200).optional(),
+  /** With groupBy naming a date column: group by its year, quarter or month instead of each date. */
+  period: periodSchema.optional(),
   threshold: z.number().positive().finite().optional(),
   sign: z.enum(['positive', 'negative']).optional(),
 }).refine(v => v.test !== 'threshold' || v.threshold !== undefined, { path: ['threshold'], message: 'The threshold test needs the limit, e.g. an approval limit of 10000' })
+  .refine(v => !v.period || v.groupBy, { path: ['period'], message: 'A period needs a date column to group by' })
 export type DigitTestRequestBody = z.output<typeof digitTestRequestSchema>
 
 export const previewQuerySchema = z.object({
@@ -64,6 +79,8 @@ export const drillDownQuerySchema = z.object({
   column: z.string().min(1).max(200),
   key: z.string().min(1).max(60),
   page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+  /** Rows a page: 50 unless asked; up to 5,000 for the browser's own table and downloads. */
+  pageSize: z.coerce.number().int().min(1).max(5000).default(50),
   sign: z.enum(['positive', 'negative']).optional(),
   threshold: z.coerce.number().positive().finite().optional(),
   filters: z.string().max(20_000).optional()
@@ -79,5 +96,6 @@ export const drillDownQuerySchema = z.object({
     })
     .pipe(z.array(filterSchema).max(10).optional()),
   groupBy: z.string().max(200).optional(),
+  period: periodSchema.optional(),
   group: z.string().max(1000).optional(),
 }).transform(query => ({ ...query, test: query.test ?? KEY_LENGTH_TESTS[query.key.length] ?? 'first-digit' }))

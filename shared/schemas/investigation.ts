@@ -1,6 +1,6 @@
 import { z } from './zod'
 import { TEST_NAMES } from '../digits/types'
-import { filterSchema } from './dataset'
+import { filterSchema, periodSchema } from './dataset'
 import { oneLine } from './text'
 
 export const investigationCreateSchema = z.object({
@@ -28,6 +28,7 @@ export const analysisSettingsSchema = z.object({
   test: z.enum(TEST_NAMES).optional(),
   filters: z.array(filterSchema).max(10).optional(),
   groupBy: z.string().max(200).optional(),
+  period: periodSchema.optional(),
   threshold: z.number().positive().finite().optional(),
   sign: z.enum(['positive', 'negative']).optional(),
 })

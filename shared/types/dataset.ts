@@ -7,6 +7,8 @@ export interface ColumnDTO {
   kind: ColumnKind
   /** Whether digit records were stored for it (the column reads mostly as numbers). */
   numeric: boolean
+  /** How its numbers were read: the decimal mark (null for text columns). */
+  decimalMark: '.' | ',' | null
   parsed: number | null
   blank: number
   unreadable: number | null
@@ -18,6 +20,20 @@ export interface ColumnDTO {
   samples: string[]
   /** A text column whose values the digit records carry as codes, so grouping by it is fast. */
   coded: boolean
+  /** A date column: how its dates were read (null for other columns, and for a date column too varied to code). */
+  dates: DateReadingDTO | null
+}
+
+/** How an import read a date column: in which order all-numeric dates were taken, and how many rows gave a date. */
+export interface DateReadingDTO {
+  order: 'ymd' | 'dmy' | 'mdy'
+  /** False when no value told day from month (every part 12 or under): then read day first. */
+  settled: boolean
+  /** Rows whose cell reads as a date, and non-blank rows whose cell does not. */
+  read: number
+  unread: number
+  first: string | null
+  last: string | null
 }
 
 export interface DatasetSummaryDTO {

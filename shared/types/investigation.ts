@@ -1,5 +1,6 @@
 import type { TestName, TestResult } from '../digits/types'
 import type { DatasetFilter } from '../schemas/dataset'
+import type { Period } from '../dates/read-date'
 
 /** A prose block's rich text, as Tiptap's document JSON. */
 export interface ProseContent {
@@ -14,6 +15,7 @@ export interface AnalysisSettings {
   test?: TestName
   filters?: DatasetFilter[]
   groupBy?: string
+  period?: Period
   threshold?: number
   sign?: 'positive' | 'negative'
 }

@@ -17,10 +17,11 @@ function summary(dataset: Dataset, creator: string): DatasetSummaryDTO {
 function columnDTO(column: DatasetColumn): ColumnDTO {
   const numeric = column.decimalMark !== null
   return {
-    name: column.name, position: column.position, kind: column.kind as ColumnKind, numeric,
+    name: column.name, position: column.position, kind: column.kind as ColumnKind, numeric, decimalMark: column.decimalMark as ColumnDTO['decimalMark'],
     parsed: numeric ? column.parsed : null, blank: column.blank, unreadable: numeric ? column.unreadable : null,
     zero: numeric ? column.zero : null, negative: numeric ? column.negative : null,
     min: column.min, max: column.max, magnitudeSpan: column.magnitudeSpan, samples: column.samples, coded: column.coded,
+    dates: column.dates ?? null,
   }
 }
 

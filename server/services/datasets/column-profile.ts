@@ -1,4 +1,5 @@
 import type { DigitRecord } from '#shared/digits'
+import { looksLikeDate } from '#shared/dates/read-date'
 import { SignProfile, compareValues } from './sign-profile'
 
 export const COLUMN_KINDS = ['amount', 'count', 'date', 'text', 'identifier'] as const
@@ -6,7 +7,6 @@ export type ColumnKind = typeof COLUMN_KINDS[number]
 
 const SAMPLES = 5
 const ID_NAME = /(^|[\s_-])(id|code|zip|postcode|phone|account|iban|ref|reference|no|nr|number)($|[\s_.-])/i
-const DATE_TEXT = /^(\d{4}-\d{1,2}-\d{1,2}([T ][\d:.]+Z?)?|\d{1,2}[./-]\d{1,2}[./-]\d{2,4}|\d{4}\/\d{1,2}\/\d{1,2})$/
 const CODE_TEXT = /^[A-Za-z]{0,6}[-_/ ]?\d{3,}[A-Za-z]?$/
 const DATE_LIKE = 1
 const CODE_LIKE = 2
@@ -56,7 +56,7 @@ export class ColumnProfile {
     this.sample(text)
     let looks = code ? this.looksByCode[code] : undefined
     if (looks === undefined) {
-      looks = (DATE_TEXT.test(text) ? DATE_LIKE : 0) | (CODE_TEXT.test(text) ? CODE_LIKE : 0)
+      looks = (looksLikeDate(text) ? DATE_LIKE : 0) | (CODE_TEXT.test(text) ? CODE_LIKE : 0)
       if (code) this.looksByCode[code] = looks
     }
     if (looks & DATE_LIKE) this.dateLike++
@@ -71,7 +71,7 @@ export class ColumnProfile {
     this.sample(cell.trim())
     if (record.status === 'unreadable') {
       this.unreadable++
-      if (DATE_TEXT.test(cell.trim())) this.dateLike++
+      if (looksLikeDate(cell)) this.dateLike++
       return
     }
     this.parsed++

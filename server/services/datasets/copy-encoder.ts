@@ -251,7 +251,7 @@ export const DIGIT_COLUMNS = [
   'column_pos', 'row_no', 'status', 'sign', 'value', 'first_digit', 'second_digit', 'first_two',
   'first_three', 'last_two', 'integer_digits', 'trailing_zeros', 'fraction_digits', 'mantissa', 'group_codes',
 ]
-export const GROUP_VALUE_COLUMNS = ['dataset_id', 'column_pos', 'code', 'value']
+export const GROUP_VALUE_COLUMNS = ['dataset_id', 'column_pos', 'code', 'value', 'day']
 
 /** A row's `width` cells start at `from` in `cells`. */
 export function writeRow(out: CopyEncoder, rowNo: number, cells: readonly string[], from: number, width: number) {
@@ -282,10 +282,13 @@ export function writeDigits(out: CopyEncoder, columnPos: number, rowNo: number, 
   out.codes(codes)
 }
 
-export function writeGroupValue(out: CopyEncoder, dataset: Buffer, columnPos: number, code: number, value: string) {
-  out.row(4)
+/** `day`: the date the text names (days since 1970-01-01), null when it is no date or its column holds none. */
+export function writeGroupValue(out: CopyEncoder, dataset: Buffer, columnPos: number, code: number, value: string, day: number | null) {
+  out.row(5)
   out.raw(dataset)
   out.int16(columnPos)
   out.int32(code)
   out.text(value)
+  if (day === null) out.null()
+  else out.int32(day)
 }

@@ -1,6 +1,7 @@
-import { DISTRIBUTIONS } from '#shared/digits'
-import type { DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
+import { DISTRIBUTIONS, compareDecimal, toDecimal } from '#shared/digits'
+import type { ColumnProfile as SuitabilityProfile, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
 import type { CopyEncoder } from './copy-encoder'
+import { compareValues } from './sign-profile'
 
 /**
  * The digit counts of every distribution test, per number column, for the whole column and for
@@ -11,7 +12,11 @@ import type { CopyEncoder } from './copy-encoder'
  *
  * One cell of the cube is an int[] of counts laid out as: blank, unreadable, zero, positive,
  * negative, then for positive and then negative values the counts of each test's keys in
- * TESTS order; and a float8[] of the mantissa arc's cos and sin sums per sign and test.
+ * TESTS order, then per sign the suitability facts (whole values, whole multiples of 100, values
+ * at the smallest and at the largest, and values per number of integer digits); a float8[] of the
+ * mantissa arc's cos and sin sums per sign and test; and a text[] of the smallest and largest
+ * absolute value per sign ('' when the sign has none). Filters on one text or date column then
+ * answer from the cells they keep, suitability check included, without a scan.
  */
 // The order of a cell's key counts; Slots.of reads the fields in the same order.
 const TESTS = ['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits'] as const satisfies DistributionTest[]
@@ -22,14 +27,43 @@ const FIELDS = TESTS.map((test) => {
 const OFFSETS = FIELDS.reduce<number[]>((offsets, field, i) => [...offsets, offsets[i]! + field.size], [0])
 const PER_SIGN = OFFSETS.at(-1)!
 const STATUS_SLOTS = 5
-export const CUBE_LENGTH = STATUS_SLOTS + 2 * PER_SIGN
+/** Integer-digit counts 0 to 31 have a slot each; the last slot holds every longer value together. */
+const LENGTHS = 33
+const FACT = { whole: 0, round: 1, atMin: 2, atMax: 3, lengths: 4 } as const
+const FACTS_PER_SIGN = FACT.lengths + LENGTHS
+const FACTS = STATUS_SLOTS + 2 * PER_SIGN
+export const CUBE_LENGTH = FACTS + 2 * FACTS_PER_SIGN
 const ARC_LENGTH = 2 * FIELDS.length * 2
 const STATUS_SLOT = { blank: 0, unreadable: 1, zero: 2 } as const
 
 /** A text column with more values than this is not counted per value: grouping by it scans. */
 const MAX_GROUPS = 5000
-/** Cells in memory per import, about 9 KB each, across all column pairs. */
+/** Cells in memory per import, about 9 KB each, across all number and text columns. */
 const MAX_CELLS = 8000
+/**
+ * Two text columns are also counted together, one cell per pair of values that occurs (department
+ * by vendor), so that a filter on one and a grouping by the other need no scan either; a pair with
+ * more cells than this stops being counted, and all pairs together keep at most PAIR_CELLS.
+ */
+const MAX_PAIR_CELLS = 2500
+const PAIR_CELLS = 4000
+/** Pairs counted per number column at most: each costs a lookup per value. */
+const MAX_PAIRS = 6
+
+/**
+ * The pairs of text columns worth counting together, from the first rows: both with few values
+ * there, the pairs with the fewest combinations first.
+ */
+export function choosePairs(textPositions: number[], sample: readonly string[][]): [number, number][] {
+  const distinct = new Map(textPositions.map(p => [p, new Set(sample.map(row => (row[p] ?? '').trim())).size]))
+  const few = textPositions.filter(p => distinct.get(p)! <= Math.min(MAX_PAIR_CELLS, Math.max(10, sample.length / 2)))
+  const pairs = few.flatMap((first, i) => few.slice(i + 1).map(second => [first, second] as [number, number]))
+  return pairs.filter(([a, b]) => distinct.get(a)! * distinct.get(b)! <= MAX_PAIR_CELLS)
+    .sort((x, y) => distinct.get(x[0])! * distinct.get(x[1])! - distinct.get(y[0])! * distinct.get(y[1])!)
+    .slice(0, MAX_PAIRS)
+}
+/** A pair's cell key: the first column's code times this, plus the second's (codes stay under MAX_GROUPS). */
+const PAIR_KEY = 8192
 
 /** Every combination of the tests a value has a key for (a value under 10 has no first two digits). */
 const MASKS = 1 << FIELDS.length
@@ -43,17 +77,34 @@ class Slots {
   arc = -1
   cos = 0
   sin = 0
+  /** A number's side (0 positive, 1 negative; -1 for no number), absolute value and its text, and its facts' slots. */
+  side = -1
+  abs = 0
+  text = ''
+  readonly facts = new Int32Array(3)
+  factCount = 0
   private base = 0
   private mask = 0
 
   of(r: DigitRecord): this {
     this.length = 0
     this.arc = -1
+    this.side = -1
+    this.factCount = 0
     if (r.status !== 'number') {
       this.status = STATUS_SLOT[r.status]
       return this
     }
     const side = r.sign > 0 ? 0 : 1
+    this.side = side
+    this.text = side ? r.value!.slice(1) : r.value!
+    this.abs = Number(this.text)
+    const facts = FACTS + side * FACTS_PER_SIGN
+    this.facts[this.factCount++] = facts + FACT.lengths + Math.min(r.integerDigits, LENGTHS - 1)
+    if (r.fractionDigits === 0) {
+      this.facts[this.factCount++] = facts + FACT.whole
+      if (r.trailingZeros >= 2) this.facts[this.factCount++] = facts + FACT.round
+    }
     this.status = 3 + side
     this.base = STATUS_SLOTS + side * PER_SIGN
     this.mask = 0
@@ -84,13 +135,40 @@ class Cell {
    * per test, summed into each test's pair as the cell is written (arcs).
    */
   private readonly sums = new Float64Array(2 * MASKS * 2)
+  /** Per sign, the smallest and largest absolute value, as a double and its exact text. */
+  private readonly ends: ({ minAbs: number, min: string, maxAbs: number, max: string } | null)[] = [null, null]
 
   add(slots: Slots) {
     this.counts[slots.status]!++
     for (let i = 0; i < slots.length; i++) this.counts[slots.keys[i]!]!++
+    if (slots.side < 0) return
+    for (let i = 0; i < slots.factCount; i++) this.counts[slots.facts[i]!]!++
+    this.extremes(slots)
     if (slots.arc < 0) return
     this.sums[slots.arc]! += slots.cos
     this.sums[slots.arc + 1]! += slots.sin
+  }
+
+  private extremes({ side, abs, text }: Slots) {
+    const facts = FACTS + side * FACTS_PER_SIGN
+    const ends = this.ends[side]
+    if (!ends) {
+      this.ends[side] = { minAbs: abs, min: text, maxAbs: abs, max: text }
+      this.counts[facts + FACT.atMin] = 1
+      this.counts[facts + FACT.atMax] = 1
+      return
+    }
+    const toMin = compareValues(abs, text, ends.minAbs, ends.min)
+    if (toMin < 0) [ends.minAbs, ends.min, this.counts[facts + FACT.atMin]] = [abs, text, 1]
+    else if (toMin === 0) this.counts[facts + FACT.atMin]!++
+    const toMax = compareValues(abs, text, ends.maxAbs, ends.max)
+    if (toMax > 0) [ends.maxAbs, ends.max, this.counts[facts + FACT.atMax]] = [abs, text, 1]
+    else if (toMax === 0) this.counts[facts + FACT.atMax]!++
+  }
+
+  /** The smallest and largest absolute value per sign: positive min, max, then negative ('' for none). */
+  extremeTexts(): string[] {
+    return this.ends.flatMap(ends => (ends ? [ends.min, ends.max] : ['', '']))
   }
 
   /** Per sign and test, the sums of cos and sin over the values with a key in that test. */
@@ -117,13 +195,22 @@ interface Grouping {
   cells: (Cell | undefined)[]
 }
 
-/** Counts for one number column: the whole column, and per code of each text column still counted. */
+/** Counts for one number column by two text columns together: a cell per pair of codes that occurs. */
+interface Pairing {
+  first: number
+  second: number
+  cells: Map<number, Cell>
+}
+
+/** Counts for one number column: the whole column, and per code of each text column (and pair of them) still counted. */
 class ColumnCube {
   readonly whole = new Cell()
   readonly groupings: Grouping[]
+  readonly pairings: Pairing[]
 
-  constructor(textPositions: number[]) {
+  constructor(textPositions: number[], pairs: [number, number][]) {
     this.groupings = textPositions.map(position => ({ position, cells: [] }))
+    this.pairings = pairs.map(([first, second]) => ({ first, second, cells: new Map<number, Cell>() }))
   }
 }
 
@@ -131,10 +218,11 @@ export class DigitCubeCounter {
   /** By column position; only number columns have one. */
   private readonly columns: (ColumnCube | undefined)[] = []
   private cells = 0
+  private pairCells = 0
   private readonly slots = new Slots()
 
-  constructor(numberPositions: number[], textPositions: number[]) {
-    for (const position of numberPositions) this.columns[position] = new ColumnCube(textPositions)
+  constructor(numberPositions: number[], textPositions: number[], pairs: [number, number][] = []) {
+    for (const position of numberPositions) this.columns[position] = new ColumnCube(textPositions, pairs)
   }
 
   /** Counts one number cell; `codes` are its row's group codes (0: none). */
@@ -160,6 +248,23 @@ export class DigitCubeCounter {
       }
       cell.add(slots)
     }
+    const pairings = cube.pairings
+    for (let p = 0; p < pairings.length; p++) {
+      const pairing = pairings[p]!
+      const [a, b] = [codes[pairing.first]!, codes[pairing.second]!]
+      const key = a * PAIR_KEY + b
+      let cell = pairing.cells.get(key)
+      if (!cell) {
+        if (a === 0 || b === 0 || a > MAX_GROUPS || b > MAX_GROUPS || pairing.cells.size >= MAX_PAIR_CELLS || this.pairCells >= PAIR_CELLS) {
+          pairings.splice(p--, 1)
+          this.pairCells -= pairing.cells.size
+          continue
+        }
+        pairing.cells.set(key, cell = new Cell())
+        this.pairCells++
+      }
+      cell.add(slots)
+    }
   }
 
   private drop(cube: ColumnCube, index: number) {
@@ -173,30 +278,45 @@ export class DigitCubeCounter {
     return cube ? [-1, ...cube.groupings.map(g => g.position)] : []
   }
 
+  /** The pairs of text columns a number column was counted by, one after the other: [first, second, first, second, …]. */
+  pairingsOf(columnPos: number): number[] {
+    return this.columns[columnPos]?.pairings.flatMap(p => [p.first, p.second]) ?? []
+  }
+
   write(out: CopyEncoder, dataset: Buffer) {
     this.columns.forEach((cube, columnPos) => {
       if (!cube) return
-      writeCell(out, dataset, columnPos, -1, 0, cube.whole)
+      writeCell(out, dataset, columnPos, { position: -1, code: 0 }, null, cube.whole)
       for (const { position, cells } of cube.groupings) {
         cells.forEach((cell, code) => {
-          if (cell) writeCell(out, dataset, columnPos, position, code, cell)
+          if (cell) writeCell(out, dataset, columnPos, { position, code }, null, cell)
         })
+      }
+      for (const { first, second, cells } of cube.pairings) {
+        for (const [key, cell] of cells) writeCell(out, dataset, columnPos, { position: first, code: Math.floor(key / PAIR_KEY) }, { position: second, code: key % PAIR_KEY }, cell)
       }
     })
   }
 }
 
-function writeCell(out: CopyEncoder, dataset: Buffer, columnPos: number, groupPos: number, code: number, cell: Cell) {
-  out.row(6)
+type CellGroup = { position: number, code: number }
+
+/** One cell: of the whole column (group position -1), of one text column's value, or of a pair of values. */
+function writeCell(out: CopyEncoder, dataset: Buffer, columnPos: number, group: CellGroup, pair: CellGroup | null, cell: Cell) {
+  out.row(9)
   out.raw(dataset)
   out.int16(columnPos)
-  out.int16(groupPos)
-  out.int32(code)
+  out.int16(group.position)
+  out.int32(group.code)
+  out.int16(pair?.position ?? -1)
+  out.int32(pair?.code ?? 0)
   out.int32Array(cell.counts)
   out.float8Array(cell.arcs())
+  const ends = cell.extremeTexts()
+  out.textArray(ends, 0, ends.length)
 }
 
-export const CUBE_COLUMNS = ['dataset_id', 'column_pos', 'group_pos', 'group_code', 'counts', 'arcs']
+export const CUBE_COLUMNS = ['dataset_id', 'column_pos', 'group_pos', 'group_code', 'pair_pos', 'pair_code', 'counts', 'arcs', 'ends']
 
 /**
  * The SQL slices of a cube row that one test and sign need (PostgreSQL arrays count from 1):
@@ -236,4 +356,43 @@ export function countsFromCube(test: DistributionTest, sign: SignFilter, row: { 
 export function cubeKeyIndex(test: DistributionTest, sign: SignFilter, key: number): number {
   const f = TESTS.indexOf(test as typeof TESTS[number])
   return STATUS_SLOTS + (sign === 'positive' ? 0 : PER_SIGN) + OFFSETS[f]! + key - FIELDS[f]!.low + 1
+}
+
+/** The SQL slices of a cube row that the suitability facts of one sign need (with the `ends` column). */
+export function cubeFactSlices(sign: SignFilter) {
+  const side = sign === 'positive' ? 0 : 1
+  const from = FACTS + side * FACTS_PER_SIGN + 1
+  return { facts: `counts[${from}:${from + FACTS_PER_SIGN - 1}]`, ends: `ends[${2 * side + 1}:${2 * side + 2}]` }
+}
+
+/**
+ * The suitability facts of the values in some cells (the cells a filter keeps), without topValue,
+ * which cells cannot add up: the caller bounds it. Null when the cells hold no value of the sign, or
+ * when they were counted before cells kept these facts, or when values with 32 or more integer
+ * digits share the last length slot (their commonest length is then not known).
+ */
+export function profileFromCells(cells: Iterable<{ n: number, facts: number[] | null, ends: string[] | null }>): Omit<SuitabilityProfile, 'topValue'> | null {
+  let n = 0
+  let whole = 0
+  let roundHundreds = 0
+  const lengths = new Array<number>(LENGTHS).fill(0)
+  let min: { text: string, count: number } | null = null
+  let max: { text: string, count: number } | null = null
+  for (const cell of cells) {
+    if (!cell.n) continue
+    if (!cell.facts || !cell.ends || cell.facts.length !== FACTS_PER_SIGN) return null
+    n += cell.n
+    whole += cell.facts[FACT.whole]!
+    roundHundreds += cell.facts[FACT.round]!
+    for (let i = 0; i < LENGTHS; i++) lengths[i]! += cell.facts[FACT.lengths + i]!
+    const [low, high] = cell.ends as [string, string]
+    const toMin = min ? compareDecimal(toDecimal(low), toDecimal(min.text)) : -1
+    if (toMin < 0) min = { text: low, count: cell.facts[FACT.atMin]! }
+    else if (toMin === 0) min!.count += cell.facts[FACT.atMin]!
+    const toMax = max ? compareDecimal(toDecimal(high), toDecimal(max.text)) : 1
+    if (toMax > 0) max = { text: high, count: cell.facts[FACT.atMax]! }
+    else if (toMax === 0) max!.count += cell.facts[FACT.atMax]!
+  }
+  if (!n || lengths[LENGTHS - 1]) return null
+  return { n, min: min!.text, max: max!.text, atMin: min!.count, atMax: max!.count, whole, roundHundreds, commonLength: Math.max(...lengths) }
 }

@@ -1,27 +1,40 @@
 import { QueryTypes } from 'sequelize'
+import { dayOfIso, periodOf } from '#shared/dates/read-date'
+import type { Period } from '#shared/dates/read-date'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
 import type { SignFilter } from '#shared/digits'
 
+/** A text or date filter on a coded column, turned into the codes it keeps (or, negated, drops). */
+export interface CodeFilter {
+  position: number
+  codes: number[]
+  negate: boolean
+}
+
+/** How groups are read back: by the column's own texts, or by the period of its dates. */
+export interface GroupDecoding {
+  position: number
+  /** Per period label, the codes of the dates in it; '' holds the texts that read as no date. */
+  periods: Map<string, number[]> | null
+}
+
 /**
  * The FROM and WHERE of every count over one column's digit records, with the filters and the
- * grouping column. Only integers (column positions) are written into the SQL; every value a
- * person typed travels as a bound replacement.
+ * grouping column. Only integers (column positions, codes the database gave) are written into the
+ * SQL; every value a person typed travels as a bound replacement.
  */
 export interface DigitQuery {
   from: string
   where: string
   group: string | null
-  /** SQL that is true when the group equals the bound `:group` text. */
+  /** SQL that is true when the group equals the bound `:group` text (set by groupCondition). */
   groupEquals: string | null
-  /** Set when `group` yields codes that must be turned back into the column's text. */
-  groupCodesOf: number | null
+  /** Set when `group` yields codes (or period numbers) that must be turned back into text. */
+  decoding: GroupDecoding | null
+  /** The filters as code sets, when every filter is one (the import's counts can then answer). */
+  codeFilters: CodeFilter[] | null
   replacements: { datasetId: string } & Record<string, unknown>
-}
-
-/** The code of a text in a coded column, or NULL: compares one integer per record instead of joining the rows. */
-function codeOf(position: number, parameter: string) {
-  return `(SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = ${position} AND value = :${parameter})`
 }
 
 export function columnByName(columns: ColumnDTO[], name: string, path: string): ColumnDTO {
@@ -30,73 +43,175 @@ export function columnByName(columns: ColumnDTO[], name: string, path: string): 
   return column
 }
 
-export function buildDigitQuery(
+/** A list of integers the database gave, as an SQL array literal. */
+export function intArray(values: readonly number[]): string {
+  return `'{${values.map(v => Math.trunc(v)).join(',')}}'::int[]`
+}
+
+/** SQL true when `expression` (a code) passes the filter. */
+export function codeCondition(expression: string, filter: CodeFilter): string {
+  const among = `${expression} = ANY(${intArray(filter.codes)})`
+  return filter.negate ? `NOT (${among})` : among
+}
+
+async function codesOfValues(datasetId: string, position: number, values: string[]): Promise<number[]> {
+  const rows = await rawSelect<{ code: number }>(
+    'SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position AND value IN (:values)',
+    { datasetId, position, values },
+  )
+  return rows.map(r => r.code)
+}
+
+function dateColumn(column: ColumnDTO, path: string): ColumnDTO {
+  if (column.kind !== 'date') throw fail(400, [{ path, message: `"${column.name}" does not hold dates.` }])
+  if (!column.dates || !column.coded) throw fail(400, [{ path, message: `The dates in "${column.name}" take too many different forms or values to be read at import, so they cannot be ranged or grouped by period.` }])
+  return column
+}
+
+async function codesOfDays(datasetId: string, position: number, from?: string, to?: string): Promise<number[]> {
+  const rows = await rawSelect<{ code: number }>(
+    `SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position AND day IS NOT NULL
+     ${from ? 'AND day >= :from' : ''} ${to ? 'AND day <= :to' : ''}`,
+    { datasetId, position, from: from ? dayOfIso(from) : null, to: to ? dayOfIso(to) : null },
+  )
+  return rows.map(r => r.code)
+}
+
+/** The codes of a date column by the period their day falls in ('' for texts that read as no date). */
+async function periodsOf(datasetId: string, position: number, period: Period): Promise<Map<string, number[]>> {
+  const rows = await rawSelect<{ code: number, day: number | null }>(
+    'SELECT code, day FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
+    { datasetId, position },
+  )
+  const periods = new Map<string, number[]>()
+  for (const { code, day } of rows) {
+    const label = day === null ? '' : periodOf(day, period)
+    const list = periods.get(label)
+    if (list) list.push(code)
+    else periods.set(label, [code])
+  }
+  return periods
+}
+
+/** The grouping the request names, and how its groups read back. */
+async function groupingOf(datasetId: string, columns: ColumnDTO[], groupBy: string, period: Period | undefined) {
+  const column = columnByName(columns, groupBy, 'groupBy')
+  if (period) {
+    dateColumn(column, 'period')
+    const periods = await periodsOf(datasetId, column.position, period)
+    // Each code's period number (1, 2, …; 0 for no date), looked up in an array by the record's code.
+    const labels = [...periods.keys()].filter(Boolean).sort()
+    const numberOf: number[] = []
+    labels.forEach((label, i) => periods.get(label)!.forEach(code => (numberOf[code] = i + 1)))
+    const maxCode = Math.max(0, ...[...periods.values()].flat())
+    const lookup = Array.from({ length: maxCode }, (_, i) => numberOf[i + 1] ?? 0)
+    return { column, group: `coalesce((${intArray(lookup)})[d.group_codes[${column.position + 1}]], 0)`, needsRows: false, decoding: { position: column.position, periods } }
+  }
+  if (column.coded) return { column, group: `d.group_codes[${column.position + 1}]`, needsRows: false, decoding: { position: column.position, periods: null } }
+  return { column, group: `btrim(r.cells[${column.position + 1}])`, needsRows: true, decoding: null }
+}
+
+export async function buildDigitQuery(
   datasetId: string,
   columns: ColumnDTO[],
   tested: ColumnDTO,
   filters: DatasetFilter[] = [],
   groupBy?: string,
-): DigitQuery {
+  period?: Period,
+): Promise<DigitQuery> {
   const joins: string[] = []
   const conditions = ['d.dataset_id = :datasetId', 'd.column_pos = :columnPos']
   const replacements: DigitQuery['replacements'] = { datasetId, columnPos: tested.position }
+  const codeFilters: CodeFilter[] = []
+  let allCoded = true
   let needsRows = false
-  filters.forEach((filter, i) => {
-    const column = columnByName(columns, filter.column, `filters.${i}.column`)
-    if (filter.op === 'equals') {
-      if (column.coded) {
-        conditions.push(`d.group_codes[${column.position + 1}] = ${codeOf(column.position, `filter${i}`)}`)
-        replacements[`filter${i}`] = filter.value.trim()
-        return
+  for (const [i, filter] of filters.entries()) {
+    const path = `filters.${i}.column`
+    const column = columnByName(columns, filter.column, path)
+    if (filter.op === 'between') {
+      if (!column.numeric) throw fail(400, [{ path, message: `"${column.name}" does not hold numbers, so it has no range.` }])
+      allCoded = false
+      let target = 'd'
+      if (column.position !== tested.position) {
+        target = `f${i}`
+        joins.push(`JOIN digit_records ${target} ON ${target}.dataset_id = :datasetId AND ${target}.row_no = d.row_no AND ${target}.column_pos = ${column.position}`)
       }
-      needsRows = true
-      conditions.push(`btrim(r.cells[${column.position + 1}]) = btrim(:filter${i})`)
-      replacements[`filter${i}`] = filter.value
-      return
+      if (filter.min !== undefined) {
+        conditions.push(`${target}.value >= :min${i}`)
+        replacements[`min${i}`] = filter.min
+      }
+      if (filter.max !== undefined) {
+        conditions.push(`${target}.value <= :max${i}`)
+        replacements[`max${i}`] = filter.max
+      }
+      continue
     }
-    if (!column.numeric) throw fail(400, [{ path: `filters.${i}.column`, message: `"${column.name}" does not hold numbers, so it has no range.` }])
-    let target = 'd'
-    if (column.position !== tested.position) {
-      target = `f${i}`
-      joins.push(`JOIN digit_records ${target} ON ${target}.dataset_id = :datasetId AND ${target}.row_no = d.row_no AND ${target}.column_pos = ${column.position}`)
+    if (column.numeric) throw fail(400, [{ path, message: `"${column.name}" holds numbers: give it a range instead.` }])
+    if (filter.op === 'dates') {
+      dateColumn(column, path)
+      const codeFilter = { position: column.position, codes: await codesOfDays(datasetId, column.position, filter.from, filter.to), negate: false }
+      codeFilters.push(codeFilter)
+      conditions.push(codeCondition(`d.group_codes[${column.position + 1}]`, codeFilter))
+      continue
     }
-    if (filter.min !== undefined) {
-      conditions.push(`${target}.value >= :min${i}`)
-      replacements[`min${i}`] = filter.min
-    }
-    if (filter.max !== undefined) {
-      conditions.push(`${target}.value <= :max${i}`)
-      replacements[`max${i}`] = filter.max
-    }
-  })
-  let group: string | null = null
-  let groupEquals: string | null = null
-  let groupCodesOf: number | null = null
-  if (groupBy) {
-    const column = columnByName(columns, groupBy, 'groupBy')
+    const values = (filter.op === 'equals' ? [filter.value] : filter.values).map(v => v.trim())
+    const negate = filter.op === 'not-one-of'
     if (column.coded) {
-      group = `d.group_codes[${column.position + 1}]`
-      groupEquals = `${group} = ${codeOf(column.position, 'group')}`
-      groupCodesOf = column.position
+      const codeFilter = { position: column.position, codes: await codesOfValues(datasetId, column.position, values), negate }
+      codeFilters.push(codeFilter)
+      conditions.push(codeCondition(`d.group_codes[${column.position + 1}]`, codeFilter))
+      continue
     }
-    else {
-      needsRows = true
-      group = `btrim(r.cells[${column.position + 1}])`
-      groupEquals = `${group} = btrim(:group)`
-    }
+    allCoded = false
+    needsRows = true
+    conditions.push(`btrim(r.cells[${column.position + 1}]) ${negate ? 'NOT IN' : 'IN'} (:values${i})`)
+    replacements[`values${i}`] = values
   }
+  const grouping = groupBy ? await groupingOf(datasetId, columns, groupBy, period) : null
+  if (grouping?.needsRows) needsRows = true
   if (needsRows) joins.unshift('JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = d.row_no')
-  return { from: `digit_records d ${joins.join(' ')}`, where: conditions.join(' AND '), group, groupEquals, groupCodesOf, replacements }
+  return {
+    from: `digit_records d ${joins.join(' ')}`,
+    where: conditions.join(' AND '),
+    group: grouping?.group ?? null,
+    groupEquals: grouping ? groupEquals(grouping) : null,
+    decoding: grouping?.decoding ?? null,
+    codeFilters: allCoded ? codeFilters : null,
+    replacements,
+  }
 }
 
-/** Turns group codes back into the column's text, keeping every group's counts. */
-export async function decodeGroups<T>(query: DigitQuery, groups: Map<string | null, T>): Promise<Map<string | null, T>> {
-  if (query.groupCodesOf === null) return groups
+function groupEquals(grouping: Awaited<ReturnType<typeof groupingOf>>): string {
+  const codes = `d.group_codes[${grouping.column.position + 1}]`
+  if (grouping.decoding?.periods) return `${codes} = ANY(CAST(:groupCodes AS int[]))`
+  if (grouping.decoding) return `${codes} = (SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = ${grouping.column.position} AND value = :group)`
+  return `${grouping.group} = btrim(:group)`
+}
+
+/** The replacements that go with `groupEquals` for one group's text. */
+export function groupReplacements(query: DigitQuery, group: string): Record<string, unknown> {
+  const periods = query.decoding?.periods
+  if (periods) return { groupCodes: `{${(periods.get(group) ?? []).join(',')}}` }
+  return { group: query.decoding ? group.trim() : group }
+}
+
+/** Group keys as SQL gave them (codes or period numbers) back into the texts people read. */
+export async function groupNames(datasetId: string, decoding: GroupDecoding): Promise<Map<string, string>> {
+  if (decoding.periods) {
+    const labels = [...decoding.periods.keys()].filter(Boolean).sort()
+    return new Map([['0', ''], ...labels.map((label, i) => [String(i + 1), label] as [string, string])])
+  }
   const names = await rawSelect<{ code: number, value: string }>(
     'SELECT code, value FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
-    { datasetId: query.replacements.datasetId, position: query.groupCodesOf },
+    { datasetId, position: decoding.position },
   )
-  const byCode = new Map(names.map(n => [String(n.code), n.value]))
+  return new Map(names.map(n => [String(n.code), n.value]))
+}
+
+/** Turns group codes back into the column's text (or period), keeping every group's counts. */
+export async function decodeGroups<T>(query: DigitQuery, groups: Map<string | null, T>): Promise<Map<string | null, T>> {
+  if (!query.decoding) return groups
+  const byCode = await groupNames(query.replacements.datasetId as string, query.decoding)
   return new Map([...groups].map(([code, value]) => [code === null ? null : byCode.get(String(code)) ?? '', value]))
 }
 
@@ -109,7 +224,7 @@ export function selectRows<T extends object>(
   const grouped = parts.grouped && query.group
   const select = grouped ? `${query.group} AS grp, ${parts.select}` : parts.select
   const where = parts.extra ? `${query.where} AND ${parts.extra}` : query.where
-  const groupList = [grouped ? query.group : null, parts.groupBy].filter(Boolean).join(', ')
+  const groupList = [grouped ? 'grp' : null, parts.groupBy].filter(Boolean).join(', ')
   const sql = `SELECT ${select} FROM ${query.from} WHERE ${where}${groupList ? ` GROUP BY ${groupList}` : ''}${parts.tail ? ` ${parts.tail}` : ''}`
   return rawSelect<T>(sql, { ...query.replacements, ...replacements })
 }

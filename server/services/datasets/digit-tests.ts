@@ -1,5 +1,5 @@
 import { assertFewGroups } from './group-cap'
-import { DISTRIBUTIONS, MINIMUM_VALUES, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
+import { DISTRIBUTIONS, MINIMUM_VALUES, RULES, compareDecimal, runDigitTest, thresholdBand, decimalToText, toDecimal } from '#shared/digits'
 import type {
   ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
   SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
@@ -8,9 +8,9 @@ import type { DigitTestRequestBody } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { cubeKeyIndex, cubeSlices, countsFromCube } from './digit-cube'
-import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows, signCode } from './digit-query'
-import type { DigitQuery } from './digit-query'
+import { cubeFactSlices, cubeKeyIndex, cubeSlices, countsFromCube, profileFromCells } from './digit-cube'
+import { buildDigitQuery, codeCondition, columnByName, decodeGroups, groupNames, rawSelect, selectRows, signCode } from './digit-query'
+import type { CodeFilter, DigitQuery } from './digit-query'
 
 const SNAKE: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
 const STATUS_NAMES = ['blank', 'unreadable', 'zero'] as const
@@ -66,11 +66,11 @@ async function statusAndDistribution(test: DistributionTest, query: DigitQuery, 
 }
 
 /** The whole column's counts as the sum of its groups' counts. */
-function mergeGroups(groups: Grouped<DistributionCounts>): DistributionCounts {
+function mergeGroups(groups: Iterable<DistributionCounts>): DistributionCounts {
   const status = emptyStatus()
   const keys = new Map<number | string | null, number>()
   const arc = { cos: 0, sin: 0 }
-  for (const group of groups.values()) {
+  for (const group of groups) {
     for (const name of Object.keys(status) as (keyof StatusCounts)[]) status[name] += group.status[name]
     for (const { key, count } of group.keys) keys.set(key, (keys.get(key) ?? 0) + count)
     arc.cos += group.arc?.cos ?? 0
@@ -88,17 +88,21 @@ async function summationCounts(query: DigitQuery, sign: SignFilter, grouped: boo
   return byGroup
 }
 
-async function duplicateCounts(query: DigitQuery, sign: SignFilter): Promise<Omit<DuplicateCounts, 'status'>> {
-  const top = await selectRows<{ value: string, count: number }>(query, {
-    select: 'd.value::text AS value, count(*)::int AS count', extra: ofSign(sign), groupBy: 'd.value',
-    tail: 'HAVING count(*) > 1 ORDER BY count(*) DESC, d.value LIMIT 50',
-  })
-  const [totals = { distinct: 0, values: 0, rows: 0 }] = await rawSelect<{ distinct: number, values: number, rows: number }>(
-    `SELECT count(*)::int AS distinct, (count(*) FILTER (WHERE c > 1))::int AS values, coalesce(sum(c) FILTER (WHERE c > 1), 0)::int AS rows
-     FROM (SELECT count(*) AS c FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)} GROUP BY d.value) g`,
+/**
+ * Repeated values of the query's records, in one GROUP BY value: how many distinct values, how many
+ * repeat and in how many rows, and the 50 most repeated. Also run once after an import for each whole
+ * column (import.ts keeps it in dataset_columns.repeats).
+ */
+export async function duplicateCounts(query: Pick<DigitQuery, 'from' | 'where' | 'replacements'>, sign: SignFilter): Promise<Omit<DuplicateCounts, 'status'>> {
+  const [row] = await rawSelect<{ distinct: number, values: number, rows: number, top: Array<{ value: string, count: number }> | null }>(
+    `WITH g AS MATERIALIZED (SELECT d.value, count(*)::int AS c FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)} GROUP BY d.value)
+     SELECT (SELECT count(*) FROM g)::int AS distinct, (SELECT count(*) FROM g WHERE c > 1)::int AS values,
+       (SELECT coalesce(sum(c), 0) FROM g WHERE c > 1)::int AS rows,
+       (SELECT json_agg(json_build_object('value', t.value::text, 'count', t.c) ORDER BY t.c DESC, t.value)
+          FROM (SELECT value, c FROM g WHERE c > 1 ORDER BY c DESC, value LIMIT 50) t) AS top`,
     query.replacements,
   )
-  return { distinct: totals.distinct, repeated: { values: totals.values, rows: totals.rows }, top }
+  return { distinct: row?.distinct ?? 0, repeated: { values: row?.values ?? 0, rows: row?.rows ?? 0 }, top: row?.top ?? [] }
 }
 
 async function roundCounts(query: DigitQuery, sign: SignFilter): Promise<Omit<RoundCounts, 'status'>> {
@@ -120,27 +124,93 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
 
 /** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
 export function storedColumn(datasetId: string, position: number) {
-  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups'] })
+  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'cubePairs', 'repeats'] })
 }
 
 /**
  * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
  * for a whole column, counted here when filters narrow the rows.
  */
-async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
+async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean, fromCells?: CellProfile): Promise<CountedProfile | null> {
   if (!filtered && stored?.profiles) return stored.profiles[sign]
-  return profileCounts(query, sign)
+  const wholeTop = stored?.profiles?.[sign]?.topValue
+  if (!fromCells) return profileCounts(query, sign, wholeTop)
+  // The commonest value's count of a part never exceeds the whole column's: below the rule, that bound will do.
+  if (wholeTop !== undefined && wholeTop < RULES.repeated * fromCells.n) return { ...fromCells, topValue: wholeTop }
+  const [top] = await selectRows<{ top: number }>(query, { select: 'count(*)::int AS top', extra: ofSign(sign), groupBy: 'd.value', tail: 'ORDER BY 1 DESC LIMIT 1' })
+  return { ...fromCells, topValue: top?.top ?? 0 }
 }
 
-/** A distribution test's counts as the import kept them (digit-cube.ts), whole or per group, without a scan. */
-async function cubeDistribution(test: DistributionTest, datasetId: string, columnPos: number, groupPos: number, sign: SignFilter): Promise<Grouped<DistributionCounts>> {
+type CellProfile = Omit<CountedProfile, 'topValue'>
+
+/** Which cells of the cube hold a question's counts: those of one text column, or of two together. */
+interface CubeCut {
+  first: number
+  second: number
+}
+
+/**
+ * The import's counts (digit-cube.ts) of one column for the codes the filters keep: of the whole
+ * (first -1), by one text column, or by a pair of them; each cell with the codes it stands for, and
+ * the suitability facts of the values the cells hold.
+ */
+async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, cut: CubeCut, sign: SignFilter, filters: CodeFilter[]) {
   const slices = cubeSlices(test, sign)
-  const rows = await rawSelect<{ grp: number, status: number[], keys: number[], arc: number[] }>(
-    `SELECT group_code AS grp, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc
-     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos`,
-    { datasetId, columnPos, groupPos },
+  const facts = cubeFactSlices(sign)
+  const kept = filters.map(filter => ` AND ${codeCondition(filter.position === cut.first ? 'group_code' : 'pair_code', filter)}`).join('')
+  const rows = await rawSelect<{ first: number, second: number, status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }>(
+    `SELECT group_code AS first, pair_code AS second, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
+     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :first AND pair_pos = :second${kept}`,
+    { datasetId, columnPos, ...cut },
   )
-  return new Map(rows.map(row => [groupPos < 0 ? null : String(row.grp), countsFromCube(test, sign, row)]))
+  const cells = rows.map(row => ({ codes: [row.first, row.second] as const, counts: countsFromCube(test, sign, row) }))
+  return { cells, profile: profileFromCells(rows.map((row, i) => ({ n: cells[i]!.counts.status[sign], facts: row.facts, ends: row.ends }))) }
+}
+
+/** The cells a question needs, when the cube holds them: its filters and grouping touch at most two coded text columns counted together. */
+function cubeCut(query: DigitQuery, stored: NonNullable<Awaited<ReturnType<typeof storedColumn>>>): CubeCut | null {
+  if (!query.codeFilters || !stored.cubeGroups || (query.group && !query.decoding)) return null
+  const columns = [...new Set([...query.codeFilters.map(f => f.position), ...(query.decoding ? [query.decoding.position] : [])])].sort((a, b) => a - b)
+  if (columns.length === 0) return { first: -1, second: -1 }
+  if (columns.length === 1) return stored.cubeGroups.includes(columns[0]!) ? { first: columns[0]!, second: -1 } : null
+  const pairs = stored.cubePairs ?? []
+  for (let i = 0; i + 1 < pairs.length; i += 2) {
+    if (columns.length === 2 && pairs[i] === columns[0] && pairs[i + 1] === columns[1]) return { first: columns[0]!, second: columns[1]! }
+  }
+  return null
+}
+
+/**
+ * A distribution test's counts from the import's cube, without a scan, when it holds them: no
+ * filters, or text and date filters and a grouping (by values or by the periods of dates) that
+ * touch one text column, or two that were counted together. Null when the records must be counted.
+ */
+async function cubeDistribution(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter): Promise<{ groups: Grouped<DistributionCounts>, profile: CellProfile | null } | null> {
+  const cut = stored && cubeCut(query, stored)
+  if (!cut) return null
+  const { cells, profile } = await cubeCells(test, datasetId, columnPos, cut, sign, query.codeFilters!)
+  const decoding = query.decoding
+  if (!decoding) return { groups: new Map([[null, mergeGroups(cells.map(c => c.counts))]]), profile }
+  // Each cell counts toward the group of its code in the grouping column.
+  const side = decoding.position === cut.first ? 0 : 1
+  const byCode = new Map<number, DistributionCounts[]>()
+  for (const cell of cells) {
+    const code = cell.codes[side]
+    const list = byCode.get(code)
+    if (list) list.push(cell.counts)
+    else byCode.set(code, [cell.counts])
+  }
+  const merged = (lists: DistributionCounts[][]) => mergeGroups(lists.flat())
+  if (!decoding.periods) {
+    const names = await groupNames(datasetId, decoding)
+    return { groups: new Map([...byCode].map(([code, lists]) => [names.get(String(code)) ?? '', merged([lists])])), profile }
+  }
+  const byPeriod: Grouped<DistributionCounts> = new Map()
+  for (const [label, codes] of decoding.periods) {
+    const lists = codes.flatMap(code => (byCode.has(code) ? [byCode.get(code)!] : []))
+    if (lists.length) byPeriod.set(label, merged(lists))
+  }
+  return { groups: byPeriod, profile }
 }
 
 /**
@@ -153,7 +223,7 @@ export async function cubeBinCount(datasetId: string, tested: ColumnDTO, bin: { 
   if (!stored?.cubeGroups?.includes(groupPos)) return null
   const [row] = await rawSelect<{ count: number }>(
     `SELECT coalesce((SELECT counts[${cubeKeyIndex(bin.test, bin.sign, bin.key)}] FROM digit_cube
-       WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos AND group_code = ${group
+       WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :groupPos AND pair_pos = -1 AND group_code = ${group
           ? '(SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :groupPos AND value = :group)'
           : '0'}), 0) AS count`,
     { datasetId, columnPos: tested.position, groupPos, group: group?.value.trim() },
@@ -161,21 +231,50 @@ export async function cubeBinCount(datasetId: string, tested: ColumnDTO, bin: { 
   return row?.count ?? 0
 }
 
-async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<CountedProfile | null> {
-  const [row] = await rawSelect<CountedProfile>(`
-    WITH v AS MATERIALIZED (SELECT abs(d.value) AS a, d.value, d.integer_digits, d.fraction_digits, d.trailing_zeros FROM ${query.from} WHERE ${query.where} AND ${ofSign(sign)})
-    SELECT (SELECT count(*) FROM v)::int AS n, (SELECT min(a) FROM v)::text AS min, (SELECT max(a) FROM v)::text AS max,
-      (SELECT count(*) FROM v WHERE a = (SELECT min(a) FROM v))::int AS "atMin",
-      (SELECT count(*) FROM v WHERE a = (SELECT max(a) FROM v))::int AS "atMax",
-      (SELECT count(*) FROM v WHERE fraction_digits = 0)::int AS whole,
-      (SELECT count(*) FROM v WHERE fraction_digits = 0 AND trailing_zeros >= 2)::int AS "roundHundreds",
-      coalesce((SELECT max(c) FROM (SELECT count(*) AS c FROM v GROUP BY integer_digits) l), 0)::int AS "commonLength",
-      coalesce((SELECT max(c) FROM (SELECT count(*) AS c FROM v GROUP BY value) t), 0)::int AS "topValue"
-  `, query.replacements)
-  return row && row.n > 0 ? row : null
+/**
+ * The suitability facts of the query's values. One pass by number of integer digits gives n, the
+ * ends, whole and round counts and the commonest length. How many values sit at each end and how
+ * often the commonest value repeats matter only when they could reach the pile-up or repeated-value
+ * rule: the whole column's commonest value (`wholeTop`, exact) bounds all three, so below the rules
+ * they keep that bound and cost no second scan.
+ */
+async function profileCounts(query: DigitQuery, sign: SignFilter, wholeTop?: number): Promise<CountedProfile | null> {
+  const lengths = await selectRows<{ n: number, min: string, max: string, whole: number, round: number }>(query, {
+    select: `count(*)::int AS n, min(abs(d.value))::text AS min, max(abs(d.value))::text AS max,
+      (count(*) FILTER (WHERE d.fraction_digits = 0))::int AS whole,
+      (count(*) FILTER (WHERE d.fraction_digits = 0 AND d.trailing_zeros >= 2))::int AS round`,
+    extra: ofSign(sign), groupBy: 'd.integer_digits',
+  })
+  if (!lengths.length) return null
+  const byValue = (a: string, b: string) => compareDecimal(toDecimal(a), toDecimal(b))
+  const n = lengths.reduce((sum, l) => sum + l.n, 0)
+  const min = lengths.map(l => l.min).reduce((a, b) => (byValue(a, b) <= 0 ? a : b))
+  const max = lengths.map(l => l.max).reduce((a, b) => (byValue(a, b) >= 0 ? a : b))
+  const profile: CountedProfile = {
+    n, min, max, atMin: 0, atMax: 0,
+    whole: lengths.reduce((sum, l) => sum + l.whole, 0),
+    roundHundreds: lengths.reduce((sum, l) => sum + l.round, 0),
+    commonLength: Math.max(...lengths.map(l => l.n)),
+    topValue: 0,
+  }
+  const bound = wholeTop ?? n
+  if (bound < Math.min(RULES.pileUp, RULES.repeated) * n) return { ...profile, atMin: bound, atMax: bound, topValue: bound }
+  const signed = (text: string) => (sign === 'positive' ? text : `-${text}`)
+  const [ends, top] = await Promise.all([
+    selectRows<{ atMin: number, atMax: number }>(query, {
+      select: '(count(*) FILTER (WHERE d.value = CAST(:atMin AS numeric)))::int AS "atMin", (count(*) FILTER (WHERE d.value = CAST(:atMax AS numeric)))::int AS "atMax"',
+      extra: `${ofSign(sign)} AND d.value IN (CAST(:atMin AS numeric), CAST(:atMax AS numeric))`,
+    }, { atMin: signed(min), atMax: signed(max) }),
+    selectRows<{ top: number }>(query, { select: 'count(*)::int AS top', extra: ofSign(sign), groupBy: 'd.value', tail: 'ORDER BY 1 DESC LIMIT 1' }),
+  ])
+  return { ...profile, atMin: ends[0]?.atMin ?? 0, atMax: ends[0]?.atMax ?? 0, topValue: top[0]?.top ?? 0 }
 }
 
 const GROUPABLE = new Set<TestName>(['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'])
+
+/** Why a test ranks no groups, in the words the settings form and the API give. */
+export const UNGROUPED_REASON = 'Repeated amounts, round amounts and the threshold test are not ranked by group: '
+  + 'they have no expected distribution to measure each group against. Filter the rows to one group instead.'
 
 async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number): Promise<Grouped<object>> {
   if (test === 'summation') return summationCounts(query, sign, grouped)
@@ -187,43 +286,50 @@ async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, g
 
 /**
  * Runs one digit test on a stored dataset: PostgreSQL counts the stored digit records
- * (filtered, optionally per group), the engine turns the counts into statistics.
+ * (filtered, optionally per group), the engine turns the counts into statistics. Where the
+ * import's counts hold the answer (no filters, or filters on the grouping column only) they are
+ * read instead of the records.
  */
 export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBody): Promise<TestResult> {
   if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
   const columns = await datasetColumns(dataset.id)
   const tested = columnByName(columns, body.column, 'column')
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers. Choose an amount or count column.` }])
-  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: 'Groups can be ranked for the digit tests and the summation test only.' }])
+  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: UNGROUPED_REASON }])
   const sign = body.sign ?? 'positive'
-  const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
-  const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
-  if (grouping) await assertFewGroups(grouping, body.groupBy!)
-  const stored = await storedColumn(dataset.id, tested.position)
-  const profile = profileOf(stored, whole, sign, Boolean(body.filters?.length))
-
+  const filtered = Boolean(body.filters?.length)
+  const [whole, grouping, stored] = await Promise.all([
+    buildDigitQuery(dataset.id, columns, tested, body.filters),
+    body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy, body.period) : null,
+    storedColumn(dataset.id, tested.position),
+  ])
+  // Periods are few by nature; a text column may hold a value per row (group-cap.ts).
+  if (grouping && !body.period) await assertFewGroups(grouping, body.groupBy!)
   let counts: TestCountsMap[TestName]
   let groupCounts: Grouped<{ status: StatusCounts }> | null = null
+  let profile: Promise<CountedProfile | null>
   if (body.test in DISTRIBUTIONS) {
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
-    // Unfiltered, the counts the import kept answer without a scan.
     const test = body.test as DistributionTest
-    const groupPos = body.groupBy ? columnByName(columns, body.groupBy, 'groupBy').position : -1
-    const scanned = !body.filters?.length && stored?.cubeGroups?.includes(groupPos)
-      ? await cubeDistribution(test, dataset.id, tested.position, groupPos, sign)
-      : await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping))
-    counts = grouping ? mergeGroups(scanned) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
+    const fromCube = await cubeDistribution(test, dataset.id, stored, tested.position, grouping ?? whole, sign)
+    profile = profileOf(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
+    const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
+    counts = grouping ? mergeGroups(scanned.values()) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {
-    const [status, byTest] = await Promise.all([statusCounts(whole, false), testCounts(body.test, whole, sign, false, body.threshold)])
+    profile = profileOf(stored, whole, sign, filtered)
+    const repeats = body.test === 'duplicates' && !filtered ? stored?.repeats?.[sign] : null
+    const [status, byTest] = await Promise.all([
+      statusCounts(whole, false),
+      repeats ? new Map([[null, repeats]]) : testCounts(body.test, whole, sign, false, body.threshold),
+    ])
     counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]
     if (grouping) {
       const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), testCounts(body.test, grouping, sign, true)])
-      groupCounts = new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }]))
+      groupCounts = await decodeGroups(grouping, new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }])))
     }
   }
-  if (grouping && groupCounts) groupCounts = await decodeGroups(grouping, groupCounts)
   const input = { counts, profile: await profile }
   const groups: Parameters<typeof runDigitTest>[0]['groups'] = groupCounts
     ? {

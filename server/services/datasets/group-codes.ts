@@ -20,6 +20,8 @@ export const MAX_CODED_LENGTH = 500
  */
 export class GroupCodes {
   private readonly codes: (Map<string, number> | null)[]
+  /** Per coded column, how many rows hold each code (a date column's profile counts rows by them). */
+  private readonly rows: number[][]
   private readonly row: Int32Array
 
   constructor(textPositions: boolean[], sample: readonly string[][]) {
@@ -28,6 +30,7 @@ export class GroupCodes {
       const distinct = new Set(sample.map(row => (row[i] ?? '').trim())).size
       return sample.length >= SAMPLE_MINIMUM && distinct > UNIQUE_SHARE * sample.length ? null : new Map()
     })
+    this.rows = textPositions.map(() => [])
     this.row = new Int32Array(textPositions.length)
   }
 
@@ -52,7 +55,9 @@ export class GroupCodes {
         }
         code = map.size + 1
         map.set(text, code)
+        this.rows[i]![code] = 0
       }
+      this.rows[i]![code]!++
       codes[i] = code
     }
     return codes
@@ -60,6 +65,13 @@ export class GroupCodes {
 
   isCoded(position: number): boolean {
     return this.codes[position] !== null && this.codes[position] !== undefined
+  }
+
+  /** A coded column's texts with their codes and how many rows hold each. */
+  * valuesOf(position: number): Generator<[value: string, code: number, rows: number]> {
+    const map = this.codes[position]
+    if (!map) return
+    for (const [value, code] of map) yield [value, code, this.rows[position]![code]!]
   }
 
   /** Every coded text with its column position and code, for the dictionary table. */

@@ -14,6 +14,7 @@ import type { Encoded } from './row-encoder-worker'
 import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat, TextEncoding } from './sniff'
 import { dropPartitionsSql, partitionNames } from './partitions'
+import { duplicateCounts } from './digit-tests'
 
 const PROGRESS_EVERY_MS = 500
 /** Batches of rows with the encoding thread at once: enough to keep it busy, few enough to bound memory. */
@@ -125,6 +126,7 @@ export async function importDataset(datasetId: string): Promise<void> {
         throw error
       }
       await speedUp(db)
+      await countRepeats(read.encoded.columns)
     })
   }
   finally {
@@ -189,6 +191,25 @@ export async function importDataset(datasetId: string): Promise<void> {
       CREATE INDEX IF NOT EXISTS ${names.digits}_column_row ON ${names.digits} (column_pos, row_no);
       ANALYZE ${names.rows} (row_no); ANALYZE ${names.digits}; ANALYZE ${names.cube};
     `).catch(error => console.warn(`[import] ${datasetId}: indexes or statistics not made: ${(error as Error).message}`))
+  }
+
+  /**
+   * Each number column's repeated values per sign, counted once over the whole column and kept, so
+   * that the unfiltered repeated-amounts test reads them (until then it counts them itself, with the
+   * same answer). A failure here changes no answer either.
+   */
+  async function countRepeats(columns: EncodedImport['columns']) {
+    for (const [position, column] of columns.entries()) {
+      if (!column.signs) continue
+      const whole = { from: `${names.digits} d`, where: `d.column_pos = ${position}`, replacements: { datasetId } }
+      try {
+        const [positive, negative] = [await duplicateCounts(whole, 'positive'), await duplicateCounts(whole, 'negative')]
+        await models.DatasetColumn.update({ repeats: { positive, negative } }, { where: { datasetId, position } })
+      }
+      catch (error) {
+        console.warn(`[import] ${datasetId}: repeated values of column ${position} not kept: ${(error as Error).message}`)
+      }
+    }
   }
 
   /** How often each column's most frequent value (per sign) occurs, where the import could not settle it (row-encoder.ts). */

@@ -1,9 +1,11 @@
 import { RULES, detectNumberStyle, recordOf, readNumber } from '#shared/digits'
 import type { ColumnProfile as SuitabilityProfile, NumberStyle } from '#shared/digits'
+import { dayText, detectDateOrder, readDate } from '#shared/dates/read-date'
+import type { DateReadingDTO } from '#shared/types/dataset'
 import { ColumnProfile, clip } from './column-profile'
 import type { ColumnKind } from './column-profile'
 import { CopyEncoder, uuidBytes, writeDigits, writeGroupValue, writeRow } from './copy-encoder'
-import { DigitCubeCounter } from './digit-cube'
+import { DigitCubeCounter, choosePairs } from './digit-cube'
 import { FrequentValues } from './frequent-values'
 import type { Leader } from './frequent-values'
 import { GroupCodes } from './group-codes'
@@ -71,6 +73,8 @@ export interface ColumnSummary {
   samples: string[]
   coded: boolean
   cubeGroups: number[] | null
+  cubePairs: number[] | null
+  dates: DateReadingDTO | null
   /** Per sign, the suitability facts with topValue still 0, and the most frequent value. */
   signs: { positive: SuitabilityProfile | null, negative: SuitabilityProfile | null, top: { positive: TopValue | null, negative: TopValue | null } } | null
 }
@@ -146,16 +150,46 @@ export class RowEncoder {
     if (this.rowNo === 0) throw new UnreadableFile('The file has a header but no rows of data.')
     const cube = new CopyEncoder()
     this.cube!.write(cube, this.dataset)
+    const dates = plan.map(({ profile }, position) => (profile.kind === 'date' ? this.readDates(position) : null))
     const dictionary = new CopyEncoder()
-    for (const [position, code, value] of this.groupCodes!.dictionary()) writeGroupValue(dictionary, this.dataset, position, code, value)
+    for (const [position, code, value] of this.groupCodes!.dictionary()) writeGroupValue(dictionary, this.dataset, position, code, value, dates[position]?.days[code] ?? null)
     return {
       rows: this.rows.end(),
       digits: this.digits.end(),
-      encoded: { rowCount: this.rowNo, columns: plan.map((column, position) => this.summary(column.profile, position)), cube: cube.end(), dictionary: dictionary.end() },
+      encoded: {
+        rowCount: this.rowNo,
+        columns: plan.map((column, position) => this.summary(column.profile, position, dates[position]?.reading ?? null)),
+        cube: cube.end(),
+        dictionary: dictionary.end(),
+      },
     }
   }
 
-  private summary(profile: ColumnProfile, position: number): ColumnSummary {
+  /** A coded date column's texts read as days, in the one order its values settle. */
+  private readDates(position: number): { days: (number | null)[], reading: DateReadingDTO } | null {
+    const codes = this.groupCodes!
+    if (!codes.isCoded(position)) return null
+    const { order, settled } = detectDateOrder([...codes.valuesOf(position)].map(([value]) => value))
+    const days: (number | null)[] = []
+    let read = 0
+    let unread = 0
+    let first = Infinity
+    let last = -Infinity
+    for (const [value, code, rows] of codes.valuesOf(position)) {
+      const day = value ? readDate(value, order) : null
+      days[code] = day
+      if (day === null) {
+        if (value) unread += rows
+        continue
+      }
+      read += rows
+      first = Math.min(first, day)
+      last = Math.max(last, day)
+    }
+    return { days, reading: { order, settled, read, unread, first: read ? dayText(first) : null, last: read ? dayText(last) : null } }
+  }
+
+  private summary(profile: ColumnProfile, position: number, dates: DateReadingDTO | null): ColumnSummary {
     const signs = this.frequent[position]
     return {
       name: profile.name,
@@ -172,6 +206,8 @@ export class RowEncoder {
       samples: profile.samples,
       coded: this.groupCodes!.isCoded(position),
       cubeGroups: profile.numeric ? this.cube!.groupingsOf(position) : null,
+      cubePairs: profile.numeric ? this.cube!.pairingsOf(position) : null,
+      dates,
       signs: signs
         ? {
             positive: profile.bySign.positive.toProfile(0),
@@ -192,7 +228,7 @@ export class RowEncoder {
     const texts = plan.flatMap(({ profile }, position) => (profile.numeric ? [] : [position]))
     this.plan = plan
     this.groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric), this.sample)
-    this.cube = new DigitCubeCounter(numbers, texts)
+    this.cube = new DigitCubeCounter(numbers, texts, choosePairs(texts, this.sample))
     // Per number column, the most frequent positive and negative value (the suitability check's repeated amounts).
     this.frequent = plan.map(({ profile }) => (profile.numeric ? [new FrequentValues(), new FrequentValues()] as const : null))
     const sample = this.sample

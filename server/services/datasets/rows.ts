@@ -1,10 +1,11 @@
 import { DISTRIBUTIONS, decimalToText, thresholdBand } from '#shared/digits'
 import type { DistributionTest, TestName } from '#shared/digits'
+import type { Period } from '#shared/dates/read-date'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { PageDTO, RowDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { buildDigitQuery, columnByName, rawSelect, signCode } from './digit-query'
+import { buildDigitQuery, columnByName, groupReplacements, rawSelect, signCode } from './digit-query'
 import { cubeBinCount } from './digit-tests'
 
 export const PAGE_SIZE = 50
@@ -41,10 +42,12 @@ export interface DrillDown {
   column: string
   key: string
   page: number
+  pageSize?: number
   sign?: 'positive' | 'negative'
   threshold?: number
   filters?: DatasetFilter[]
   groupBy?: string
+  period?: Period
   group?: string
 }
 
@@ -75,26 +78,27 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   const columns = await datasetColumns(dataset.id)
   const tested = columnByName(columns, request.column, 'column')
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers.` }])
-  const query = buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy)
+  const query = await buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy, request.period)
   const bin = binCondition(request.test, request.key, request.threshold)
   let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
-  const replacements: typeof query.replacements = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
+  const pageSize = request.pageSize ?? PAGE_SIZE
+  const replacements: typeof query.replacements = { ...query.replacements, ...bin.values, offset: (request.page - 1) * pageSize, limit: pageSize }
   if (query.groupEquals && request.group !== undefined) {
     where += ` AND ${query.groupEquals}`
-    replacements.group = query.groupCodesOf === null ? request.group : request.group.trim()
+    Object.assign(replacements, groupReplacements(query, request.group))
   }
   // The bin's row numbers first, then only that page's rows: joining every record to its row
   // before choosing the page costs a lookup per record. Unfiltered, the import's counts give the total.
   const distribution = request.test === 'summation' ? 'first-two-digits' : request.test in DISTRIBUTIONS ? request.test as DistributionTest : null
-  const groupColumn = request.groupBy && request.group !== undefined ? columnByName(columns, request.groupBy, 'groupBy') : null
+  const groupColumn = request.groupBy && request.group !== undefined && !request.period ? columnByName(columns, request.groupBy, 'groupBy') : null
   const [items, counted] = await Promise.all([
     rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells
-      FROM (SELECT d.row_no FROM ${query.from} WHERE ${where} ORDER BY d.row_no LIMIT ${PAGE_SIZE} OFFSET :offset) hit
+      FROM (SELECT d.row_no FROM ${query.from} WHERE ${where} ORDER BY d.row_no LIMIT :limit OFFSET :offset) hit
       JOIN dataset_rows r ON r.dataset_id = :datasetId AND r.row_no = hit.row_no ORDER BY r.row_no`, replacements),
-    distribution && !request.filters?.length
+    distribution && !request.filters?.length && !(request.period && request.group !== undefined)
       ? cubeBinCount(dataset.id, tested, { test: distribution, key: Number(request.key), sign: request.sign ?? 'positive' }, groupColumn ? { column: groupColumn, value: request.group! } : undefined)
       : null,
   ])
   const total = counted ?? (await rawSelect<{ total: number }>(`SELECT count(*)::int AS total FROM ${query.from} WHERE ${where}`, replacements))[0]?.total ?? 0
-  return { page: request.page, pageSize: PAGE_SIZE, total, items, column: tested.name, key: request.key }
+  return { page: request.page, pageSize, total, items, column: tested.name, key: request.key }
 }
