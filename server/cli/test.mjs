@@ -3,7 +3,7 @@ import { spawn } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { ensurePostgres } from './postgres.mjs'
-import { buildIfStale, ensureChromium, ensureDependencies, migrate, root, run, step, waitForServer } from './prepare.mjs'
+import { buildIfStale, ensureChromium, ensureDependencies, ensurePoppler, migrate, root, run, step, waitForServer } from './prepare.mjs'
 
 const port = Number(process.env.MANTISSA_TEST_PORT ?? 3101)
 const mailPort = Number(process.env.MANTISSA_TEST_MAIL_PORT ?? 2625)
@@ -13,6 +13,7 @@ const failures = []
 
 ensureDependencies()
 ensureChromium()
+ensurePoppler()
 step('starting the test PostgreSQL (throwaway, its own port and folder)')
 const database = ensurePostgres({ name: 'test', port: Number(process.env.MANTISSA_TEST_PG_PORT ?? 54339), database: 'mantissa_test', throwaway: true })
 database.recreate()

@@ -2,7 +2,7 @@ import type { TestResult } from '../digits/types'
 import type { DatasetFilter } from '../schemas/dataset'
 import type { AnalysisSettings } from '../types/investigation'
 import { TEST_LABELS } from './labels'
-import { legendItems } from './legend'
+import { expectation, legendItems } from './legend'
 import type { LegendItem } from './legend'
 import { summarize } from './summary'
 
@@ -25,6 +25,19 @@ export interface ChartText {
   summary: string
   source: string
   caution: string
+}
+
+/** A column as far as its dates go; `dates` is the import's reading of a date column, where it has one. */
+interface DatedColumn {
+  name: string
+  kind: string
+  dates?: { first: string | null, last: string | null } | null
+}
+
+/** The dataset's date range: the first and last date of its first date column that was read as dates. */
+export function periodOf(columns: readonly DatedColumn[]): ChartSource['period'] {
+  const column = columns.find(c => c.kind === 'date' && c.dates?.first && c.dates.last)
+  return column ? { column: column.name, from: column.dates!.first!, to: column.dates!.last! } : null
 }
 
 const count = (n: number) => n.toLocaleString('en-GB')
@@ -81,7 +94,7 @@ export function chartText(result: TestResult, settings: AnalysisSettings, source
     describeSelection(settings, result),
   ].filter(Boolean).join(' · ')
   return {
-    title: `${TEST_LABELS[result.test]} of “${result.column ?? 'the column'}”`,
+    title: [`${TEST_LABELS[result.test]} of “${result.column ?? 'the column'}”`, expectation(result.test).against].filter(Boolean).join(', '),
     subtitle,
     legend: legendItems(result),
     summary: frozenSummary ?? summarize(result),

@@ -63,11 +63,14 @@ const STEPS = [1, 2, 5, 10, 20, 25, 50, 100, 200, 250, 500, 1000]
  */
 export function axisKeys(labels: readonly string[]): string[] {
   if (labels.length <= 12) return [...labels]
-  if (labels.every(l => /^\d+$/.test(l))) {
-    const values = labels.map(Number)
+  const values = labels.map(l => (/^\d+$/.test(l) ? Number(l) : Number.NaN))
+  const consecutive = values.every((v, i) => Number.isInteger(v) && (i === 0 || v === values[i - 1]! + 1))
+  if (consecutive) {
     const step = STEPS.find(s => values.filter(v => v % s === 0).length <= AXIS_LABELS) ?? values.length
     return labels.filter((_, i) => values[i]! % step === 0)
   }
+  // Amounts (repeated amounts, bands): each names its own bar, so up to two dozen all get a label.
+  if (labels.length <= 24) return [...labels]
   const every = Math.ceil(labels.length / AXIS_LABELS)
   return labels.filter((_, i) => i % every === 0)
 }
@@ -93,9 +96,29 @@ export function valueTicks(max: number, kind: 'share' | 'count'): { values: numb
 
 /** Mark sizes that stay readable from 9 bins to 900. */
 function density(bins: number) {
-  if (bins <= 12) return { dot: 70, flag: 120, capsule: 0.56, radius: 5, callouts: 12 }
-  if (bins <= 120) return { dot: 24, flag: 60, capsule: 0.7, radius: 2, callouts: 6 }
-  return { dot: 8, flag: 34, capsule: 1, radius: 0, callouts: 5 }
+  if (bins <= 12) return { dot: 70, flag: 120, capsule: 0.5, tick: 0.66, radius: 5, callouts: 12 }
+  if (bins <= 30) return { dot: 30, flag: 70, capsule: 0.6, tick: 0.8, radius: 3, callouts: 8 }
+  if (bins <= 120) return { dot: 24, flag: 60, capsule: 0.7, tick: 0.9, radius: 2, callouts: 6 }
+  return { dot: 8, flag: 34, capsule: 1, tick: 1, radius: 0, callouts: 4 }
+}
+
+/**
+ * Callouts for the bins furthest outside their range (by |z|), at most `limit`. A callout close to
+ * the previous one on the same side is lifted a line (up to two), so neighbours never print on top
+ * of each other; `calloutAt` is where it is drawn, in the axis's units.
+ */
+function withCallouts(data: ChartDatum[], limit: number, top: number) {
+  const chosen = new Set(data.filter(d => d.outside).sort((a, b) => Math.abs(b.z ?? 0) - Math.abs(a.z ?? 0)).slice(0, limit).map(d => d.key))
+  const gap = Math.max(1, Math.ceil(data.length / 18))
+  const last: Record<string, { index: number, level: number }> = {}
+  return data.map((d, index) => {
+    if (!chosen.has(d.key) || !d.direction) return { ...d, callout: null, calloutAt: d.share }
+    const previous = last[d.direction]
+    const level = previous && index - previous.index <= gap ? (previous.level + 1) % 3 : 0
+    last[d.direction] = { index, level }
+    const lift = level * top * 0.07 * (d.direction === 'above' ? 1 : -1)
+    return { ...d, callout: `${d.label} ${d.direction === 'above' ? '▲' : '▼'}`, calloutAt: Math.min(top, Math.max(0, d.share + lift)) }
+  })
 }
 
 export interface ChartSize {
@@ -111,7 +134,7 @@ export interface ChartSize {
  * ▼ below), so the mark never rests on colour alone. Tests without a range (repeated amounts)
  * draw stems from zero. The words (title, legend, summary, source, caution) go around it.
  */
-export function digitChartSpec(result: TestResult, options: ChartSize & { interactive?: boolean } = {}) {
+export function digitChartSpec(result: TestResult, options: ChartSize & { interactive?: boolean, valueAxis?: 'left' | 'right' } = {}) {
   const data = chartData(result)
   const size = density(data.length)
   const isCount = result.test === 'duplicates'
@@ -130,13 +153,12 @@ export function digitChartSpec(result: TestResult, options: ChartSize & { intera
     type: 'quantitative',
     title: isCount ? 'Rows with this amount' : result.test === 'summation' ? 'Share of the total amount' : 'Share of values',
     scale: { domain: [0, ticks.top], nice: false, zero: true },
-    axis: { values: ticks.values, format: ticks.format, grid: true, gridDash: [1, 3], domain: false, ticks: false, labelPadding: 6 },
+    axis: { orient: options.valueAxis ?? 'left', values: ticks.values, format: ticks.format, grid: true, gridDash: [1, 3], domain: false, ticks: false, labelPadding: 6 },
   }
   const yOf = (field: string) => ({ field, ...y })
   const hasRange = data.some(d => d.lowShare !== null)
   const hasExpectation = data.some(d => d.expectedShare !== null)
-  const callouts = new Set(data.filter(d => d.outside).sort((a, b) => Math.abs(b.z ?? 0) - Math.abs(a.z ?? 0)).slice(0, size.callouts).map(d => d.key))
-  const values = data.map(d => ({ ...d, callout: callouts.has(d.key) ? `${d.label} ${d.direction === 'above' ? '▲' : '▼'}` : null }))
+  const values = withCallouts(data, size.callouts, ticks.top)
   const tooltip = [
     { field: 'label', title: 'Bin' },
     { field: 'count', title: 'Count', format: ',d' },
@@ -161,7 +183,7 @@ export function digitChartSpec(result: TestResult, options: ChartSize & { intera
   if (hasExpectation) {
     layers.push({
       transform: [{ filter: 'datum.expectedShare !== null' }],
-      mark: { type: 'tick', color: PALETTE.expect, thickness: data.length > 120 ? 1 : 2, bandSize: 0.9 },
+      mark: { type: 'tick', color: PALETTE.expect, thickness: data.length > 120 ? 1 : 2, bandSize: size.tick },
       encoding: { x, y: yOf('expectedShare') },
     })
   }
@@ -184,13 +206,21 @@ export function digitChartSpec(result: TestResult, options: ChartSize & { intera
       ...(options.interactive ? { tooltip } : {}),
     },
   })
-  if (callouts.size) {
+  if (values.some(v => v.callout)) {
+    // Above its range: the callout sits over the diamond; below: beside it, clear of the axis.
+    // Each is drawn twice, first as a paper-coloured outline, so it reads over the marks behind it.
     for (const side of ['above', 'below'] as const) {
-      layers.push({
-        transform: [{ filter: `datum.callout !== null && datum.direction === '${side}'` }],
-        mark: { type: 'text', color: PALETTE.signal, fontSize: 10, fontWeight: 600, dy: side === 'above' ? -11 : 13, baseline: side === 'above' ? 'bottom' : 'top' },
-        encoding: { x, y: yOf('share'), text: { field: 'callout' } },
-      })
+      for (const halo of [true, false]) {
+        layers.push({
+          transform: [{ filter: `datum.callout !== null && datum.direction === '${side}'` }],
+          mark: {
+            type: 'text', color: halo ? PALETTE.paper : PALETTE.signal, fontSize: 10, fontWeight: 600,
+            ...(halo ? { stroke: PALETTE.paper, strokeWidth: 3, strokeJoin: 'round' } : {}),
+            ...(side === 'above' ? { dy: -9, baseline: 'bottom', align: 'center' } : { dx: 7, baseline: 'middle', align: 'left' }),
+          },
+          encoding: { x, y: yOf('calloutAt'), text: { field: 'callout' } },
+        })
+      }
     }
   }
   return {
@@ -217,7 +247,7 @@ export const CHART_CONFIG = {
 
 /** The specification a chart is drawn from on screen: the chart alone, as wide as its box. */
 export function screenChartSpec(result: TestResult, options: ChartSize = {}) {
-  return { ...digitChartSpec(result, { ...options, interactive: true }), background: PALETTE.paper, config: CHART_CONFIG }
+  return { ...digitChartSpec(result, { ...options, interactive: true }), background: null, config: { ...CHART_CONFIG, background: null } }
 }
 
 interface TextLine { x: number, y: number, text: string, size: number, weight: number, color: string }
@@ -243,10 +273,8 @@ function textBlock(lines: TextLine[], width: number, height: number) {
 /** The legend as marks: a sample of each mark with its words, wrapped to the width. */
 function legendBlock(result: TestResult, width: number) {
   const items = legendItems(result)
-  const columnWidth = width / 2
-  const rows = Math.ceil(items.length / 2)
-  const samples = items.map((item, i) => ({ ...item, x: (i % 2) * columnWidth + 8, y: Math.floor(i / 2) * 22 + 8 }))
-  const height = rows * 22 + 4
+  const samples = items.map((item, i) => ({ ...item, x: 0, y: i * 20 + 8 }))
+  const height = items.length * 20 + 2
   const at = (filter: string, mark: object, extra: object = {}) => ({
     transform: [{ filter }],
     mark,
@@ -258,11 +286,11 @@ function legendBlock(result: TestResult, width: number) {
     layer: [
       at('datum.mark === \'range\'', { type: 'rect', fill: PALETTE.expectSoft, stroke: PALETTE.expect, strokeOpacity: 0.7, cornerRadius: 3 }, { x: { field: 'x', type: 'quantitative', scale: null, axis: null }, x2: { field: 'x2' }, y: { field: 'yTop', type: 'quantitative', scale: null }, y2: { field: 'yBottom' } }),
       at('datum.mark === \'expected\'', { type: 'rule', stroke: PALETTE.expect, strokeWidth: 2 }, { x: { field: 'x', type: 'quantitative', scale: null }, x2: { field: 'x2' } }),
-      at('datum.mark === \'observed\'', { type: 'point', filled: true, shape: 'circle', size: 60, color: PALETTE.ink }, { x: { field: 'xMid', type: 'quantitative', scale: null } }),
+      at('datum.mark === \'observed\'', { type: 'point', filled: true, opacity: 1, shape: 'circle', size: 60, color: PALETTE.ink }, { x: { field: 'xMid', type: 'quantitative', scale: null } }),
       at('datum.mark === \'stem\'', { type: 'rule', stroke: PALETTE.ink, strokeWidth: 1.5 }, { x: { field: 'xMid', type: 'quantitative', scale: null }, y: { field: 'yTop', type: 'quantitative', scale: null }, y2: { field: 'yBottom' } }),
-      at('datum.mark === \'outside\'', { type: 'point', filled: true, shape: 'diamond', size: 100, color: PALETTE.signal }, { x: { field: 'xMid', type: 'quantitative', scale: null } }),
+      at('datum.mark === \'outside\'', { type: 'point', filled: true, opacity: 1, shape: 'diamond', size: 100, color: PALETTE.signal }, { x: { field: 'xMid', type: 'quantitative', scale: null } }),
       {
-        mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, color: PALETTE.ink, limit: columnWidth - 36 },
+        mark: { type: 'text', align: 'left', baseline: 'middle', fontSize: 11, color: PALETTE.ink, limit: width - 30 },
         encoding: { x: { field: 'xText', type: 'quantitative', scale: null }, y: { field: 'y', type: 'quantitative', scale: null }, text: { field: 'text' } },
       },
     ],
@@ -299,7 +327,8 @@ export function exportChartSpec(result: TestResult, text: ChartText, width = 720
     spacing: 14,
     vconcat: [
       legendBlock(result, width),
-      digitChartSpec(result, { width, height: 300 }),
+      // The value axis on the right, so the chart, its words and the title share one left edge.
+      digitChartSpec(result, { width, height: 300, valueAxis: 'right' }),
       textBlock(lines, width, y),
     ],
   }

@@ -7,11 +7,12 @@ export interface LegendItem {
   text: string
 }
 
-/** What each test compares with: the words for the capsule and the bar across it. */
-function expectation(test: TestName): { what: string, range: string } {
-  if (test === 'last-two-digits') return { what: 'What an even spread of endings expects', range: 'an even spread' }
-  if (test === 'threshold') return { what: 'A straight trend through the bands away from the limit', range: 'that trend' }
-  return { what: 'What Benford’s law expects', range: 'the law' }
+/** What each test compares with: the words for the title, the capsule and the bar across it. */
+export function expectation(test: TestName): { what: string, range: string, against: string | null } {
+  if (test === 'duplicates') return { what: '', range: '', against: null }
+  if (test === 'last-two-digits') return { what: 'What an even spread of endings expects', range: 'an even spread', against: 'against an even spread' }
+  if (test === 'threshold') return { what: 'A straight trend through the bands away from the limit', range: 'that trend', against: 'against a smooth trend' }
+  return { what: 'What Benford’s law expects', range: 'the law', against: 'against Benford’s law' }
 }
 
 /**

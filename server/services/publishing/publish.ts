@@ -3,11 +3,13 @@ import { Op } from 'sequelize'
 import { summarize } from '#shared/charts/summary'
 import { TEST_LABELS } from '#shared/charts/labels'
 import { methodologyAppendix } from '#shared/methodology/appendix'
+import { periodOf } from '#shared/charts/chart-text'
 import type { DatasetFingerprint, PublishBlockerDTO, PublishedBlock, PublishedSnapshot, PublishOutcomeDTO, ShareLinkDTO } from '#shared/types/publication'
 import type { Investigation, ShareLink } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { liveBlocks, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
+import { datasetColumns } from '../datasets/catalog'
 
 export function hashToken(token: string) {
   return createHash('sha256').update(token).digest('hex')
@@ -45,10 +47,10 @@ async function snapshotOf(investigation: Investigation): Promise<PublishedSnapsh
     published.push({ kind: 'analysis', settings, result, summary: result ? summarize(result) : 'This analysis was not run.' })
   }
   const datasetIds = [...new Set(blocks.map(b => b.settings?.datasetId).filter((id): id is string => Boolean(id)))]
-  const datasets: DatasetFingerprint[] = (await models.Dataset.findAll({ where: { id: { [Op.in]: datasetIds } } })).map(d => ({
+  const datasets: DatasetFingerprint[] = await Promise.all((await models.Dataset.findAll({ where: { id: { [Op.in]: datasetIds } } })).map(async d => ({
     id: d.id, title: d.title, sha256: d.sha256, rowCount: d.rowCount ?? null, obtainedOn: d.obtainedOn,
-    sourceNote: d.sourceNote, sourceUrl: d.sourceUrl, originalName: d.originalName,
-  }))
+    sourceNote: d.sourceNote, sourceUrl: d.sourceUrl, originalName: d.originalName, period: periodOf(await datasetColumns(d.id)),
+  })))
   const newsroom = await models.Newsroom.findByPk(investigation.newsroomId)
   const analyses = published.flatMap(b => (b.kind === 'analysis' ? [{ settings: b.settings, result: b.result }] : []))
   return {

@@ -121,7 +121,7 @@ describe('exported charts and their numbers', () => {
     const svg = await view.toSVG()
     view.finalize()
     const plain = svg.replace(/<[^>]+>/g, ' ').replace(/&#x27;|&apos;/g, '\'').replace(/&quot;/g, '"').replace(/&amp;/g, '&').replace(/\s+/g, ' ')
-    expect(plain).toContain('First digit of “amount”')
+    expect(plain).toContain('First digit of “amount”, against Benford’s law')
     expect(plain).toContain('n = 3,000 values tested')
     expect(plain).toContain('grouped by “department”')
     for (const item of text.legend) expect(plain).toContain(item.text.split(' ').slice(0, 3).join(' '))
