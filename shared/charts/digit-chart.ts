@@ -112,12 +112,13 @@ function withCallouts(data: ChartDatum[], limit: number, top: number) {
   const gap = Math.max(1, Math.ceil(data.length / 18))
   const last: Record<string, { index: number, level: number }> = {}
   return data.map((d, index) => {
-    if (!chosen.has(d.key) || !d.direction) return { ...d, callout: null, calloutAt: d.share }
+    if (!chosen.has(d.key) || !d.direction) return { ...d, callout: null, calloutAt: d.share, placement: null }
     const previous = last[d.direction]
     const level = previous && index - previous.index <= gap ? (previous.level + 1) % 3 : 0
     last[d.direction] = { index, level }
     const lift = level * top * 0.07 * (d.direction === 'above' ? 1 : -1)
-    return { ...d, callout: `${d.label} ${d.direction === 'above' ? '▲' : '▼'}`, calloutAt: Math.min(top, Math.max(0, d.share + lift)) }
+    const placement = d.direction === 'above' ? 'over' : data.length <= 30 && d.share > top * 0.15 ? 'under' : 'beside'
+    return { ...d, callout: `${d.label} ${d.direction === 'above' ? '▲' : '▼'}`, calloutAt: Math.min(top, Math.max(0, d.share + lift)), placement }
   })
 }
 
@@ -207,16 +208,17 @@ export function digitChartSpec(result: TestResult, options: ChartSize & { intera
     },
   })
   if (values.some(v => v.callout)) {
-    // Above its range: the callout sits over the diamond; below: beside it, clear of the axis.
-    // Each is drawn twice, first as a paper-coloured outline, so it reads over the marks behind it.
-    for (const side of ['above', 'below'] as const) {
+    // Above its range the callout sits over the diamond; below, under it, or beside it when under
+    // would reach the axis or crowd the next bin. Each is drawn twice, first as a paper-coloured
+    // outline, so it reads over the marks behind it.
+    const placements = { over: { dy: -9, baseline: 'bottom', align: 'center' }, under: { dy: 9, baseline: 'top', align: 'center' }, beside: { dx: 7, baseline: 'middle', align: 'left' } }
+    for (const [placement, position] of Object.entries(placements)) {
       for (const halo of [true, false]) {
         layers.push({
-          transform: [{ filter: `datum.callout !== null && datum.direction === '${side}'` }],
+          transform: [{ filter: `datum.callout !== null && datum.placement === '${placement}'` }],
           mark: {
-            type: 'text', color: halo ? PALETTE.paper : PALETTE.signal, fontSize: 10, fontWeight: 600,
+            type: 'text', color: halo ? PALETTE.paper : PALETTE.signal, fontSize: 10, fontWeight: 600, ...position,
             ...(halo ? { stroke: PALETTE.paper, strokeWidth: 3, strokeJoin: 'round' } : {}),
-            ...(side === 'above' ? { dy: -9, baseline: 'bottom', align: 'center' } : { dx: 7, baseline: 'middle', align: 'left' }),
           },
           encoding: { x, y: yOf('calloutAt'), text: { field: 'callout' } },
         })
