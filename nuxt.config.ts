@@ -40,6 +40,14 @@ export default defineNuxtConfig({
   dir: { public: 'app/public' },
   compatibilityDate: '2026-11-01',
   nitro: {
+    // Tests and benchmarks that reach server code or Node's built-ins are checked with the server's types.
+    typescript: {
+      tsConfig: {
+        compilerOptions: { noUnusedLocals: true },
+        include: ['../tests/unit/**/*', '../tests/server/**/*', '../tests/support/**/*', '../tests/fixtures/**/*.ts', '../bench/**/*'],
+        exclude: ['../tests/support/browser.ts'],
+      },
+    },
     rollupConfig: { plugins: [threadScripts(fileURLToPath(new URL('./shared', import.meta.url)))] },
     // The engine's exact decimal arithmetic uses BigInt literals.
     esbuild: { options: { target: 'es2022' } },
@@ -56,8 +64,22 @@ export default defineNuxtConfig({
       include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', '@tiptap/pm/view', 'vega-embed', 'vega-lite', 'vega', 'vega-interpreter', 'arquero', 'papaparse', 'zod'],
     },
   },
+  // `nuxt typecheck` covers the tests too, and a local nobody reads is an error everywhere.
   typescript: {
     strict: true,
+    tsConfig: {
+      compilerOptions: { noUnusedLocals: true },
+      include: ['../tests/components/**/*'],
+    },
+    sharedTsConfig: { compilerOptions: { noUnusedLocals: true } },
+    // Browser tests run in Node but hand functions to the page, so they see both Node's and the DOM's types.
+    nodeTsConfig: {
+      compilerOptions: {
+        noUnusedLocals: true, lib: ['ESNext', 'DOM', 'DOM.Iterable'], types: ['node'],
+        paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'] },
+      },
+      include: ['../tests/vitest.config.ts', '../tests/browser/**/*', '../tests/support/browser.ts'],
+    },
   },
   telemetry: false,
   eslint: {

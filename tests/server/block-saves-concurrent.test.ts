@@ -31,7 +31,7 @@ const paragraph = (text: string) => ({ type: 'paragraph', content: [{ type: 'tex
 const filterOf = (i: number) => ({ column: 'supplier', op: 'equals' as const, value: `Supplier ${i}` })
 
 /** One edit per block kind: what client `i` changes, made on top of the block as it now is. */
-const EDITS = {
+const EDITS: Record<'prose' | 'analysis', (i: number, current: any) => Record<string, unknown>> = {
   prose: (i: number, current: any) => ({ content: { type: 'doc', content: [...(current.content?.content ?? []), paragraph(`Edit by tab ${i}`)] } }),
   analysis: (i: number, current: any) => ({ settings: { ...current.settings, filters: [...(current.settings?.filters ?? []), filterOf(i)] } }),
 }
@@ -55,8 +55,8 @@ describe.each(['prose', 'analysis'] as const)('ten saves of one %s block at once
     expect(won.version).toBe(start.version + 1)
     const stored = await freshBlock(story, kind)
     expect(stored.version).toBe(start.version + 1)
-    if (kind === 'prose') expect(stored.content).toEqual(changes[winner]!.content)
-    else expect(stored.settings).toEqual(changes[winner]!.settings)
+    const field = kind === 'prose' ? 'content' : 'settings'
+    expect(stored[field]).toEqual(changes[winner]![field])
 
     for (const reply of replies.filter(r => r.status === 409)) {
       expect(reply.body).toMatchObject({ statusCode: 409, statusMessage: 'Changed by someone else' })

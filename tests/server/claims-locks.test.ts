@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto'
 import { beforeAll, describe, expect, it } from 'vitest'
+import type { Reply } from '../support/api'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import {
@@ -32,7 +33,7 @@ const reporterSaves = (story: Story, content: unknown) => saveBlock(newsroom.rep
 const withClaim = (story: Story, claimText: string, before = BEFORE_CLAIM, after = AFTER_CLAIM) =>
   proseDoc(before, { text: claimText, claimId: story.claimId }, after)
 
-function expectLockedBy(reply: { status: number, body: any }, at: string) {
+function expectLockedBy(reply: Reply, at: string) {
   expectStatus(reply, 423)
   expect(reply.body.data).toMatchObject({ lockedBy: newsroom.names['fact-checker'], lockedAt: at })
   expect(reply.body.data.message).toContain(newsroom.names['fact-checker'])

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import { createReadStream, existsSync, openAsBlob } from 'node:fs'
 import { readdir } from 'node:fs/promises'
+import { ReadableStream } from 'node:stream/web'
 import { join, resolve } from 'node:path'
 import { expect } from 'vitest'
 import type { Client, Reply } from './api'
@@ -13,7 +14,8 @@ export const storageBase = resolve(process.env.NUXT_STORAGE_BASE ?? '.data/test-
 export type UploadBody = Uint8Array | { path: string }
 
 async function blobOf(body: UploadBody): Promise<Blob> {
-  return body instanceof Uint8Array ? new Blob([body]) : await openAsBlob(body.path)
+  // The type allows a SharedArrayBuffer behind the bytes, which Blob refuses; the tests' bytes never have one.
+  return body instanceof Uint8Array ? new Blob([body as Uint8Array<ArrayBuffer>]) : await openAsBlob(body.path)
 }
 
 /** POST /api/datasets as the scripting API describes it: multipart with `file` and `title`. */

@@ -1,0 +1,83 @@
+// The stack the server and browser tests talk to: the test PostgreSQL and the built app on it.
+// `npm test` starts it once for every test; `npm run test:server` and `test:browser` start it
+// through the tests' global setup, or use the one that already answers on the test port.
+import { spawn } from 'node:child_process'
+import { once } from 'node:events'
+import { join } from 'node:path'
+import { ensurePostgres } from './postgres.mjs'
+import { buildIfStale, migrate, root, step, waitForServer } from './prepare.mjs'
+
+const port = Number(process.env.MANTISSA_TEST_PORT ?? 3101)
+
+/** Where the tests find the stack; MANTISSA_TEST_URL points them at another app. */
+export const testUrl = process.env.MANTISSA_TEST_URL ?? `http://localhost:${port}`
+
+export function testDatabase() {
+  return ensurePostgres({ name: 'test', port: Number(process.env.MANTISSA_TEST_PG_PORT ?? 54339), database: 'mantissa_test', throwaway: true })
+}
+
+/** What the test files read from the environment, beside the URL. */
+export function testEnv(databaseUrl) {
+  return {
+    MANTISSA_TEST_URL: testUrl,
+    NUXT_DATABASE_URL: databaseUrl,
+    NUXT_STORAGE_BASE: join(root, '.data', 'test-files'),
+    // Lower than the 200 MB default so the over-the-limit test sends 20 MB, not 200.
+    NUXT_UPLOAD_LIMIT_BYTES: String(20 * 1024 * 1024),
+  }
+}
+
+/** Starts the built app for the tests on the test port; resolves once it answers. */
+export async function startTestApp(databaseUrl) {
+  const env = {
+    ...process.env,
+    ...testEnv(databaseUrl),
+    NODE_ENV: 'production',
+    NUXT_SESSION_PASSWORD: 'test-only-session-password-of-more-than-32-chars',
+    NUXT_MAIL_SINK_ENABLED: 'true',
+    NUXT_MAIL_SINK_PORT: String(Number(process.env.MANTISSA_TEST_MAIL_PORT ?? 2625)),
+    NUXT_DEMO_SEED: 'true',
+    NUXT_PUBLIC_URL: testUrl,
+    PORT: String(port),
+    NITRO_HOST: '127.0.0.1',
+  }
+  step(`starting the built app for server and browser tests on ${testUrl}`)
+  const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'] })
+  const exited = once(server, 'exit')
+  await Promise.race([waitForServer(testUrl), exited.then(([code]) => {
+    throw new Error(`the test app exited with code ${code} before it answered`)
+  })])
+  return {
+    async stop() {
+      if (server.exitCode !== null || server.signalCode !== null) return
+      server.kill('SIGTERM')
+      await exited
+    },
+  }
+}
+
+async function answers(url) {
+  try {
+    return (await fetch(`${url}/api/health`)).ok
+  }
+  catch {
+    return false
+  }
+}
+
+/**
+ * The stack for a run of server or browser tests: the app already answering on the test port
+ * (left as it is), else the test PostgreSQL (kept between runs, migrated), a build when the sources
+ * changed, and the app, which `stop` ends. Sets the test files' environment either way.
+ */
+export async function useTestStack() {
+  const database = testDatabase()
+  for (const [name, value] of Object.entries(testEnv(database.url))) process.env[name] ??= value
+  if (await answers(testUrl)) {
+    step(`using the app that answers on ${testUrl}`)
+    return { stop: async () => {} }
+  }
+  migrate(database.url)
+  buildIfStale()
+  return startTestApp(database.url)
+}
