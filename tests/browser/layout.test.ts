@@ -103,7 +103,7 @@ describe('every main page at phone width (390 px)', () => {
       await context.close()
     }
     expect(failures).toEqual([])
-  })
+  }, 240_000)
 
   it('folds the header into a menu that reaches Members and Sign out', async () => {
     const { page, context } = await open(PHONE, demoPerson('admin'), `/newsrooms/${demoNewsroomId}`)
@@ -160,7 +160,7 @@ describe('accessibility (axe-core, WCAG 2 AA rules)', () => {
       }
     }
     expect(failures).toEqual([])
-  }, 240_000)
+  }, 480_000)
 })
 
 /** Prints the page to PDF as Chromium does, and reads each printed page back as text and as an image (poppler). */
