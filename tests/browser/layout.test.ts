@@ -97,6 +97,8 @@ describe('every main page at phone width (390 px)', () => {
     const failures: string[] = []
     for (const target of mainPages()) {
       const { page, context } = await open(PHONE, target.who, target.path)
+      // The page itself, not a sign-in page it sent the visitor to.
+      expect(new URL(page.url()).pathname, target.name).toBe(target.path)
       const { scrollWidth, wide } = await overflowing(page)
       if (scrollWidth > PHONE) failures.push(`${target.name}: ${scrollWidth} px wide (${wide.join(', ')})`)
       await screenshot(page, `phone-${target.name.replaceAll(' ', '-')}`)
@@ -138,6 +140,26 @@ describe('every main page at phone width (390 px)', () => {
     await note.getByText('Claim · verified and locked').waitFor({ timeout: 10_000 })
     expect((await overflowing(page)).scrollWidth).toBeLessThanOrEqual(PHONE)
     await screenshot(page, 'phone-fact-checker-verified')
+    await context.close()
+  })
+})
+
+describe('a published chart’s embed', () => {
+  it('shows the chart with its words, its numbers as a table and a link back to the story, inside an iframe of another page', async () => {
+    const context = await browser.newContext({ viewport: { width: 700, height: 900 } })
+    const page = await context.newPage()
+    const embed = `${baseUrl}${publishedPath.replace('/p/', '/embed/')}/${embedIndex}`
+    // A stand-in for a story page on another site, answered by the browser itself.
+    await page.route('http://story.example/**', route => route.fulfill({ contentType: 'text/html', body: `<p>A story</p><iframe src="${embed}" title="Chart" style="width:100%;border:0" height="640"></iframe>` }))
+    await page.goto('http://story.example/news/harbour')
+    const frame = page.frameLocator('iframe')
+    await frame.locator('.chart-figure .chart-box svg').waitFor({ timeout: 20_000 })
+    await expect(frame.locator('figcaption').textContent()).resolves.toMatch(/values of “amount”/)
+    await expect(frame.getByText('A screen, not proof.').count()).resolves.toBe(1)
+    await frame.getByText('The numbers behind the chart').click()
+    expect(await frame.locator('table tbody tr').count()).toBeGreaterThanOrEqual(9)
+    await expect(frame.getByRole('link', { name: /Invoices that stop just short/ }).getAttribute('href')).resolves.toBe(publishedPath)
+    await screenshot(page, 'embed-in-a-page')
     await context.close()
   })
 })
