@@ -149,9 +149,12 @@ describe('a published chart’s embed', () => {
     const context = await browser.newContext({ viewport: { width: 700, height: 900 } })
     const page = await context.newPage()
     const embed = `${baseUrl}${publishedPath.replace('/p/', '/embed/')}/${embedIndex}`
-    // A stand-in for a story page on another site, answered by the browser itself.
-    await page.route('http://story.example/**', route => route.fulfill({ contentType: 'text/html', body: `<p>A story</p><iframe src="${embed}" title="Chart" style="width:100%;border:0" height="640"></iframe>` }))
-    await page.goto('http://story.example/news/harbour')
+    // A stand-in for a story page on another site, answered by the browser itself: 127.0.0.1 is
+    // another origin and site than localhost, and both are loopback, so the browser's
+    // private-network rules do not come into it.
+    const story = `${baseUrl.replace('localhost', '127.0.0.1')}/a-story-elsewhere`
+    await page.route(story, route => route.fulfill({ contentType: 'text/html', body: `<p>A story</p><iframe src="${embed}" title="Chart" style="width:100%;border:0" height="640"></iframe>` }))
+    await page.goto(story)
     const frame = page.frameLocator('iframe')
     await frame.locator('.chart-figure .chart-box svg').waitFor({ timeout: 20_000 })
     await expect(frame.locator('figcaption').textContent()).resolves.toMatch(/values of “amount”/)
