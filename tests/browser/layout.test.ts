@@ -34,7 +34,11 @@ beforeAll(async () => {
   const stories = (await editor.get(`/api/investigations?newsroomId=${demoNewsroomId}`)).body
   demoStoryId = stories.find((i: { title: string }) => i.title.startsWith('Invoices that stop')).id
   demoDatasetId = (await editor.get(`/api/datasets?newsroomId=${demoNewsroomId}`)).body[0].id
-  const published = await editor.post(`/api/investigations/${demoStoryId}/publish`, { reason: 'Browser test of layout and print.' })
+  // The demo holds a disputed claim, which publishing names with its own reason.
+  const panel = await editor.get(`/api/investigations/${demoStoryId}/publishing`)
+  const disputed = panel.body.blockers.filter((b: { kind: string }) => b.kind === 'disputed-claim').map((b: { id: string }) => b.id)
+  const reason = 'Browser test of layout and print.'
+  const published = await editor.post(`/api/investigations/${demoStoryId}/publish`, { reason, ...(disputed.length ? { disputed: { claimIds: disputed, reason } } : {}) })
   expectStatus(published, 201)
   publishedPath = new URL(published.body.url).pathname
   const snapshot = await (await fetch(`${baseUrl}/api${publishedPath.replace('/p/', '/public/')}`)).json()
