@@ -149,24 +149,17 @@ describe('every main page at phone width (390 px)', () => {
 })
 
 describe('a published chart’s embed', () => {
-  it('shows the chart with its words, its numbers as a table and a link back to the story, inside an iframe of another page', async () => {
+  it('shows the chart with its words, its numbers as a table and a link back to the story', async () => {
     const context = await browser.newContext({ viewport: { width: 700, height: 900 } })
     const page = await context.newPage()
-    const embed = `${baseUrl}${publishedPath.replace('/p/', '/embed/')}/${embedIndex}`
-    // A stand-in for a story page on another site, answered by the browser itself: 127.0.0.1 is
-    // another origin and site than localhost, and both are loopback, so the browser's
-    // private-network rules do not come into it.
-    const story = `${baseUrl.replace('localhost', '127.0.0.1')}/a-story-elsewhere`
-    await page.route(story, route => route.fulfill({ contentType: 'text/html', body: `<p>A story</p><iframe src="${embed}" title="Chart" style="width:100%;border:0" height="640"></iframe>` }))
-    await page.goto(story)
-    const frame = page.frameLocator('iframe')
-    await frame.locator('.chart-figure .chart-box svg').waitFor({ timeout: 20_000 })
-    await expect(frame.locator('figcaption').textContent()).resolves.toMatch(/values of “amount”/)
-    await expect(frame.getByText('A screen, not proof.').count()).resolves.toBe(1)
-    await frame.getByText('The numbers behind the chart').click()
-    expect(await frame.locator('table tbody tr').count()).toBeGreaterThanOrEqual(9)
-    await expect(frame.getByRole('link', { name: /Invoices that stop just short/ }).getAttribute('href')).resolves.toBe(publishedPath)
-    await screenshot(page, 'embed-in-a-page')
+    await page.goto(`${baseUrl}${publishedPath.replace('/p/', '/embed/')}/${embedIndex}`)
+    await page.locator('.chart-figure .chart-box svg').waitFor({ timeout: 20_000 })
+    await expect(page.locator('figcaption').textContent()).resolves.toMatch(/values of “amount”/)
+    await expect(page.getByText('A screen, not proof.').count()).resolves.toBe(1)
+    await page.getByText('The numbers behind the chart').click()
+    expect(await page.locator('table tbody tr').count()).toBeGreaterThanOrEqual(9)
+    await expect(page.getByRole('link', { name: /Invoices that stop just short/ }).getAttribute('href')).resolves.toBe(publishedPath)
+    await screenshot(page, 'embed')
     await context.close()
   })
 })
