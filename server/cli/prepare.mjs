@@ -33,13 +33,23 @@ export function ensureDependencies() {
   mustRun('npm', ['ci', '--no-audit', '--no-fund'])
 }
 
-/** Installs Debian's Chromium for the browser tests when it is missing. */
-export function ensureChromium() {
-  if (existsSync('/usr/bin/chromium')) return
-  step('installing Chromium from Debian packages (browser tests)')
+/** Installs a Debian package when the file it provides is missing. */
+function ensureDebianPackage(file, name, why) {
+  if (existsSync(file)) return
+  step(`installing ${name} from Debian packages (${why})`)
   const apt = ['-o', 'DPkg::Lock::Timeout=300']
   mustRun('apt-get', [...apt, 'update', '-qq'])
-  mustRun('apt-get', [...apt, 'install', '-y', '-qq', '--no-install-recommends', 'chromium'], { DEBIAN_FRONTEND: 'noninteractive' })
+  mustRun('apt-get', [...apt, 'install', '-y', '-qq', '--no-install-recommends', name], { DEBIAN_FRONTEND: 'noninteractive' })
+}
+
+/** Debian's Chromium for the browser tests. */
+export function ensureChromium() {
+  ensureDebianPackage('/usr/bin/chromium', 'chromium', 'browser tests')
+}
+
+/** poppler-utils, whose pdftoppm and pdftotext read the printed pages back in the print test. */
+export function ensurePoppler() {
+  ensureDebianPackage('/usr/bin/pdftoppm', 'poppler-utils', 'print tests')
 }
 
 /** A session password kept in .data/ so that sign-ins survive a restart; never committed. */

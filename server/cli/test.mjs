@@ -1,7 +1,7 @@
 // `npm test`: every check, on a fresh machine, against a throwaway PostgreSQL of its own.
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
-import { buildIfStale, ensureChromium, ensureDependencies, migrate, root, run, step } from './prepare.mjs'
+import { buildIfStale, ensureChromium, ensureDependencies, ensurePoppler, migrate, root, run, step } from './prepare.mjs'
 import { startTestApp, testDatabase, testEnv } from './test-stack.mjs'
 
 const bin = name => join(root, 'node_modules', '.bin', name)
@@ -9,6 +9,7 @@ const failures = []
 
 ensureDependencies()
 ensureChromium()
+ensurePoppler()
 step('starting the test PostgreSQL (throwaway, its own port and folder)')
 const database = testDatabase()
 database.recreate()

@@ -13,7 +13,9 @@ export default defineNitroPlugin((nitroApp) => {
 
   nitroApp.hooks.hook('request', (event) => {
     event.context.cspNonce = createCspNonce()
-    setResponseHeaders(event, securityHeaders(event.context.cspNonce, { dev: import.meta.dev, https }))
+    // Only a published chart's embed page may be framed by other sites.
+    const embeddable = event.path.startsWith('/embed/')
+    setResponseHeaders(event, securityHeaders(event.context.cspNonce, { dev: import.meta.dev, https, embeddable }))
   })
 
   // Nuxt's renderer names itself in x-powered-by; the stack is nobody's business but ours.

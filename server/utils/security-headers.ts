@@ -11,7 +11,7 @@ export function createCspNonce(): string {
  * (`server/plugins/security-headers.ts`). To allow a new source, add it to the one directive
  * that needs it here, never to `default-src`.
  */
-export function contentSecurityPolicy(nonce: string, { dev = false } = {}): string {
+export function contentSecurityPolicy(nonce: string, { dev = false, embeddable = false } = {}): string {
   const directives: Record<string, string[]> = {
     'default-src': ['\'self\''],
     // Development only: Nuxt's error overlay is appended to an error page after rendering, so its
@@ -32,7 +32,8 @@ export function contentSecurityPolicy(nonce: string, { dev = false } = {}): stri
     'object-src': ['\'none\''],
     'base-uri': ['\'none\''],
     'form-action': ['\'self\''],
-    'frame-ancestors': ['\'none\''],
+    // A published chart's embed page (/embed/…) is made to sit in a story on another site.
+    'frame-ancestors': [embeddable ? '*' : '\'none\''],
     // Development only: when the server restarts, Vite's client waits for it in a worker made
     // from a blob: address; Nuxt's error overlay shows the error page in a data: frame.
     ...(dev ? { 'worker-src': ['\'self\'', 'blob:'], 'frame-src': ['\'self\'', 'data:'] } : {}),
@@ -44,11 +45,11 @@ export function contentSecurityPolicy(nonce: string, { dev = false } = {}): stri
  * Every header Mantissa sends with every response, pages, API replies and static files alike.
  * `https`: the configured public address is https, so browsers may be told to stay on it.
  */
-export function securityHeaders(nonce: string, { dev = false, https = false } = {}): Record<string, string> {
+export function securityHeaders(nonce: string, { dev = false, https = false, embeddable = false } = {}): Record<string, string> {
   return {
-    'Content-Security-Policy': contentSecurityPolicy(nonce, { dev }),
-    // For browsers that predate frame-ancestors.
-    'X-Frame-Options': 'DENY',
+    'Content-Security-Policy': contentSecurityPolicy(nonce, { dev, embeddable }),
+    // For browsers that predate frame-ancestors; it has no value meaning "any site", so an embed page goes without.
+    ...(embeddable ? {} : { 'X-Frame-Options': 'DENY' }),
     'X-Content-Type-Options': 'nosniff',
     // A public link's address holds its token: no other site may see it in Referer. Same-origin
     // requests keep their referrer (and their Origin header, which the origin check reads).

@@ -14,6 +14,4 @@ export const PALETTE = {
   accentSoft: '#E4EAF3',
   seal: '#5A4A1E',
   sealSoft: '#F2ECD9',
-  /** Observed bars that sit inside their expected range. */
-  observed: '#8C877C',
 } as const

@@ -1,7 +1,7 @@
 import type { Period } from '../dates/read-date'
 import type { GroupResult } from '../digits/types'
 import { PALETTE } from './palette'
-import { CHART_LOOK } from './digit-chart'
+import { CHART_CONFIG } from './digit-chart'
 
 const STANDS_OUT = 0.05
 
@@ -25,7 +25,7 @@ export function periodChartSpec(groups: readonly GroupResult[], period: Period, 
     description: `Excess MAD per ${period}`,
     width: options.width ?? 'container',
     height: options.height ?? 120,
-    ...CHART_LOOK,
+    config: CHART_CONFIG,
     data: { values: data },
     layer: [
       {
@@ -33,7 +33,7 @@ export function periodChartSpec(groups: readonly GroupResult[], period: Period, 
         encoding: {
           x,
           y: { field: 'excess', type: 'quantitative', title: 'Excess MAD', axis: { format: '.4f' } },
-          color: { condition: { test: 'datum.out', value: PALETTE.signal }, value: PALETTE.observed },
+          color: { condition: { test: 'datum.out', value: PALETTE.signal }, value: PALETTE.ink },
           tooltip: [
             { field: 'period', title: period },
             { field: 'n', title: 'n', format: ',d' },

@@ -36,8 +36,8 @@ function analysisSection(index: number, { settings, result }: AppendixAnalysis, 
   const lines = [`### ${index}. ${test ? TEST_LABELS[test] : 'Analysis'}${column ? ` of “${column}”` : ''}`, '']
   if (test) lines.push(TEST_DESCRIPTIONS[test], '')
   if (dataset) lines.push(`- Dataset: ${oneLine(dataset.title)} (${oneLine(dataset.originalName)}, SHA-256 \`${dataset.sha256}\`, ${dataset.rowCount === null ? '?' : count(dataset.rowCount)} rows)`)
-  if (settings.filters?.length) lines.push(`- Rows: only where ${oneLine(describeFilters(settings.filters))}`)
-  if (settings.groupBy) lines.push(`- Groups: one test per ${oneLine(settings.period ? describeGrouping(settings.groupBy, settings.period) : `value of “${settings.groupBy}”`)}, ranked by ${test === 'summation' ? 'MAD × √n' : 'chi-square p'} so that small groups do not rise by chance alone, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995); each group's reading uses its q (under 0.05 to read as a departure)`)
+  if (settings.filters?.length) lines.push(`- Rows: only where ${oneLine(describeFilters(settings.filters) ?? '')}`)
+  if (settings.groupBy) lines.push(`- Groups: one test per ${oneLine((settings.period ? describeGrouping(settings.groupBy, settings.period) : null) ?? `value of “${settings.groupBy}”`)}, ranked by ${test === 'summation' ? 'MAD × √n' : 'chi-square p'} so that small groups do not rise by chance alone, with Benjamini–Hochberg q-values for testing many groups at once (Benjamini & Hochberg 1995); each group's reading uses its q (under 0.05 to read as a departure)`)
   if (settings.threshold) lines.push(`- Limit: ${count(settings.threshold)}; ten bands of a twentieth of the limit around it. The two beside the limit are compared with a straight line through the outer eight, allowing for the scatter those eight show around it (quasi-Poisson; McCullagh & Nelder 1989)`)
   lines.push(`- Amounts tested: ${settings.sign === 'negative' ? 'negative' : 'positive'}`)
   if (result) {

@@ -11,6 +11,8 @@ export interface DatasetFingerprint {
   sourceNote: string | null
   sourceUrl: string | null
   originalName: string
+  /** The first and last date of the dataset's date column, when the import read one (absent in older snapshots). */
+  period?: { column: string, from: string, to: string } | null
 }
 
 export type PublishedBlock

@@ -122,11 +122,13 @@ describe('hostile text on the page', () => {
     await csvButton.waitFor({ timeout: 20_000 })
     const [download] = await Promise.all([page.waitForEvent('download'), csvButton.click()])
     const rows = Papa.parse<string[]>(await readFile((await download.path())!, 'utf8'), { skipEmptyLines: true }).data
-    expect(rows[0]!.slice(0, 3)).toEqual(['test', 'column', 'bin'])
+    const header = rows[0]!
+    expect(header.slice(0, 4)).toEqual(['dataset', 'dataset_sha256', 'test', 'column'])
+    const [column, bin] = [header.indexOf('column'), header.indexOf('bin')]
     // The column name is a formula: it arrives with the apostrophe that makes a spreadsheet show it as text (OWASP, "CSV Injection").
-    expect(rows.slice(1).map(r => r[1])).toEqual(rows.slice(1).map(() => `'${F.hyperlink}`))
+    expect(rows.slice(1).map(r => r[column])).toEqual(rows.slice(1).map(() => `'${F.hyperlink}`))
     // The repeated negative amounts are bins of plain numbers, left as numbers.
-    expect(rows.slice(1).map(r => r[2]).sort()).toEqual(['-215.5', '-99.1'])
+    expect(rows.slice(1).map(r => r[bin]).sort()).toEqual(['-215.5', '-99.1'])
     for (const cell of rows.flat()) if (/^[=+\-@\t\r]/.test(cell)) expect(cell).toMatch(/^-\d+(\.\d+)?$/)
 
     await screenshot(page, 'hostile-investigation')

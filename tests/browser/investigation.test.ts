@@ -40,13 +40,13 @@ describe('writing an investigation', () => {
     await page.getByLabel('Test', { exact: true }).selectOption('first-digit')
     await page.getByRole('button', { name: 'Run the test' }).click()
 
-    const chart = page.locator('figure svg').first()
+    const chart = page.locator('.chart-box svg').first()
     await chart.waitFor({ timeout: 20_000 })
     await expect(page.locator('figcaption').first().textContent()).resolves.toMatch(/First digit of 24,600 values of “amount”/)
     await expect(page.getByText('A screen, not proof.').count()).resolves.toBeGreaterThan(0)
 
-    // Click the bar of the leading digit 1, as a reader would.
-    await page.locator('figure svg path[aria-roledescription="bar"][aria-label*="Count"]').first().click()
+    // Click the column of the leading digit 1, as a reader would.
+    await page.locator('.chart-box svg path[aria-roledescription="bar"][aria-label*="Count"]').first().click()
     await page.getByRole('heading', { name: /Rows behind “1”/ }).waitFor({ timeout: 10_000 })
     const rowsPanel = page.locator('section[aria-labelledby="bin-rows-heading"]')
     await rowsPanel.getByText(/Page 1 of/).waitFor({ timeout: 10_000 })

@@ -94,4 +94,26 @@ describe('security headers', () => {
     expect(reply.status).toBe(200)
     expectHardened(reply.headers)
   })
+
+  it('only a published chart\'s embed page may be framed by another site, and it keeps every other header', async () => {
+    const newsroom = await createTestNewsroom('Headers desk')
+    const datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    expectStatus(await newsroom.reporter.post(`/api/blocks/${story.analysisBlockId}/run`), 200)
+    const published = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { reason: 'Header test.' })
+    expectStatus(published, 201)
+    const token = new URL(published.body.url).pathname.split('/p/')[1]
+    const embed = await fetchPage(`/embed/${token}/1`)
+    expect(embed.status).toBe(200)
+    expect(embed.html).toContain(`href="/p/${token}"`)
+    const csp = directives(embed.headers.get('content-security-policy'))
+    // CSP Level 3: frame-ancestors * lets any http(s) page frame it; X-Frame-Options has no such value, so it is left out.
+    expect(csp['frame-ancestors']).toEqual(['*'])
+    expect(embed.headers.get('x-frame-options')).toBeNull()
+    expect(csp['script-src']).not.toContain('\'unsafe-inline\'')
+    expect(embed.headers.get('x-content-type-options')).toBe('nosniff')
+    // The published page itself, and its data, still refuse to be framed.
+    expectNoncedPage(await fetchPage(`/p/${token}`))
+    expectHardened((await new Client().get(`/api/public/${token}`)).headers)
+  })
 })

@@ -12,10 +12,10 @@ export const MAX_GROUPS = 10_000
  * dictionary gives its size at once; otherwise the distinct values are counted, stopping past the cap.
  */
 export async function assertFewGroups(query: DigitQuery, groupBy: string) {
-  if (query.groupCodesOf !== null) {
+  if (query.decoding !== null) {
     const [codes] = await rawSelect<{ n: number }>(
       'SELECT count(*)::int AS n FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
-      { datasetId: query.replacements.datasetId, position: query.groupCodesOf },
+      { datasetId: query.replacements.datasetId, position: query.decoding.position },
     )
     if ((codes?.n ?? 0) <= MAX_GROUPS) return
   }

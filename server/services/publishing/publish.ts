@@ -4,6 +4,7 @@ import { can } from '#shared/auth/permissions'
 import { summarize } from '#shared/charts/summary'
 import { TEST_LABELS } from '#shared/charts/labels'
 import { methodologyAppendix } from '#shared/methodology/appendix'
+import { periodOf } from '#shared/charts/chart-text'
 import type { z } from 'zod'
 import type { publishSchema } from '#shared/schemas/investigation'
 import type { DatasetFingerprint, PublishBlockerDTO, PublishCheckDTO, PublishedBlock, PublishedChecks, PublishedSnapshot, PublishingDTO, PublishOutcomeDTO, ShareLinkDTO } from '#shared/types/publication'
@@ -12,6 +13,7 @@ import type { FieldError } from '../../utils/errors'
 import type { Actor } from '../../utils/permissions'
 import { liveBlocks, stamp, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
+import { datasetColumns } from '../datasets/catalog'
 import { attachedClaims, filterClaimMarks } from '../investigations/prose-claims'
 
 export function hashToken(token: string) {
@@ -79,10 +81,10 @@ async function snapshotOf(investigation: Investigation, state: CheckState, follo
     published.push({ kind: 'analysis', settings, result, summary: result ? summarize(result) : 'This analysis was not run.' })
   }
   const datasetIds = [...new Set(state.blocks.map(b => b.settings?.datasetId).filter((id): id is string => Boolean(id)))]
-  const datasets: DatasetFingerprint[] = (await models.Dataset.findAll({ where: { id: { [Op.in]: datasetIds } } })).map(d => ({
+  const datasets: DatasetFingerprint[] = await Promise.all((await models.Dataset.findAll({ where: { id: { [Op.in]: datasetIds } } })).map(async d => ({
     id: d.id, title: d.title, sha256: d.sha256, rowCount: d.rowCount ?? null, obtainedOn: d.obtainedOn,
-    sourceNote: d.sourceNote, sourceUrl: d.sourceUrl, originalName: d.originalName,
-  }))
+    sourceNote: d.sourceNote, sourceUrl: d.sourceUrl, originalName: d.originalName, period: periodOf(await datasetColumns(d.id)),
+  })))
   const newsroom = await models.Newsroom.findByPk(investigation.newsroomId)
   const analyses = published.flatMap(b => (b.kind === 'analysis' ? [{ settings: b.settings, result: b.result }] : []))
   const checks = publishedChecks(state)
