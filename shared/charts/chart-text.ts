@@ -1,10 +1,10 @@
 import type { TestResult } from '../digits/types'
-import type { DatasetFilter } from '../schemas/dataset'
 import type { AnalysisSettings } from '../types/investigation'
 import { TEST_LABELS } from './labels'
 import { expectation, legendItems } from './legend'
 import type { LegendItem } from './legend'
 import { summarize } from './summary'
+import { describeFilters, describeGrouping } from './filters'
 
 /** The dataset a chart was drawn from, as far as a reader needs it to find the same file. */
 export interface ChartSource {
@@ -47,28 +47,11 @@ function day(iso: string): string {
   return Number.isNaN(date.getTime()) ? iso : date.toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' })
 }
 
-/** A filter in words; a kind of filter this file does not know yet is still named, never dropped. */
-export function describeFilter(filter: DatasetFilter): string {
-  const f = filter as Record<string, unknown>
-  if (f.op === 'equals') return `“${String(f.column)}” is “${String(f.value)}”`
-  if (f.op === 'between') {
-    const min = typeof f.min === 'number' ? count(f.min) : null
-    const max = typeof f.max === 'number' ? count(f.max) : null
-    const column = `“${String(f.column)}”`
-    if (min !== null && max !== null) return `${column} from ${min} to ${max}`
-    if (min !== null) return `${column} at least ${min}`
-    if (max !== null) return `${column} at most ${max}`
-    return `${column} (any value)`
-  }
-  const { column, op, ...rest } = f
-  return `“${String(column)}” ${String(op)} ${JSON.stringify(rest)}`
-}
-
 /** The settings that narrowed or split the tested values, in words ("" when none did). */
 export function describeSelection(settings: AnalysisSettings, result: TestResult): string {
   const parts: string[] = []
-  if (settings.filters?.length) parts.push(`only rows where ${settings.filters.map(describeFilter).join(' and ')}`)
-  if (settings.groupBy) parts.push(`grouped by “${settings.groupBy}”`)
+  if (settings.filters?.length) parts.push(`only rows where ${describeFilters(settings.filters)}`)
+  if (settings.groupBy) parts.push(`grouped by ${describeGrouping(settings.groupBy, settings.period)}`)
   if (result.sign === 'negative') parts.push('negative amounts, tested apart')
   if (result.threshold) parts.push(`limit ${result.threshold.limit}`)
   return parts.join(' · ')

@@ -1,7 +1,7 @@
 import type { TestResult } from '../digits/types'
 import type { AnalysisSettings } from '../types/investigation'
 import { chartData } from '../charts/digit-chart'
-import { describeFilter } from '../charts/chart-text'
+import { describeFilter } from '../charts/filters'
 import type { ChartSource } from '../charts/chart-text'
 import { toCsv } from './csv'
 
