@@ -43,7 +43,9 @@ describe('the account page', () => {
     await page.setViewportSize({ width: 390, height: 900 })
     await screenshot(page, 'account-two-factor-390')
 
-    await page.getByRole('button', { name: 'Sign out', exact: true }).click()
+    // At phone width the header folds Sign out into its menu.
+    await page.getByRole('button', { name: 'Menu' }).click()
+    await page.locator('#site-menu').getByRole('button', { name: 'Sign out', exact: true }).click()
     await page.waitForURL(/\/login/)
     await signInThroughPage(page, emails.reporter, PASSWORD)
     const codeField = page.getByLabel('Code from your authenticator app')

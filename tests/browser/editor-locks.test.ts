@@ -21,7 +21,7 @@ afterAll(async () => {
 async function verifiedStory() {
   const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
   expectStatus(await postClaim(newsroom.reporter, story), 201)
-  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
   const claim = (await readStory(newsroom.reporter, story)).claims.find((c: { id: string }) => c.id === story.claimId)
   return { story, verifiedAt: claim.decision.at as string }
 }
@@ -66,7 +66,7 @@ describe('locked text in the editor', () => {
     expectStatus(await postClaim(newsroom.reporter, story), 201)
     const page = await openStory(browser, newsroom, 'reporter', story)
     // Verified while the reporter's page was open: the page still offers Remove, the server refuses.
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
     const frame = page.locator('section[aria-label^="Text block"]')
     await frame.hover()
     await page.getByRole('button', { name: 'Remove text block' }).click()

@@ -83,7 +83,7 @@ describe('publishing, as a data editor in the browser', () => {
   it('marks verified claims on the public page and explains the mark', async () => {
     const written = await story()
     expectStatus(await newsroom['data-editor'].post(`/api/blocks/${written.analysisBlockId}/review`, { decision: 'approved' }), 200)
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${written.claimId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${written.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
     const published = await newsroom['data-editor'].post(`/api/investigations/${written.id}/publish`, {})
     const reader = await (await browser.newContext({ viewport: { width: 1366, height: 900 } })).newPage()
     await reader.goto(published.body.url.replace(/^https?:\/\/[^/]+/, baseUrl))
@@ -99,7 +99,7 @@ describe('the methodology and the page name the same things', () => {
     const written = await story()
     expectStatus(await saveBlock(newsroom.reporter, written, written.analysisBlockId, { settings: { ...written.settings, groupBy: 'supplier' } }), 200)
     expectStatus(await newsroom['data-editor'].post(`/api/blocks/${written.analysisBlockId}/review`, { decision: 'approved' }), 200)
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${written.claimId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${written.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
     const page = await open('data-editor', written)
     await page.getByRole('button', { name: /Publishing/ }).click()
     await page.getByLabel(/Print in the methodology that every deviation reported here was followed up/).check()

@@ -30,7 +30,7 @@ async function appearances(newsroom: TestNewsroom, story: Story) {
 const everywhere = { margin: true, queue: true, checklist: true, checks: true }
 const nowhere = { margin: false, queue: false, checklist: false, checks: false }
 
-const auditOf = async (newsroom: TestNewsroom, story: Story) => (await newsroom.admin.get(`/api/investigations/${story.id}/audit`)).body as { action: string, actor: string, detail: Record<string, unknown> }[]
+const auditOf = async (newsroom: TestNewsroom, story: Story) => (await newsroom.admin.get(`/api/investigations/${story.id}/audit`)).body.events as { action: string, actor: string, detail: Record<string, unknown> }[]
 
 describe('claims stay attached to their words', () => {
   it('a claim whose words are deleted leaves the margin, the queue and the checklist; undoing the deletion brings it back', async () => {
@@ -81,7 +81,7 @@ describe('unmarking and removing claims', () => {
 
   it('a verified claim cannot be removed until its lock is lifted', async () => {
     const { newsroom, story } = await marked('Locked removal desk')
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
     expectStatus(await newsroom['data-editor'].delete(`/api/claims/${story.claimId}`, { reason: 'Try.' }), 423)
     expect((await appearances(newsroom, story)).margin).toBe(true)
   })

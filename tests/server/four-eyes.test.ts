@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import { describe, expect, it } from 'vitest'
 import { createTestNewsroom } from '../support/newsroom'
-import { expectStatus, proseDoc, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, expectStatus, proseDoc, uploadPayments, writeStory } from '../support/stories'
 
 async function desk(label: string) {
   const newsroom = await createTestNewsroom(label)
@@ -37,10 +37,10 @@ describe('four eyes (a newsroom setting, on by default)', () => {
     const block = await newsroom.admin.post(`/api/investigations/${story.id}/blocks`, { kind: 'prose', content: proseDoc('The admin writes ', { text: 'that half the payments are round', claimId }, '.') })
     expectStatus(block, 201)
     expectStatus(await newsroom.admin.post(`/api/investigations/${story.id}/claims`, { id: claimId, blockId: block.body.id, supportingBlockIds: [story.analysisBlockId] }), 201)
-    const refused = await newsroom.admin.post(`/api/claims/${claimId}/verify`)
+    const refused = await newsroom.admin.post(`/api/claims/${claimId}/verify`, { quote: 'that half the payments are round' })
     expectStatus(refused, 403)
     expect(refused.body.data.message).toMatch(/another fact-checker must verify/)
-    const verified = await newsroom['fact-checker'].post(`/api/claims/${claimId}/verify`)
+    const verified = await newsroom['fact-checker'].post(`/api/claims/${claimId}/verify`, { quote: 'that half the payments are round' })
     expectStatus(verified, 200)
     expect(verified.body.decision.by).toBe(newsroom.names['fact-checker'])
   })
@@ -62,7 +62,7 @@ describe('four eyes (a newsroom setting, on by default)', () => {
     const { newsroom, story } = await desk('Panel desk')
     expectStatus(await newsroom.reporter.post(`/api/investigations/${story.id}/claims`, { id: story.claimId, blockId: story.proseBlockId, supportingBlockIds: [story.analysisBlockId] }), 201)
     expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'approved' }), 200)
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
     const panel = await newsroom.reporter.get(`/api/investigations/${story.id}/publishing`)
     expect(panel.body.fourEyes).toBe(true)
     expect(panel.body.checks).toEqual([

@@ -5,7 +5,7 @@ import { sql } from '../support/database'
 import { waitForMail } from '../support/mail'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
 const FOLLOW_UP = /followed up in the records and with the people and organisations concerned/
@@ -23,7 +23,7 @@ async function draft(label: string) {
 
 async function approveAndVerify(newsroom: TestNewsroom, story: Story) {
   expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'approved' }), 200)
-  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`), 200)
+  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
 }
 
 const auditOf = async (newsroom: TestNewsroom, story: Story) => (await newsroom.admin.get(`/api/investigations/${story.id}/audit`)).body as { action: string, actor: string, detail: Record<string, unknown> }[]

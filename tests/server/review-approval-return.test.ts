@@ -25,7 +25,7 @@ async function approvedStory(): Promise<{ story: Story, approvedAt: string }> {
 }
 
 const reviewOf = async (story: Story) => (await blockOf(newsroom.reporter, story, story.analysisBlockId)).review
-const trail = async (story: Story) => (await newsroom.reporter.get(`/api/investigations/${story.id}/audit`)).body
+const trail = async (story: Story) => (await newsroom.reporter.get(`/api/investigations/${story.id}/audit`)).body.events
   .filter((e: { action: string }) => e.action.startsWith('review.'))
   .map((e: { action: string }) => e.action)
 

@@ -10,7 +10,7 @@ describe('the words around a chart (shared/charts/chart-text.ts)', () => {
   it('says what was tested and against what, on how many values, and which rows', () => {
     const text = chartText(powers, { groupBy: 'harbour', filters: [{ column: 'amount', op: 'between', min: 10 }] }, { ...source, period: { column: 'paid_on', from: '2025-01-02', to: '2025-12-30' } })
     expect(text.title).toBe('Last two digits of “amount”, against an even spread')
-    expect(text.subtitle).toBe(`n = ${powers.n.toLocaleString('en-GB')} values tested · dataset dated 2 Jan 2025 to 30 Dec 2025 (“paid_on”) · only rows where “amount” at least 10 · grouped by “harbour”`)
+    expect(text.subtitle).toBe(`n = ${powers.n.toLocaleString('en-GB')} values tested · dataset dated 2 Jan 2025 to 30 Dec 2025 (“paid_on”) · only rows where amount is at least 10 · grouped by “harbour”`)
     expect(text.legend.map(l => l.mark)).toContain('expected')
     expect(text.legend.find(l => l.mark === 'expected')!.text).toBe('What an even spread of endings expects')
   })

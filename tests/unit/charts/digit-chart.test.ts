@@ -140,7 +140,7 @@ describe('exported charts and their numbers', () => {
     expect(bins.map(r => Number(r.count))).toEqual(grouped.bins.map(b => b.count))
     expect(groups.map(r => r.group)).toEqual(grouped.groups!.map(g => g.key === '=cmd' ? '\'=cmd' : g.key))
     for (const row of rows.data) {
-      expect(row).toMatchObject({ dataset: 'Council payments 2025', dataset_sha256: source.sha256, test: 'first-digit', column: 'amount', grouped_by: 'department', filters: '“year” is “2025”', n: '3000' })
+      expect(row).toMatchObject({ dataset: 'Council payments 2025', dataset_sha256: source.sha256, test: 'first-digit', column: 'amount', grouped_by: 'department', filters: 'year is “2025”', n: '3000' })
     }
   })
 })
