@@ -26,7 +26,7 @@ async function approveAndVerify(newsroom: TestNewsroom, story: Story) {
   expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
 }
 
-const auditOf = async (newsroom: TestNewsroom, story: Story) => (await newsroom.admin.get(`/api/investigations/${story.id}/audit`)).body as { action: string, actor: string, detail: Record<string, unknown> }[]
+const auditOf = async (newsroom: TestNewsroom, story: Story) => (await newsroom.admin.get(`/api/investigations/${story.id}/audit`)).body.events as { action: string, actor: string, detail: Record<string, unknown> }[]
 
 describe('the published page asserts only what the record shows', () => {
   it('prints no follow-up statement unless the publisher confirms it, and the audit trail keeps who did', async () => {
