@@ -2,8 +2,7 @@
  * Digit extraction speed: reads 1M numeric strings into digit records, as an import does.
  * Run: npx tsx bench/digits.bench.ts. Figures are printed for the notes, never asserted.
  */
-import { toDigitRecord } from '../shared/digits/digit-record'
-import { runDigitTest } from '../shared/digits/run-digit-test'
+import { toDigitRecord, runDigitTest } from '../shared/digits'
 
 const COUNT = 1_000_000
 const ROUNDS = 3

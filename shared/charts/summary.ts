@@ -1,4 +1,4 @@
-import type { TestResult } from '../digits/types'
+import type { TestResult } from '../digits'
 import { CONFORMITY_LABELS, TEST_LABELS } from './labels'
 import { chartData } from './digit-chart'
 

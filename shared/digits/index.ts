@@ -13,3 +13,7 @@ export { powerSeries, fibonacciSeries, integerPowerSeries, firstDigitCounts } fr
 export {
   recordsOf, statusCountsOf, profileOf, countDistribution, countSummation, countDuplicates, countRound, countThreshold, type Cell,
 } from './count-records'
+export { binomialRange, binZ } from './bin-statistics'
+export { chiSquare } from './chi-square'
+export { leadingShares, roundShare, secondDigitShares } from './expected-shares'
+export { mantissaArc } from './mantissa-arc'

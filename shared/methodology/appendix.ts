@@ -1,5 +1,5 @@
-import { MAD_RANGES } from '../digits/mad'
-import type { DistributionTest, TestResult } from '../digits/types'
+import { MAD_RANGES } from '../digits'
+import type { DistributionTest, TestResult } from '../digits'
 import { TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
 import type { AnalysisSettings } from '../types/investigation'
 import type { DatasetFingerprint } from '../types/publication'

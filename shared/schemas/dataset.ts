@@ -1,5 +1,5 @@
 import { z } from './zod'
-import { TEST_NAMES } from '../digits/types'
+import { TEST_NAMES } from '../digits'
 
 const optionalText = (max: number) => z.string().trim().max(max).optional().transform(v => v || undefined)
 

@@ -1,7 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { toDecimal } from '../../../shared/digits/decimal'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import { thresholdBand, thresholdBucket } from '../../../shared/digits/threshold'
+import { toDecimal, runDigitTest, thresholdBand, thresholdBucket } from '#shared/digits'
 
 /** x = 10^(1 + 3i/count) to the cent: log-uniform over three decades, so every first-two bucket holds about 1/90 of the sum. */
 function logUniformAmounts(count: number): string[] {

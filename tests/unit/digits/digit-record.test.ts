@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { toDigitRecord } from '../../../shared/digits/digit-record'
-import { COMMA_STYLE } from '../../../shared/digits/read-number'
+import { toDigitRecord, COMMA_STYLE } from '#shared/digits'
 
 describe('the digit record of one cell', () => {
   it('holds every digit field of an ordinary amount', () => {

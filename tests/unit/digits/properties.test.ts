@@ -1,7 +1,6 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
+import { integerPowerSeries, powerSeries, runDigitTest } from '#shared/digits'
 
 /** value × (mantissa · 10^-places), exactly, as decimal text (BigInt, independent of the engine). */
 function scale(value: string, mantissa: bigint, places: number): string {

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { firstDigitCounts, fibonacciSeries, integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
+import { firstDigitCounts, fibonacciSeries, integerPowerSeries, powerSeries, runDigitTest } from '#shared/digits'
 import { csvColumn, jsonColumn } from './open-data'
 
 /** First digits straight from BigInt text, independent of the engine's reader. */

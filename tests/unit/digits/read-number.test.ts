@@ -1,8 +1,6 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { decimalText } from '../../../shared/digits/digit-record'
-import { detectNumberStyle } from '../../../shared/digits/number-style'
-import { COMMA_STYLE, DOT_STYLE, readNumber } from '../../../shared/digits/read-number'
+import { decimalText, detectNumberStyle, COMMA_STYLE, DOT_STYLE, readNumber } from '#shared/digits'
 
 function read(cell: string | number, style = DOT_STYLE) {
   const r = readNumber(cell, style)

@@ -1,14 +1,7 @@
 import jStat from 'jstat'
 import { describe, expect, it } from 'vitest'
-import { binomialRange, binZ } from '../../../shared/digits/bin-statistics'
-import { chiSquare } from '../../../shared/digits/chi-square'
-import { DISTRIBUTIONS } from '../../../shared/digits/distribution-tests'
-import { leadingShares, roundShare, secondDigitShares } from '../../../shared/digits/expected-shares'
-import { conformityOf, expectedMad, MAD_RANGES } from '../../../shared/digits/mad'
-import { mantissaArc } from '../../../shared/digits/mantissa-arc'
-import { integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import type { DistributionTest } from '../../../shared/digits/types'
+import { binomialRange, binZ, chiSquare, DISTRIBUTIONS, leadingShares, roundShare, secondDigitShares, conformityOf, expectedMad, MAD_RANGES, mantissaArc, integerPowerSeries, powerSeries, runDigitTest } from '#shared/digits'
+import type { DistributionTest } from '#shared/digits'
 
 describe('expected shares (CHECKS.md; Benford 1938, Hill 1995)', () => {
   it('first digit', () => {

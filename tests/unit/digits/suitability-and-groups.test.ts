@@ -1,10 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { countDistribution, recordsOf } from '../../../shared/digits/count-records'
-import { benjaminiHochberg } from '../../../shared/digits/false-discovery'
-import { fibonacciSeries, integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import { checkSuitability, MINIMUM_VALUES } from '../../../shared/digits/suitability'
-import type { ColumnProfile } from '../../../shared/digits/types'
+import { countDistribution, recordsOf, benjaminiHochberg, fibonacciSeries, integerPowerSeries, powerSeries, runDigitTest, checkSuitability, MINIMUM_VALUES } from '#shared/digits'
+import type { ColumnProfile } from '#shared/digits'
 
 const codes = (profile: Partial<ColumnProfile>, n = 5000) => checkSuitability({ test: 'first-digit', n, profile: { ...healthy, ...profile } })
   .map(f => `${f.code}:${f.severity}`)
