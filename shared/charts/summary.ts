@@ -36,7 +36,12 @@ export function summarize(result: TestResult): string {
     }
     case 'summation':
       return `Of ${count(result.n)} amounts of ${column}, the total is spread over the leading pairs with MAD ${result.mad?.value.toFixed(4) ?? '—'}. ${ranged}`
-    default: {
+    // Every test is named, so that a new one is a type error here until it has its sentence.
+    case 'first-digit':
+    case 'second-digit':
+    case 'first-two-digits':
+    case 'first-three-digits':
+    case 'last-two-digits': {
       const conformity = result.mad?.conformity ? CONFORMITY_LABELS[result.mad.conformity] : 'no published conformity range'
       return `${TEST_LABELS[result.test]} of ${count(result.n)} values of ${column}: MAD ${result.mad?.value.toFixed(4) ?? '—'}, ${conformity} with Benford’s law. ${ranged}`
     }

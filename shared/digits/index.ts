@@ -3,7 +3,7 @@ export { readNumber, DOT_STYLE, COMMA_STYLE, MAX_MAGNITUDE, type ReadNumber } fr
 export { detectNumberStyle, type NumberStyleGuess } from './number-style'
 export { toDigitRecord, recordOf, decimalText } from './digit-record'
 export { runDigitTest, CAUTION, type DigitTestRequest, type TestInput } from './run-digit-test'
-export { DISTRIBUTIONS, keyText } from './distribution-tests'
+export { DISTRIBUTIONS, byDistribution, keyText } from './distribution-tests'
 export { thresholdBand, thresholdBucket, type ThresholdBand } from './threshold'
 export { compareDecimal, decimalToText, toDecimal } from './decimal'
 export { checkSuitability, MINIMUM_VALUES, RULES, type SuitabilityInput } from './suitability'

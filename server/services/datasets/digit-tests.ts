@@ -1,4 +1,4 @@
-import { DISTRIBUTIONS, MINIMUM_VALUES, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
+import { byDistribution, DISTRIBUTIONS, isGroupable, MINIMUM_VALUES, runDigitTest, thresholdBand, decimalToText } from '#shared/digits'
 import type {
   ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
   SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
@@ -174,14 +174,19 @@ async function profileCounts(query: DigitQuery, sign: SignFilter): Promise<Count
   return row && row.n > 0 ? row : null
 }
 
-const GROUPABLE = new Set<TestName>(['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'])
+type CountsQuery = (query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number) => Promise<Grouped<object>>
 
-async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number): Promise<Grouped<object>> {
-  if (test === 'summation') return summationCounts(query, sign, grouped)
-  if (test === 'duplicates') return new Map([[null, await duplicateCounts(query, sign)]])
-  if (test === 'round-numbers') return new Map([[null, await roundCounts(query, sign)]])
-  if (test === 'threshold') return new Map([[null, await thresholdCounts(query, sign, threshold!)]])
-  return statusAndDistribution(test, query, sign, grouped)
+/** A test that ranks no groups: one set of counts for the whole selection. */
+const ungrouped = (count: (query: DigitQuery, sign: SignFilter, threshold?: number) => Promise<object>): CountsQuery =>
+  async (query, sign, _grouped, threshold) => new Map([[null, await count(query, sign, threshold)]])
+
+/** The SQL behind each test's counts: a new test is a type error here until it has its own. */
+const TEST_COUNTS: Record<TestName, CountsQuery> = {
+  ...byDistribution(test => (query, sign, grouped) => statusAndDistribution(test, query, sign, grouped)),
+  'summation': summationCounts,
+  'duplicates': ungrouped(duplicateCounts),
+  'round-numbers': ungrouped(roundCounts),
+  'threshold': ungrouped((query, sign, threshold) => thresholdCounts(query, sign, threshold!)),
 }
 
 /**
@@ -193,7 +198,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   const columns = await datasetColumns(dataset.id)
   const tested = columnByName(columns, body.column, 'column')
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers. Choose an amount or count column.` }])
-  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: 'Groups can be ranked for the digit tests and the summation test only.' }])
+  if (body.groupBy && !isGroupable(body.test)) throw fail(400, [{ path: 'groupBy', message: 'Groups can be ranked for the digit tests and the summation test only.' }])
   const sign = body.sign ?? 'positive'
   const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
   const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
@@ -214,10 +219,10 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     groupCounts = grouping ? scanned : null
   }
   else {
-    const [status, byTest] = await Promise.all([statusCounts(whole, false), testCounts(body.test, whole, sign, false, body.threshold)])
+    const [status, byTest] = await Promise.all([statusCounts(whole, false), TEST_COUNTS[body.test](whole, sign, false, body.threshold)])
     counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]
     if (grouping) {
-      const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), testCounts(body.test, grouping, sign, true)])
+      const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), TEST_COUNTS[body.test](grouping, sign, true)])
       groupCounts = new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }]))
     }
   }

@@ -1,4 +1,4 @@
-import { DISTRIBUTIONS, decimalToText, thresholdBand } from '#shared/digits'
+import { byDistribution, DISTRIBUTIONS, decimalToText, thresholdBand } from '#shared/digits'
 import type { DistributionTest, TestName } from '#shared/digits'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { PageDTO, RowDTO } from '#shared/types/dataset'
@@ -48,25 +48,42 @@ export interface DrillDown {
   group?: string
 }
 
-/** The condition that picks a bin's values; keys are validated here, never written into SQL. */
-function binCondition(test: TestName, key: string, threshold?: number): { sql: string, values: Record<string, unknown> } {
-  const bad = () => fail(400, [{ path: 'key', message: `"${key}" is not a bin of the ${test} test.` }])
-  if (test === 'duplicates') {
-    if (!/^-?\d+(\.\d+)?$/.test(key)) throw bad()
-    return { sql: 'd.value = CAST(:key AS numeric)', values: { key } }
-  }
-  if (test === 'round-numbers') {
-    if (!/^0{1,3}$/.test(key)) throw bad()
-    return { sql: `d.integer_digits >= 2 AND d.fraction_digits = 0 AND d.trailing_zeros >= ${key.length}`, values: {} }
-  }
-  if (test === 'threshold') {
-    if (!threshold || !/^\d+(\.\d+)?$/.test(key)) throw bad()
-    const width = decimalToText(thresholdBand({ limit: threshold }).width)
-    return { sql: 'abs(d.value) >= CAST(:key AS numeric) AND abs(d.value) < CAST(:key AS numeric) + CAST(:width AS numeric)', values: { key, width } }
-  }
-  const definition = DISTRIBUTIONS[test === 'summation' ? 'first-two-digits' : test as DistributionTest]
-  if (!definition.keys.includes(key)) throw bad()
-  return { sql: `d.${FIELDS[definition.field]} = :key`, values: { key: Number(key) } }
+interface BinRule {
+  /** The distribution whose keys are the test's bins: the import counted them, so a total needs no scan. */
+  distribution?: DistributionTest
+  /** The condition that picks a bin's values, or null when `key` is no bin of the test. */
+  condition: (key: string, threshold?: number) => { sql: string, values: Record<string, unknown> } | null
+}
+
+const distributionBins = (distribution: DistributionTest): BinRule => ({
+  distribution,
+  condition: (key) => {
+    const definition = DISTRIBUTIONS[distribution]
+    return definition.keys.includes(key) ? { sql: `d.${FIELDS[definition.field]} = :key`, values: { key: Number(key) } } : null
+  },
+})
+
+/** How each test's bins pick rows; keys are validated here, never written into SQL. A new test is a type error until it has its rule. */
+const BINS: Record<TestName, BinRule> = {
+  ...byDistribution(distributionBins),
+  'summation': distributionBins('first-two-digits'),
+  'duplicates': { condition: key => /^-?\d+(\.\d+)?$/.test(key) ? { sql: 'd.value = CAST(:key AS numeric)', values: { key } } : null },
+  'round-numbers': {
+    condition: key => /^0{1,3}$/.test(key) ? { sql: `d.integer_digits >= 2 AND d.fraction_digits = 0 AND d.trailing_zeros >= ${key.length}`, values: {} } : null,
+  },
+  'threshold': {
+    condition: (key, threshold) => {
+      if (!threshold || !/^\d+(\.\d+)?$/.test(key)) return null
+      const width = decimalToText(thresholdBand({ limit: threshold }).width)
+      return { sql: 'abs(d.value) >= CAST(:key AS numeric) AND abs(d.value) < CAST(:key AS numeric) + CAST(:width AS numeric)', values: { key, width } }
+    },
+  },
+}
+
+function binCondition(test: TestName, key: string, threshold?: number) {
+  const condition = BINS[test].condition(key, threshold)
+  if (!condition) throw fail(400, [{ path: 'key', message: `"${key}" is not a bin of the ${test} test.` }])
+  return condition
 }
 
 /** The rows behind one bin of a test (and one group), a page at a time. */
@@ -85,7 +102,7 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   }
   // The bin's row numbers first, then only that page's rows: joining every record to its row
   // before choosing the page costs a lookup per record. Unfiltered, the import's counts give the total.
-  const distribution = request.test === 'summation' ? 'first-two-digits' : request.test in DISTRIBUTIONS ? request.test as DistributionTest : null
+  const distribution = BINS[request.test].distribution
   const groupColumn = request.groupBy && request.group !== undefined ? columnByName(columns, request.groupBy, 'groupBy') : null
   const [items, counted] = await Promise.all([
     rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells
