@@ -1,7 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
-import type { SignFilter } from '#shared/digits'
 
 /**
  * The FROM and WHERE of every count over one column's digit records, with the filters and the
@@ -117,8 +116,4 @@ export function selectRows<T extends object>(
 /** A SELECT with bound replacements, answering plain rows. */
 export function rawSelect<T extends object>(sql: string, replacements: Record<string, unknown>): Promise<T[]> {
   return useDb().sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT })
-}
-
-export function signCode(sign: SignFilter) {
-  return sign === 'positive' ? 1 : -1
 }

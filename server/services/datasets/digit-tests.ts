@@ -8,12 +8,9 @@ import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
 import { cubeKeyIndex, cubeSlices, countsFromCube } from './digit-cube'
-import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows, signCode } from './digit-query'
+import { FIELD_COLUMNS, numbersOfSign as ofSign, signCode, STATUS_CODES, statusCountOf } from './digit-columns'
+import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows } from './digit-query'
 import type { DigitQuery } from './digit-query'
-
-const SNAKE: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
-const STATUS_NAMES = ['blank', 'unreadable', 'zero'] as const
-const NUMBER = 3
 
 type Grouped<T> = Map<string | null, T>
 
@@ -32,17 +29,14 @@ async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Groupe
   const byGroup: Grouped<StatusCounts> = new Map()
   for (const row of rows) {
     const status = bucketOf(byGroup, row.grp ?? null, emptyStatus)
-    if (row.status === NUMBER) status[row.sign > 0 ? 'positive' : 'negative'] += row.count
-    else status[STATUS_NAMES[row.status]!] += row.count
+    status[statusCountOf(row.status, row.sign)] += row.count
   }
   return byGroup
 }
 
-const ofSign = (sign: SignFilter) => `d.status = ${NUMBER} AND d.sign = ${signCode(sign)}`
-
 /** Status counts and digit counts in one scan: GROUP BY [group,] status, sign, digit field. */
 async function statusAndDistribution(test: DistributionTest, query: DigitQuery, sign: SignFilter, grouped: boolean): Promise<Grouped<DistributionCounts>> {
-  const field = `d.${SNAKE[DISTRIBUTIONS[test].field]}`
+  const field = `d.${FIELD_COLUMNS[DISTRIBUTIONS[test].field]}`
   const rows = await selectRows<{ grp?: string, status: number, sign: number, key: number | null, count: number, cos: number | null, sin: number | null }>(query, {
     select: `d.status, d.sign, ${field} AS key, count(*)::int AS count, sum(cos(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS cos, sum(sin(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS sin`,
     groupBy: `d.status, d.sign, ${field}`, grouped,
@@ -51,12 +45,8 @@ async function statusAndDistribution(test: DistributionTest, query: DigitQuery, 
   const byGroup: Grouped<DistributionCounts & { arc: { cos: number, sin: number } }> = new Map()
   for (const row of rows) {
     const entry = bucketOf(byGroup, row.grp ?? null, () => ({ status: emptyStatus(), keys: [], arc: { cos: 0, sin: 0 } }))
-    if (row.status !== NUMBER) {
-      entry.status[STATUS_NAMES[row.status]!] += row.count
-      continue
-    }
-    entry.status[row.sign > 0 ? 'positive' : 'negative'] += row.count
-    if (row.sign !== wanted) continue
+    entry.status[statusCountOf(row.status, row.sign)] += row.count
+    if (row.status !== STATUS_CODES.number || row.sign !== wanted) continue
     entry.keys.push({ key: row.key, count: row.count })
     entry.arc.cos += Number(row.cos ?? 0)
     entry.arc.sin += Number(row.sin ?? 0)

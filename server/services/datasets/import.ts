@@ -4,6 +4,7 @@ import { QueryTypes } from 'sequelize'
 import type { ColumnProfile as SuitabilityProfile } from '#shared/digits'
 import { CopyStream } from './bulk-copy'
 import { DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS } from './copy-encoder'
+import { signCode, STATUS_CODES } from './digit-columns'
 import { CUBE_COLUMNS } from './digit-cube'
 import { openRows } from './readers'
 import type { EncodedImport, TopValue } from './row-encoder'
@@ -172,12 +173,12 @@ export async function importDataset(datasetId: string): Promise<void> {
       if (!top?.check) return []
       const i = Object.keys(replacements).length
       replacements[`v${i}`] = top.value
-      return [`(${position}::smallint, ${sign === 'positive' ? 1 : -1}::smallint, CAST(:v${i} AS numeric))`]
+      return [`(${position}::smallint, ${signCode(sign)}::smallint, CAST(:v${i} AS numeric))`]
     }))
     if (!candidates.length) return []
     return sequelize.query<{ column_pos: number, sign: number, top: number }>(
       `SELECT column_pos, sign, count(*)::int AS top FROM ${names.digits}
-       WHERE status = 3 AND (column_pos, sign, value) IN (VALUES ${candidates.join(', ')}) GROUP BY 1, 2`,
+       WHERE status = ${STATUS_CODES.number} AND (column_pos, sign, value) IN (VALUES ${candidates.join(', ')}) GROUP BY 1, 2`,
       { replacements, type: QueryTypes.SELECT },
     )
   }

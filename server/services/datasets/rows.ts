@@ -4,12 +4,11 @@ import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { PageDTO, RowDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { buildDigitQuery, columnByName, rawSelect, signCode } from './digit-query'
+import { FIELD_COLUMNS, numbersOfSign } from './digit-columns'
+import { buildDigitQuery, columnByName, rawSelect } from './digit-query'
 import { cubeBinCount } from './digit-tests'
 
 export const PAGE_SIZE = 50
-
-const FIELDS: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
 
 function readyOrConflict(dataset: Dataset) {
   if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
@@ -59,7 +58,7 @@ const distributionBins = (distribution: DistributionTest): BinRule => ({
   distribution,
   condition: (key) => {
     const definition = DISTRIBUTIONS[distribution]
-    return definition.keys.includes(key) ? { sql: `d.${FIELDS[definition.field]} = :key`, values: { key: Number(key) } } : null
+    return definition.keys.includes(key) ? { sql: `d.${FIELD_COLUMNS[definition.field]} = :key`, values: { key: Number(key) } } : null
   },
 })
 
@@ -94,7 +93,7 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers.` }])
   const query = buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy)
   const bin = binCondition(request.test, request.key, request.threshold)
-  let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
+  let where = `${query.where} AND ${numbersOfSign(request.sign ?? 'positive')} AND ${bin.sql}`
   const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
   if (query.groupEquals && request.group !== undefined) {
     where += ` AND ${query.groupEquals}`

@@ -5,18 +5,9 @@ import type { Block } from '../../models'
 import { findDataset } from '../datasets/catalog'
 import { runDatasetTest } from '../datasets/digit-tests'
 
-/** Settings in a fixed key order, so equal settings always give the same cache key. */
-function canonical(value: unknown): unknown {
-  if (Array.isArray(value)) return value.map(canonical)
-  if (value && typeof value === 'object') {
-    return Object.fromEntries(Object.keys(value).sort().filter(k => (value as Record<string, unknown>)[k] !== undefined)
-      .map(k => [k, canonical((value as Record<string, unknown>)[k])]))
-  }
-  return value
-}
-
+/** Equal settings always give the same cache key, whatever order their keys came in. */
 export function cacheKeyOf(settings: AnalysisSettings): string {
-  return createHash('sha256').update(JSON.stringify(canonical(settings))).digest('hex')
+  return createHash('sha256').update(canonicalJson(settings)).digest('hex')
 }
 
 function completeSettings(block: Block) {

@@ -14,13 +14,6 @@ export async function findBlock(id: string, { includeRemoved = false } = {}): Pr
   return { block, investigation: await findInvestigation(block.investigationId) }
 }
 
-/** JSON with object keys sorted, so that two settings that differ only in key order compare equal. */
-function canonicalJson(value: unknown): string {
-  return JSON.stringify(value, (_key, v) => v && typeof v === 'object' && !Array.isArray(v)
-    ? Object.fromEntries(Object.entries(v).sort(([a], [b]) => a.localeCompare(b)))
-    : v)
-}
-
 /** A block may only point at a dataset of its own newsroom. */
 async function checkDataset(settings: AnalysisSettings | undefined, newsroomId: string) {
   if (!settings?.datasetId) return

@@ -1,7 +1,6 @@
 import { timingSafeEqual } from 'node:crypto'
 import { Op } from 'sequelize'
 import type { PublishedSnapshot } from '#shared/types/publication'
-import { hashToken } from './publish'
 
 /**
  * The snapshot behind a public token, or 404 for an unknown, revoked or expired one. The lookup

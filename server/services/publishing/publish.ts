@@ -1,4 +1,3 @@
-import { createHash, randomBytes } from 'node:crypto'
 import { Op } from 'sequelize'
 import { summarize } from '#shared/charts/summary'
 import { TEST_LABELS } from '#shared/charts/labels'
@@ -8,10 +7,6 @@ import type { Investigation, ShareLink } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { liveBlocks, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
-
-export function hashToken(token: string) {
-  return createHash('sha256').update(token).digest('hex')
-}
 
 /** What stands between the investigation and a clean publication: unapproved methods, unverified claims. */
 export async function publishBlockers(investigation: Investigation): Promise<PublishBlockerDTO[]> {
@@ -78,7 +73,7 @@ export async function publish(actor: Actor, investigation: Investigation, option
     throw fail(400, [{ path: 'reason', message: `${blockers.length} check${blockers.length === 1 ? ' is' : 's are'} not done. Finish them, or give the reason for publishing anyway.` }])
   }
   const snapshot = await snapshotOf(investigation)
-  const token = randomBytes(32).toString('base64url')
+  const token = newToken()
   const { sequelize, models } = useDb()
   const { link, publication } = await sequelize.transaction(async (transaction) => {
     const publication = await models.Publication.create({
