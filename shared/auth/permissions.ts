@@ -23,13 +23,11 @@ const TABLE = {
   'claim.mark': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': 'own' },
   'claim.verify': { 'admin': 'any', 'data-editor': false, 'fact-checker': 'any', 'reporter': false },
   'lock.lift': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
-  'comment.create': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'audit.read': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'investigation.publish': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
 } as const satisfies Record<string, Record<Role, Scope>>
 
 export type Action = keyof typeof TABLE
-export const ACTIONS = Object.keys(TABLE) as Action[]
 
 /** True when `role` may do `action`; `isOwner` matters only for actions scoped to one's own records. */
 export function can(role: Role, action: Action, isOwner = false): boolean {

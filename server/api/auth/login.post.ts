@@ -1,5 +1,5 @@
 import { loginSchema } from '#shared/schemas/auth'
-import { signIn } from '../../services/sign-in'
+import { signIn } from '#server/services/sign-in'
 
 export default defineEventHandler(async (event) => {
   const { email, password } = await readInput(event, loginSchema)

@@ -1,5 +1,5 @@
 import { invitationAcceptSchema, tokenParamsSchema } from '#shared/schemas/auth'
-import { acceptInvitation } from '../../services/invitations'
+import { acceptInvitation } from '#server/services/invitations'
 
 export default defineEventHandler(async (event) => {
   const { token } = readParams(event, tokenParamsSchema)

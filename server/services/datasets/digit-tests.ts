@@ -116,7 +116,7 @@ export function storedColumn(datasetId: string, position: number) {
  * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
  * for a whole column, counted here when filters narrow the rows.
  */
-async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
+async function suitabilityProfile(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean): Promise<CountedProfile | null> {
   if (!filtered && stored?.profiles) return stored.profiles[sign]
   return profileCounts(query, sign)
 }
@@ -193,7 +193,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   const whole = buildDigitQuery(dataset.id, columns, tested, body.filters)
   const grouping = body.groupBy ? buildDigitQuery(dataset.id, columns, tested, body.filters, body.groupBy) : null
   const stored = await storedColumn(dataset.id, tested.position)
-  const profile = profileOf(stored, whole, sign, Boolean(body.filters?.length))
+  const profile = suitabilityProfile(stored, whole, sign, Boolean(body.filters?.length))
 
   let counts: TestCountsMap[TestName]
   let groupCounts: Grouped<{ status: StatusCounts }> | null = null

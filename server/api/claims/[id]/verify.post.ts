@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findClaim, verifyClaim } from '../../../services/investigations/claims'
+import { findClaim, verifyClaim } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

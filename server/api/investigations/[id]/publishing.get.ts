@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { listShareLinks, publishBlockers } from '../../../services/publishing/publish'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { listShareLinks, publishBlockers } from '#server/services/publishing/publish'
 
 // The publishing panel: what still blocks a clean publication, and the links made so far.
 export default defineEventHandler(async (event) => {
