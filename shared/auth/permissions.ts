@@ -1,7 +1,7 @@
 import type { Role } from './roles'
 
 /**
- * Who may do what, in one table (DESIGN.md, "Who does what").
+ * Who may do what, in one table (docs/product-rules.md, "Who does what").
  * 'any' = on every record of the newsroom; 'own' = only on records the member created.
  * The server decides with this table; pages use it only to hide buttons.
  */

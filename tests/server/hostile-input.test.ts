@@ -64,7 +64,7 @@ function send(client: Client, newsroomId: string, item: UploadCase, body: Upload
   return upload(client, item.fileName, body, item.fields, query)
 }
 
-/** DESIGN.md, "The API that scripts use": errors are { statusCode, statusMessage, data } with a 4xx. */
+/** docs/product-rules.md, "The API that scripts use": errors are { statusCode, statusMessage, data } with a 4xx. */
 function expectClearRefusal(reply: Reply, expected: { status: number, path?: string, message?: RegExp }) {
   expect(reply.status, JSON.stringify(reply.body).slice(0, 500)).toBe(expected.status)
   expect(reply.body).toMatchObject({ statusCode: expected.status, statusMessage: expect.any(String) })

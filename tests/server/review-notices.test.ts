@@ -76,7 +76,7 @@ describe('e-mail notices', () => {
       const mail = await waitForMail(newsroom.emails[role], `Published: ${story.title}`)
       expect(mail.text).toContain('The council confirmed the figures by phone.')
       expect(mail.text).toContain(`/investigations/${story.id}`)
-      // DESIGN.md: only the token's hash is stored; the link is shown once to the one who published.
+      // docs/product-rules.md: only the token's hash is stored; the link is shown once to the one who published.
       expect(mail.text).not.toContain(token)
     }
     expect(await noticesAbout(newsroom.emails['data-editor'], story)).not.toContain(`Published: ${story.title}`)

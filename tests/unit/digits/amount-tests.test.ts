@@ -18,7 +18,7 @@ describe('summation', () => {
     expect(planted.mad!.value).toBeGreaterThan(smooth.mad!.value)
   })
 
-  it('sums amounts exactly and expects 1/90 of the total per bucket (CHECKS.md)', () => {
+  it('sums amounts exactly and expects 1/90 of the total per bucket (docs/check-values.md)', () => {
     const values = ['0.10', '0.20', '12.10', '12.20', '12.30', '-12.40', '99.99', '1e20', '5']
     const result = runDigitTest({ test: 'summation', input: { values } })
     const bin = (key: string) => result.bins.find(b => b.key === key)!

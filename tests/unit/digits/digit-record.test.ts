@@ -25,7 +25,7 @@ describe('the digit record of one cell', () => {
   })
 
   it('gets 1000 right where log10 does not', () => {
-    // CHECKS.md: Math.log(1000)/Math.LN10 = 2.9999999999999996, which a log-based reader turns into digit "10".
+    // docs/check-values.md: Math.log(1000)/Math.LN10 = 2.9999999999999996, which a log-based reader turns into digit "10".
     expect(toDigitRecord(1000)).toMatchObject({ firstDigit: 1, secondDigit: 0, firstTwo: 10, firstThree: 100, integerDigits: 4, trailingZeros: 3, lastTwo: 0, mantissa: 0 })
   })
 

@@ -11,7 +11,7 @@ function scale(value: string, mantissa: bigint, places: number): string {
 const firstDigit = (values: readonly string[]) => runDigitTest({ test: 'first-digit', input: { values } })
 
 describe('properties', () => {
-  // 2^n, n = 0..999 conforms closely (CHECKS.md worked case: MAD 0.000678).
+  // 2^n, n = 0..999 conforms closely (docs/check-values.md worked case: MAD 0.000678).
   const conforming = powerSeries(2, 1000)
 
   it('scaling a conforming sample by a constant keeps it conforming (scale invariance; Hill 1995)', () => {
@@ -23,7 +23,7 @@ describe('properties', () => {
     }), { numRuns: 40 })
   })
 
-  it('the integers 1..N do not conform (CHECKS.md, a common classroom fact)', () => {
+  it('the integers 1..N do not conform (docs/check-values.md, a common classroom fact)', () => {
     fc.assert(fc.property(fc.integer({ min: 100, max: 30000 }), (n) => {
       expect(firstDigit(integerPowerSeries(1, n)).mad!.conformity).toBe('nonconforming')
     }), { numRuns: 40 })

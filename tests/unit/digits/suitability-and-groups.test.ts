@@ -9,7 +9,7 @@ const healthy: ColumnProfile = { n: 5000, min: '0.5', max: '250000', atMin: 1, a
 
 describe('suitability', () => {
   it('derives each test\'s minimum from five expected values in the rarest bin (Cochran 1954; common practice)', () => {
-    // Rarest shares from CHECKS.md: P(9) = 0.04576, P(D2 = 9) = 0.08500, P(99) = 0.004365, P(999) = 0.00043451, 0.01.
+    // Rarest shares from docs/check-values.md: P(9) = 0.04576, P(D2 = 9) = 0.08500, P(99) = 0.004365, P(999) = 0.00043451, 0.01.
     expect(MINIMUM_VALUES['first-digit']).toMatchObject({ warning: Math.ceil(5 / 0.04576), stop: Math.ceil(1 / 0.04576), rarest: '"9"' })
     expect(MINIMUM_VALUES['second-digit']!.warning).toBe(Math.ceil(5 / 0.085))
     expect(MINIMUM_VALUES['first-two-digits']!.warning).toBe(Math.ceil(5 / 0.004365))
