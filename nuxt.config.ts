@@ -77,7 +77,7 @@ export default defineNuxtConfig({
     nodeTsConfig: {
       compilerOptions: {
         noUnusedLocals: true, lib: ['ESNext', 'DOM', 'DOM.Iterable'], types: ['node'],
-        paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'] },
+        paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'], '#server': ['../server'], '#server/*': ['../server/*'] },
       },
       include: ['../tests/vitest.config.ts', '../tests/browser/**/*', '../tests/support/browser.ts', './types/nitro.d.ts', '../shared/**/*.d.ts'],
     },
