@@ -16,10 +16,14 @@ export default defineNuxtConfig({
   runtimeConfig: {
     // Every value here is overridden by NUXT_* environment variables (README: production settings).
     databaseUrl: '',
+    // A read-only streaming replica for the digit counts and rows of ready datasets (README: scaling out).
+    databaseReadUrl: '',
     smtpUrl: '',
     mailFrom: 'Mantissa <desk@mantissa.invalid>',
     mailSink: { enabled: false, port: 2525 },
     publicUrl: 'http://localhost:3000',
+    // Public link tokens are HMAC(secret, link id); unset, the session password serves (README).
+    shareLinkSecret: '',
     demoSeed: false,
     uploadLimitBytes: 200 * 1024 * 1024,
     // driver "fs" keeps files under base; "s3" keeps them in the bucket and stages uploads under base.
@@ -27,7 +31,9 @@ export default defineNuxtConfig({
       driver: 'fs', base: '.data/files',
       bucket: '', region: '', endpoint: '', forcePathStyle: false, accessKeyId: '', secretAccessKey: '', prefix: '',
     },
-    jobs: { schema: 'pgboss' },
+    // expireSeconds: how long a server may go silent on an import before another takes it over;
+    // maintenanceSeconds: how often the queue looks for such imports (pg-boss's own default).
+    jobs: { schema: 'pgboss', expireSeconds: 15 * 60, maintenanceSeconds: 120 },
     session: {
       maxAge: 60 * 60 * 12,
       // Secure everywhere, not only in production: browsers keep Secure cookies on http://localhost,

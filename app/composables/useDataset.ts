@@ -25,9 +25,17 @@ export function useChosenDataset(id: Ref<string | undefined>) {
 
 /** A page of a dataset's rows, sorted by one column when asked. */
 export function useDatasetPreview(id: Ref<string>, enabled: Ref<boolean>) {
-  const page = ref(1)
-  const sort = ref<string | undefined>()
-  const dir = ref<'asc' | 'desc'>('asc')
+  // Page and order live in the address, so Back and reload return to the same rows.
+  const route = useRoute()
+  const router = useRouter()
+  const fromQuery = (name: string) => (typeof route.query[name] === 'string' ? route.query[name] as string : undefined)
+  const setQuery = (changes: Record<string, string | undefined>) => router.replace({ query: { ...route.query, ...changes } })
+  const page = computed({
+    get: () => Math.max(1, Number(fromQuery('page')) || 1),
+    set: value => setQuery({ page: value > 1 ? String(value) : undefined }),
+  })
+  const sort = computed(() => fromQuery('sort'))
+  const dir = computed<'asc' | 'desc'>(() => (fromQuery('dir') === 'desc' ? 'desc' : 'asc'))
   const requestFetch = useRequestFetch()
   const { data, status } = useAsyncData(
     () => `preview-${id.value}-${page.value}-${sort.value}-${dir.value}-${enabled.value}`,
@@ -37,12 +45,8 @@ export function useDatasetPreview(id: Ref<string>, enabled: Ref<boolean>) {
     { watch: [enabled, page, sort, dir] },
   )
   function sortBy(column: string) {
-    if (sort.value === column) dir.value = dir.value === 'asc' ? 'desc' : 'asc'
-    else {
-      sort.value = column
-      dir.value = 'asc'
-    }
-    page.value = 1
+    const descending = sort.value === column && dir.value === 'asc'
+    setQuery({ sort: column, dir: descending ? 'desc' : undefined, page: undefined })
   }
-  return { rows: data, page, sort: readonly(sort), dir: readonly(dir), sortBy, loading: computed(() => status.value === 'pending') }
+  return { rows: data, page, sort, dir, sortBy, loading: computed(() => status.value === 'pending') }
 }

@@ -81,7 +81,13 @@ export const useDocumentStore = defineStore('document', () => {
   const verify = (claimId: string) => act(post(`/api/claims/${claimId}/verify`))
   const dispute = (claimId: string, note: string) => act(post(`/api/claims/${claimId}/dispute`, { note }))
   const unlock = (claimId: string, reason: string) => act(post(`/api/claims/${claimId}/unlock`, { reason }))
-  const review = (blockId: string, decision: 'approved' | 'changes-requested', note?: string) =>
+  /** Takes a claim off its passage (the words stay); its block's pending typing is saved first, so the server strips the mark from the latest text. */
+  async function removeClaim(claimId: string, reason?: string) {
+    const claim = claims.value.find(c => c.id === claimId)
+    if (claim) await whenSaved(claim.blockId)
+    return act(() => send(`/api/claims/${claimId}`, { method: 'DELETE', body: { reason } }))
+  }
+  const review = (blockId: string, decision: 'approved' | 'sent-back', note?: string) =>
     act(post(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }))
   const requestReview = () => act(post(`/api/investigations/${investigation.value!.id}/review-request`))
 
@@ -213,6 +219,6 @@ export const useDocumentStore = defineStore('document', () => {
   return {
     investigation, blocks, claims, saveState, conflicts, removed, message, viewer,
     load, save, whenSaved, retry, takeTheirs, keepMine, insert, remove, undoRemove, move, refreshLayout, may,
-    markClaim, citeBlocks, verify, dispute, unlock, review, requestReview,
+    markClaim, citeBlocks, verify, dispute, unlock, removeClaim, review, requestReview,
   }
 })

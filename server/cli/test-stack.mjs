@@ -3,11 +3,15 @@
 // through the tests' global setup, or use the one that already answers on the test port.
 import { spawn } from 'node:child_process'
 import { once } from 'node:events'
-import { join } from 'node:path'
+import { createWriteStream, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { dirname, join } from 'node:path'
 import { ensurePostgres } from './postgres.mjs'
 import { buildIfStale, migrate, root, step, waitForServer } from './prepare.mjs'
 
 const port = Number(process.env.MANTISSA_TEST_PORT ?? 3101)
+const SERVER_LOG = join(root, 'tests', '.artifacts', 'server.log')
+/** The running test app's process id and log, for a later run that reuses it. */
+const SERVER_FILE = join(root, '.data', 'test-app.json')
 
 /** Where the tests find the stack; MANTISSA_TEST_URL points them at another app. */
 export const testUrl = process.env.MANTISSA_TEST_URL ?? `http://localhost:${port}`
@@ -42,12 +46,25 @@ export async function startTestApp(databaseUrl) {
     NITRO_HOST: '127.0.0.1',
   }
   step(`starting the built app for server and browser tests on ${testUrl}`)
-  const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], { cwd: root, env, stdio: ['ignore', 'inherit', 'inherit'] })
+  const server = spawn(process.execPath, [join(root, '.output', 'server', 'index.mjs')], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] })
+  // Its output also goes to a file, where the tests look for errors it only logged (an unhandled rejection).
+  mkdirSync(dirname(SERVER_LOG), { recursive: true })
+  const log = createWriteStream(SERVER_LOG)
+  for (const [from, to] of [[server.stdout, process.stdout], [server.stderr, process.stderr]]) {
+    from.on('data', (chunk) => {
+      to.write(chunk)
+      log.write(chunk)
+    })
+  }
   const exited = once(server, 'exit')
   await Promise.race([waitForServer(testUrl), exited.then(([code]) => {
     throw new Error(`the test app exited with code ${code} before it answered`)
   })])
+  const processEnv = { MANTISSA_TEST_SERVER_PID: String(server.pid), MANTISSA_TEST_SERVER_LOG: SERVER_LOG }
+  writeFileSync(SERVER_FILE, JSON.stringify(processEnv))
   return {
+    /** What the tests need to watch the app's process (tests/support/server-process.ts). */
+    env: processEnv,
     async stop() {
       if (server.exitCode !== null || server.signalCode !== null) return
       server.kill('SIGTERM')
@@ -75,9 +92,16 @@ export async function useTestStack() {
   for (const [name, value] of Object.entries(testEnv(database.url))) process.env[name] ??= value
   if (await answers(testUrl)) {
     step(`using the app that answers on ${testUrl}`)
-    return { stop: async () => {} }
+    // The process the last start left, if it is the one still running.
+    if (existsSync(SERVER_FILE)) {
+      const known = JSON.parse(readFileSync(SERVER_FILE, 'utf8'))
+      if (existsSync(`/proc/${known.MANTISSA_TEST_SERVER_PID}`)) for (const [name, value] of Object.entries(known)) process.env[name] ??= value
+    }
+    return { env: {}, stop: async () => {} }
   }
   migrate(database.url)
   buildIfStale()
-  return startTestApp(database.url)
+  const app = await startTestApp(database.url)
+  Object.assign(process.env, app.env)
+  return app
 }

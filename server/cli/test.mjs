@@ -32,7 +32,7 @@ try {
   mkdirSync(artifacts, { recursive: true })
   const report = join(artifacts, 'vitest.json')
   rmSync(report, { force: true })
-  const code = run(bin('vitest'), ['run', '--config', 'tests/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], env)
+  const code = run(bin('vitest'), ['run', '--config', 'tests/vitest.config.ts', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`], { ...env, ...app.env })
   if (existsSync(report)) results = JSON.parse(readFileSync(report, 'utf8'))
   if (code !== 0) failures.push('tests')
 }

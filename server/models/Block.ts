@@ -34,7 +34,7 @@ export class Block extends Model<InferAttributes<Block>, InferCreationAttributes
       createdBy: { type: DataTypes.UUID, allowNull: false },
       updatedBy: DataTypes.UUID,
       deletedAt: DataTypes.DATE,
-      reviewStatus: { type: DataTypes.ENUM('unreviewed', 'approved', 'changes-requested'), allowNull: false, defaultValue: 'unreviewed' },
+      reviewStatus: { type: DataTypes.ENUM('unreviewed', 'approved', 'sent-back'), allowNull: false, defaultValue: 'unreviewed' },
       reviewNote: DataTypes.TEXT,
       reviewedBy: DataTypes.UUID,
       reviewedAt: DataTypes.DATE,

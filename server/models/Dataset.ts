@@ -12,6 +12,10 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
   declare obtainedOn: string | null
   declare originalName: string
   declare format: string
+  declare compression: CreationOptional<'gzip' | 'zip' | null>
+  declare archiveEntry: CreationOptional<string | null>
+  declare sheet: CreationOptional<string | null>
+  declare sheets: CreationOptional<string[] | null>
   declare sha256: string
   declare byteSize: number
   declare storageKey: string
@@ -38,6 +42,10 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
       obtainedOn: DataTypes.DATEONLY,
       originalName: { type: DataTypes.TEXT, allowNull: false },
       format: { type: DataTypes.TEXT, allowNull: false },
+      compression: DataTypes.TEXT,
+      archiveEntry: DataTypes.TEXT,
+      sheet: DataTypes.TEXT,
+      sheets: DataTypes.ARRAY(DataTypes.TEXT),
       sha256: { type: DataTypes.TEXT, allowNull: false },
       byteSize: { type: DataTypes.BIGINT, allowNull: false, get() {
         return Number(this.getDataValue('byteSize'))

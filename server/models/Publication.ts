@@ -7,6 +7,8 @@ export class Publication extends Model<InferAttributes<Publication>, InferCreati
   declare investigationId: string
   declare snapshot: PublishedSnapshot
   declare overrideReason: string | null
+  declare disputedReason: CreationOptional<string | null>
+  declare followUpConfirmedBy: CreationOptional<string | null>
   declare publishedBy: string
   declare publishedAt: CreationOptional<Date>
 
@@ -16,6 +18,8 @@ export class Publication extends Model<InferAttributes<Publication>, InferCreati
       investigationId: { type: DataTypes.UUID, allowNull: false },
       snapshot: { type: DataTypes.JSONB, allowNull: false },
       overrideReason: DataTypes.TEXT,
+      disputedReason: DataTypes.TEXT,
+      followUpConfirmedBy: DataTypes.UUID,
       publishedBy: { type: DataTypes.UUID, allowNull: false },
       publishedAt: DataTypes.DATE,
     }, { sequelize, tableName: 'publications', underscored: true, timestamps: false })

@@ -25,7 +25,22 @@ export async function describeNewsroom(newsroomId: string, role: Role): Promise<
   const newsroom = await Newsroom.findByPk(newsroomId)
   if (!newsroom) throw fail(404)
   const memberCount = await Membership.count({ where: { newsroomId } })
-  return { id: newsroom.id, name: newsroom.name, role, memberCount }
+  return { id: newsroom.id, name: newsroom.name, role, memberCount, fourEyes: newsroom.fourEyes }
+}
+
+/** An admin turns the four-eyes rule on or off; the audit trail keeps who did and when. */
+export async function updateNewsroomSettings(actor: Actor, settings: { fourEyes: boolean }): Promise<NewsroomDTO> {
+  const { sequelize, models } = useDb()
+  await sequelize.transaction(async (transaction) => {
+    const newsroom = await models.Newsroom.findByPk(actor.newsroomId, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!newsroom || newsroom.fourEyes === settings.fourEyes) return
+    await newsroom.update({ fourEyes: settings.fourEyes }, { transaction })
+    await recordAudit({
+      newsroomId: actor.newsroomId, investigationId: null, actorId: actor.userId, action: 'newsroom.four-eyes',
+      subjectType: 'newsroom', subjectId: actor.newsroomId, detail: { fourEyes: settings.fourEyes },
+    }, transaction)
+  })
+  return describeNewsroom(actor.newsroomId, actor.role)
 }
 
 /** The membership behind an id, as the newsroom id the permission check needs; 404 when missing. */

@@ -7,11 +7,13 @@ export const STATUS_TEXT = {
   403: 'Not allowed',
   404: 'Not found',
   409: 'Changed by someone else',
+  410: 'No longer available',
   413: 'File too large',
   415: 'Unsupported file',
   422: 'Cannot be processed',
   423: 'Locked',
   429: 'Too many attempts',
+  503: 'Server busy',
 } as const
 
 export type FailStatus = keyof typeof STATUS_TEXT

@@ -11,13 +11,15 @@ let starting: Promise<PgBoss> | undefined
  */
 export function useJobs(): Promise<PgBoss> {
   starting ??= (async () => {
-    const boss = new PgBoss({ connectionString: useRuntimeConfig().databaseUrl, schema: useRuntimeConfig().jobs.schema, max: 4 })
+    const { databaseUrl, jobs } = useRuntimeConfig()
+    const boss = new PgBoss({ connectionString: databaseUrl, schema: jobs.schema, max: 4, maintenanceIntervalSeconds: Number(jobs.maintenanceSeconds) })
     boss.on('error', error => console.error('[jobs]', error.message))
     await boss.start()
     await boss.createQueue(IMPORT_QUEUE, {
       name: IMPORT_QUEUE,
-      // A server that dies mid-import lets the job expire; the next try starts it again from nothing.
-      expireInSeconds: 15 * 60,
+      // A server that dies mid-import lets the job expire; the next try, on any server, starts it
+      // again from nothing (the dead server's tables went with its uncommitted transactions).
+      expireInSeconds: Number(jobs.expireSeconds),
       retryLimit: 2,
       retryDelay: 5,
     })

@@ -21,10 +21,12 @@ const TABLE = {
   'review.request': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': 'own' },
   'block.review': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'claim.mark': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': 'own' },
+  'claim.remove': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'claim.verify': { 'admin': 'any', 'data-editor': false, 'fact-checker': 'any', 'reporter': false },
   'lock.lift': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'audit.read': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'investigation.publish': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
+  'newsroom.configure': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },
 } as const satisfies Record<string, Record<Role, Scope>>
 
 export type Action = keyof typeof TABLE

@@ -2,7 +2,7 @@ import { MAD_RANGES } from '../digits'
 import type { DistributionTest, TestResult } from '../digits'
 import { TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
 import type { AnalysisSettings } from '../types/investigation'
-import type { DatasetFingerprint } from '../types/publication'
+import type { DatasetFingerprint, PublishedChecks } from '../types/publication'
 
 export interface AppendixAnalysis {
   settings: AnalysisSettings
@@ -48,19 +48,43 @@ function analysisSection(index: number, { settings, result }: AppendixAnalysis, 
   return lines.join('\n')
 }
 
+/** What the record shows was done before publication, and nothing more. */
+export interface PublicationRecord {
+  checks: PublishedChecks
+  /** The publisher confirmed, in so many words, that every deviation was followed up. */
+  followUpConfirmed: boolean
+}
+
+const of = (done: number, total: number, one: string, many: string) => `${count(done)} of ${count(total)} ${total === 1 ? one : many}`
+
+function checksSection({ checks, followUpConfirmed }: PublicationRecord): string[] {
+  const { methods, claims } = checks
+  const lines = [
+    '## Checks before publication',
+    '',
+    `- Method: ${of(methods.approved, methods.total, 'analysis', 'analyses')} approved in the newsroom’s method review.`,
+    `- Claims: ${of(claims.verified, claims.total, 'marked claim', 'marked claims')} verified in the newsroom’s fact-check${claims.disputed ? `; ${count(claims.disputed)} published while disputed` : ''}. Only verified passages are marked in the text; verifying a claim locked its words.`,
+  ]
+  if (checks.independent && (methods.approved || claims.verified)) lines.push('- Each approval and verification was made by someone other than the person who created the analysis block or marked the claim.')
+  if (followUpConfirmed) lines.push('- The newsroom confirmed at publication that every deviation reported here was followed up in the records and with the people and organisations concerned.')
+  return [...lines, '']
+}
+
 /**
  * The methodology appendix of a published investigation, in Markdown: what each test did, on
- * which exact file, what was left out, which thresholds were used and where they come from, and
- * the limits of the method.
+ * which exact file, what was left out, which thresholds were used and where they come from, the
+ * checks the record shows, and the limits of the method. It states only what `record` shows.
  */
-export function methodologyAppendix(title: string, analyses: AppendixAnalysis[], datasets: DatasetFingerprint[]): string {
+export function methodologyAppendix(title: string, analyses: AppendixAnalysis[], datasets: DatasetFingerprint[], record: PublicationRecord): string {
   const byId = new Map(datasets.map(d => [d.id, d]))
   return [
     `# Methodology: ${title}`,
     '',
     '## What these tests can and cannot say',
     '',
-    'Benford’s law describes how often each leading digit appears in many collections of naturally occurring amounts: a 1 leads about 30% of the time, a 9 under 5% (Benford 1938; Hill 1995). The tests below compare the amounts in the datasets with that pattern and with related expectations. A digit test is a screen, not proof: a deviation says where to look, never that anything is wrong. Rounding rules, price lists, caps, fees and many ordinary business practices make honest data deviate. Every deviation reported here was followed up in the records and with the people and organisations concerned before publication, and the newsroom’s legal review applies before anyone is named.',
+    'Benford’s law describes how often each leading digit appears in many collections of naturally occurring amounts: a 1 leads about 30% of the time, a 9 under 5% (Benford 1938; Hill 1995). The tests below compare the amounts in the datasets with that pattern and with related expectations. A digit test is a screen, not proof: a deviation says where to look, never that anything is wrong. Rounding rules, price lists, caps, fees and many ordinary business practices make honest data deviate. The newsroom’s legal review applies before anyone is named.',
+    '',
+    ...checksSection(record),
     '',
     '## Statistics used',
     '',

@@ -21,6 +21,7 @@ export const invitationAcceptSchema = z.object({
   password: passwordSchema,
 })
 
+export const newsroomSettingsSchema = z.object({ fourEyes: z.boolean() })
 export const roleChangeSchema = z.object({ role: roleSchema })
 
 export const idParamsSchema = z.object({ id: z.string().uuid() })

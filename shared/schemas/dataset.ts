@@ -23,8 +23,16 @@ export const datasetUploadSchema = z.object({
   obtainedOn: z.string().trim().optional().transform(v => v || undefined)
     .refine(v => !v || isCalendarDate(v), 'Use a date that exists, like 2026-03-31'),
   replacesId: z.string().uuid().optional().or(z.literal('').transform(() => undefined)),
+  /** The sheet of a workbook to read; unset, the first visible one. */
+  sheet: optionalText(31),
 })
 export type DatasetUpload = z.output<typeof datasetUploadSchema>
+
+/** Another sheet of an imported workbook, read into a dataset of its own. */
+export const sheetImportSchema = z.object({
+  sheet: z.string().min(1).max(31),
+  title: z.string().trim().min(1, 'Give the dataset a title').max(200).optional(),
+})
 
 export const filterSchema = z.discriminatedUnion('op', [
   z.object({ column: z.string().min(1).max(200), op: z.literal('equals'), value: z.string().max(1000) }),

@@ -46,8 +46,11 @@ export const blockOrderSchema = z.object({
 
 const note = z.string().trim().max(4000)
 
+/** The API's old word for 'sent-back', still accepted from scripts until 2027-06-30 (README). */
+const LEGACY_SENT_BACK = 'changes-requested'
+
 export const reviewDecisionSchema = z.object({
-  decision: z.enum(['approved', 'changes-requested']),
+  decision: z.enum(['approved', 'sent-back', LEGACY_SENT_BACK]).transform(d => (d === LEGACY_SENT_BACK ? 'sent-back' as const : d)),
   note: note.optional(),
   // The block's version the editor read; a block saved since answers 409.
   version: z.number().int().positive().optional(),
@@ -63,12 +66,20 @@ export const claimUpdateSchema = z.object({
   supportingBlockIds: z.array(z.string().uuid()).max(50),
 })
 
+export const claimRemoveSchema = z.object({ reason: note.min(1).optional() })
 export const disputeSchema = z.object({ note: note.min(1, 'Say what is wrong or missing') })
 export const unlockSchema = z.object({ reason: note.min(1, 'Give the reason for lifting the lock; the audit trail keeps it') })
 export const preferencesSchema = z.object({ notifyByEmail: z.boolean() })
 
 export const publishSchema = z.object({
   reason: note.optional(),
+  // Publishing with a disputed claim is its own decision: the claims named and why, kept in the audit trail.
+  disputed: z.object({
+    claimIds: z.array(z.string().uuid()).min(1).max(500),
+    reason: note.min(1, 'Say why these passages are published while disputed'),
+  }).optional(),
+  // The publisher confirms the follow-up statement; only then does the methodology print it.
+  followUpConfirmed: z.boolean().optional(),
   expiresAt: z.string().datetime({ offset: true }).optional()
     .refine(v => !v || Date.parse(v) > Date.now(), 'Choose an expiry in the future'),
 })

@@ -41,6 +41,13 @@ export interface DatasetDTO extends DatasetSummaryDTO {
   obtainedOn: string | null
   sha256: string
   format: string
+  /** How the file was compressed ("gzip" or "zip"), or null. */
+  compression: string | null
+  /** The table read from a zip archive. */
+  archiveEntry: string | null
+  /** The workbook sheet that was read (null: the first visible one) and the sheets the workbook lists. */
+  sheet: string | null
+  sheets: string[] | null
   encoding: string | null
   delimiter: string | null
   raggedRows: number

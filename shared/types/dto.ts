@@ -49,6 +49,8 @@ export interface NewsroomDTO {
   name: string
   role: Role
   memberCount: number
+  /** Four eyes: whoever approves a method or verifies a claim is never its author. */
+  fourEyes: boolean
 }
 
 export interface MailMessageDTO {

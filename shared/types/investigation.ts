@@ -31,7 +31,7 @@ export interface InvestigationSummaryDTO {
   archived: boolean
 }
 
-export type ReviewStatus = 'unreviewed' | 'approved' | 'changes-requested'
+export type ReviewStatus = 'unreviewed' | 'approved' | 'sent-back'
 export type ClaimStatus = 'open' | 'verified' | 'disputed'
 
 /** Who did something and when: locks and reviews carry one. */

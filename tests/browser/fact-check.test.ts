@@ -1,8 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { baseUrl } from '../support/api'
-import { launchBrowser, screenshot, signInThroughPage } from '../support/browser'
-import { createTestNewsroom, PASSWORD } from '../support/newsroom'
+import type { Browser } from 'playwright-core'
+import { launchBrowser, openInvestigationAs, screenshot } from '../support/browser'
+import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { AFTER_CLAIM, BEFORE_CLAIM, CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
@@ -22,14 +21,7 @@ afterAll(async () => {
 })
 
 /** Signs in and opens the story, as the newsroom's member with `role`. */
-async function openStory(role: 'fact-checker' | 'reporter'): Promise<Page> {
-  const page = await (await browser.newContext({ viewport: { width: 1400, height: 1000 } })).newPage()
-  await signInThroughPage(page, newsroom.emails[role], PASSWORD)
-  await page.waitForURL(/\/newsrooms\//)
-  await page.goto(`${baseUrl}/investigations/${story.id}`)
-  await page.locator('.ProseMirror').first().waitFor()
-  return page
-}
+const openStory = (role: 'fact-checker' | 'reporter') => openInvestigationAs(browser, newsroom, role, story.id)
 
 describe('a fact-checker locks a claim', () => {
   it('keeps the locked passage as it was when the reporter tries to change it, and saves the rest', async () => {

@@ -47,7 +47,7 @@ beforeAll(async () => {
     kind: 'analysis', settings: { datasetId, column: F.hyperlink, test: 'duplicates', sign: 'negative' },
   })
   expect(analysis.status, JSON.stringify(analysis.body)).toBe(201)
-  const review = await newsroom['data-editor'].post(`/api/blocks/${analysis.body.id}/review`, { decision: 'changes-requested', note: NOTE })
+  const review = await newsroom['data-editor'].post(`/api/blocks/${analysis.body.id}/review`, { decision: 'sent-back', note: NOTE })
   expect(review.status).toBe(200)
 })
 afterAll(async () => {

@@ -16,7 +16,13 @@ beforeAll(async () => {
   const me = await editor.get('/api/me')
   const list = await editor.get(`/api/investigations?newsroomId=${me.body.memberships[0].newsroomId}`)
   const story = list.body.find((i: { title: string }) => i.title.startsWith('Invoices that stop'))
-  const published = await editor.post(`/api/investigations/${story.id}/publish`, { reason: 'Browser test of the public page.' })
+  // The demo holds a disputed claim: publishing it as written is its own decision.
+  const panel = await editor.get(`/api/investigations/${story.id}/publishing`)
+  const disputed = panel.body.blockers.filter((b: { kind: string }) => b.kind === 'disputed-claim').map((b: { id: string }) => b.id)
+  const published = await editor.post(`/api/investigations/${story.id}/publish`, {
+    reason: 'Browser test of the public page.',
+    ...(disputed.length ? { disputed: { claimIds: disputed, reason: 'Browser test of the public page.' } } : {}),
+  })
   expect(published.status).toBe(201)
   publicUrl = published.body.url.replace(/^https?:\/\/[^/]+/, baseUrl)
 })

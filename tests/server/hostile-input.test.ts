@@ -11,17 +11,35 @@ import {
 } from '../support/datasets'
 import type { UploadBody } from '../support/datasets'
 import { createTestNewsroom } from '../support/newsroom'
+import { serverPeakGrowthDuring, unhandledErrorsLogged } from '../support/server-process'
 import type { TestNewsroom } from '../support/newsroom'
 import { postClaim, uploadPayments, writeStory } from '../support/stories'
 import { ROUTE_CASES } from '../fixtures/hostile/routes'
 import type { RouteCase, RouteContext } from '../fixtures/hostile/routes'
 import { UPLOAD_CASES } from '../fixtures/hostile/uploads'
+import { MEGABYTE } from '../fixtures/hostile/generated'
 import type { Refused, Stored, UploadCase } from '../fixtures/hostile/uploads'
 
 // Issue 8: every hostile input gets a clear 4xx or is stored and shown harmlessly; none gets a
 // 500; nothing half-written remains; the database's tables are intact afterwards.
 
 const FILES = join(process.cwd(), 'tests', 'fixtures', 'hostile', 'files')
+
+/**
+ * How far one upload may raise the server's resident memory above where it stood (README, "Limits on uploads"):
+ * a stored file streams through, and a crafted one is refused before it is held.
+ */
+const UPLOAD_MEMORY_BOUND = 400 * MEGABYTE
+
+/** Sends an upload and checks the server's memory stayed within the bound while it was answered. */
+async function sendWithinMemory(client: Client, newsroomId: string, item: UploadCase, body: UploadBody): Promise<Reply> {
+  let reply: Reply | undefined
+  const growth = await serverPeakGrowthDuring(async () => {
+    reply = await send(client, newsroomId, item, body)
+  })
+  expect(growth, `server memory grew by ${Math.round(growth / MEGABYTE)} MB`).toBeLessThan(UPLOAD_MEMORY_BOUND)
+  return reply!
+}
 
 /** Every refused upload goes to this newsroom, so it must never hold a dataset. */
 let refusedDesk: TestNewsroom
@@ -100,7 +118,7 @@ async function expectNothingKept(sha256: string | null, inFlight: string[]) {
 async function expectRefused(item: UploadCase, expected: Refused) {
   const body = await bodyOf(item)
   const sha256 = item.send ? null : body instanceof Uint8Array ? sha256Of(body) : await sha256OfFile(body.path)
-  const reply = await send(refusedDesk.reporter, refusedDesk.id, item, body)
+  const reply = await sendWithinMemory(refusedDesk.reporter, refusedDesk.id, item, body)
   const inFlight = await incomingFiles()
   expectClearRefusal(reply, expected)
   await expectNothingKept(sha256, inFlight)
@@ -123,7 +141,7 @@ async function expectTestsAnswer(client: Client, datasetId: string, column: Colu
 
 async function expectStored(item: UploadCase, expected: Stored) {
   const client = storedDesk.reporter
-  const reply = await send(client, storedDesk.id, item, await bodyOf(item))
+  const reply = await sendWithinMemory(client, storedDesk.id, item, await bodyOf(item))
   expect(reply.status, JSON.stringify(reply.body).slice(0, 500)).toBe(201)
   const dataset = (await client.get(`/api/datasets/${reply.body.id}`)).body
   expect(dataset).toMatchObject({ status: 'ready', error: null, ...expected.dataset })
@@ -198,5 +216,9 @@ describe('afterwards', () => {
       expect((await sql(`SELECT count(*)::int AS n FROM ${table}`)).rows[0].n, table).toBeGreaterThan(0)
     }
     expect(await orphanPartitionTables()).toEqual([])
+  })
+
+  it('left no error unhandled in the server (none logged while the hostile input was answered)', async () => {
+    expect(await unhandledErrorsLogged()).toEqual([])
   })
 })

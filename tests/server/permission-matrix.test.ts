@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { PASSWORD } from '../support/newsroom'
 import {
-  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation,
+  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation, freshWorkbook,
   freshInvitation, freshMarkedPassage, freshMember, freshProseBlock, freshRemovedBlock, freshShareLink,
   freshVerifiedClaim, matrixTable, openMatrixDesk, runRow, uploadProbe,
 } from '../support/permission-matrix'
@@ -103,6 +103,12 @@ const ROWS: Row[] = [
     send: (client, _t, desk) => client.get(`/api/newsrooms/${desk.newsroom.id}`),
   },
   {
+    route: 'PATCH /api/newsrooms/[id]',
+    expected: allowOnly(ADMINS, 200),
+    why: 'The newsroom\'s settings (four eyes) are the admin\'s, like its members; sending the current value changes nothing for the other rows.',
+    send: (client, _t, desk) => client.patch(`/api/newsrooms/${desk.newsroom.id}`, { fourEyes: true }),
+  },
+  {
     route: 'GET /api/newsrooms/[id]/members',
     expected: allowOnly(MEMBERS, 200),
     why: 'Every member sees who is on the desk: their names stand on reviews, locks and the audit trail.',
@@ -181,6 +187,13 @@ const ROWS: Row[] = [
     send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/rows?column=amount&key=1`),
   },
   {
+    route: 'POST /api/datasets/[id]/sheets',
+    expected: allowOnly(CREATORS, 201),
+    why: 'Reading another sheet of a stored workbook makes a new dataset, as an upload does.',
+    target: freshWorkbook,
+    send: (client, workbook) => client.post(`/api/datasets/${workbook.id}/sheets`, { sheet: '2024' }),
+  },
+  {
     route: 'POST /api/datasets/[id]/archive',
     expected: allowOnly(WRITERS, 200),
     why: 'docs/product-rules.md does not name it: a reporter puts away what they uploaded, a data editor anyone\'s (all a reporter does, newsroom-wide); a fact-checker only reads.',
@@ -255,7 +268,7 @@ const ROWS: Row[] = [
   {
     route: 'GET /api/investigations/[id]/publishing',
     expected: allowOnly(MEMBERS, 200),
-    why: 'What still blocks publication and the links made so far (never their tokens): part of reading the investigation.',
+    why: 'What still blocks publication, who did each check and the links made so far: part of reading the investigation. Only members who may publish get the links\' addresses (publishing-integrity.test.ts).',
     send: (client, _t, desk) => client.get(`/api/investigations/${desk.story.id}/publishing`),
   },
   {
@@ -322,6 +335,14 @@ const ROWS: Row[] = [
     fresh: true,
     target: freshClaim,
     send: (client, claim, desk) => client.patch(`/api/claims/${claim.id}`, { supportingBlockIds: [desk.story.analysisBlockId] }),
+  },
+  {
+    route: 'DELETE /api/claims/[id]',
+    expected: allowOnly(WRITERS, 200),
+    why: 'Unmarking an open claim undoes marking it, so it goes with marking; a disputed claim needs a data editor and a reason (claims-lifecycle.test.ts).',
+    fresh: true,
+    target: freshClaim,
+    send: (client, claim) => client.delete(`/api/claims/${claim.id}`),
   },
   {
     route: 'POST /api/claims/[id]/verify',

@@ -100,18 +100,18 @@ describe('the public link', () => {
     expect(JSON.stringify((await new Client().get(`/api/public/${tokenOf(first.body.url)}`)).body.blocks)).not.toContain('added after publication')
   })
 
-  it('answers 404 once revoked or expired, and for unknown tokens', async () => {
+  it('answers 410 once revoked or expired (the issue: a withdrawn link says so), and 404 for unknown tokens', async () => {
     const { newsroom, story } = await draft()
     await clear(newsroom, story)
     const revoked = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, {})
     expect((await new Client().get(`/api/public/${tokenOf(revoked.body.url)}`)).status).toBe(200)
     expectStatus(await newsroom['data-editor'].post(`/api/share-links/${revoked.body.link.id}/revoke`), 200)
-    expect((await new Client().get(`/api/public/${tokenOf(revoked.body.url)}`)).status).toBe(404)
+    expect((await new Client().get(`/api/public/${tokenOf(revoked.body.url)}`)).status).toBe(410)
 
     const expiring = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { expiresAt: new Date(Date.now() + 3600_000).toISOString() })
     expect((await new Client().get(`/api/public/${tokenOf(expiring.body.url)}`)).status).toBe(200)
     await sql(`UPDATE share_links SET expires_at = now() - interval '1 second' WHERE id = $1`, [expiring.body.link.id])
-    expect((await new Client().get(`/api/public/${tokenOf(expiring.body.url)}`)).status).toBe(404)
+    expect((await new Client().get(`/api/public/${tokenOf(expiring.body.url)}`)).status).toBe(410)
 
     expect((await new Client().get(`/api/public/${'x'.repeat(43)}`)).status).toBe(404)
     const audit = await newsroom.admin.get(`/api/investigations/${story.id}/audit`)

@@ -16,7 +16,7 @@ async function deskWithStory(label: string): Promise<{ newsroom: TestNewsroom, s
 }
 
 const sendBack = (newsroom: TestNewsroom, story: Story, note: string) =>
-  newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'changes-requested', note })
+  newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back', note })
 const dispute = (newsroom: TestNewsroom, story: Story, note: string) =>
   newsroom['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note })
 
@@ -76,7 +76,7 @@ describe('e-mail notices', () => {
       const mail = await waitForMail(newsroom.emails[role], `Published: ${story.title}`)
       expect(mail.text).toContain('The council confirmed the figures by phone.')
       expect(mail.text).toContain(`/investigations/${story.id}`)
-      // docs/product-rules.md: only the token's hash is stored; the link is shown once to the one who published.
+      // The e-mail never carries the public link: members who may publish find it under Publishing.
       expect(mail.text).not.toContain(token)
     }
     expect(await noticesAbout(newsroom.emails['data-editor'], story)).not.toContain(`Published: ${story.title}`)

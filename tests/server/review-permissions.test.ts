@@ -30,8 +30,8 @@ const rows: RoleCase[] = [
     action: 'send a method back',
     allowed: REVIEWERS,
     success: 200,
-    act: (client, story) => client.post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'changes-requested', note: 'Exclude the refunds first.' }),
-    effect: reply => expect(reply.body.review).toMatchObject({ status: 'changes-requested', note: 'Exclude the refunds first.' }),
+    act: (client, story) => client.post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back', note: 'Exclude the refunds first.' }),
+    effect: reply => expect(reply.body.review).toMatchObject({ status: 'sent-back', note: 'Exclude the refunds first.' }),
   },
   {
     action: 'change an analysis block\'s settings',

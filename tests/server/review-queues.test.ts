@@ -43,8 +43,8 @@ describe('the review queue', () => {
     expectStatus(await newsroom.reporter.post(`/api/investigations/${story.id}/review-request`), 200)
     const review = (decision: string, note?: string) => newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision, note })
 
-    expectStatus(await review('changes-requested', 'Say which year.'), 200)
-    expect(await reviewItem(newsroom['data-editor'], story)).toMatchObject({ status: 'changes-requested', note: 'Say which year.' })
+    expectStatus(await review('sent-back', 'Say which year.'), 200)
+    expect(await reviewItem(newsroom['data-editor'], story)).toMatchObject({ status: 'sent-back', note: 'Say which year.' })
 
     expectStatus(await review('approved'), 200)
     expectStatus(await newsroom.reporter.patch(`/api/blocks/${story.analysisBlockId}`, { version: 1, settings: { ...story.settings, test: 'first-two-digits' } }), 200)

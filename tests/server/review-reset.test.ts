@@ -14,7 +14,7 @@ beforeAll(async () => {
   datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
 })
 
-async function reviewed(decision: 'approved' | 'changes-requested'): Promise<Story> {
+async function reviewed(decision: 'approved' | 'sent-back'): Promise<Story> {
   const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
   const note = decision === 'approved' ? undefined : 'Group by supplier.'
   const reply = await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision, note })
@@ -38,7 +38,7 @@ describe('a review after the method changes', () => {
   })
 
   it('sends a block that was sent back to unreviewed too, once it is changed', async () => {
-    const story = await reviewed('changes-requested')
+    const story = await reviewed('sent-back')
     expectStatus(await saveBlock(newsroom.reporter, story, story.analysisBlockId, { settings: { ...story.settings, column: 'supplier', test: 'duplicates' } }), 200)
     expect((await reviewOf(story)).status).toBe('unreviewed')
   })
@@ -63,7 +63,7 @@ describe('a review after the method changes', () => {
   it('has no method to review on a prose block, and wants a note when sending back', async () => {
     const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
     expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.proseBlockId}/review`, { decision: 'approved' }), 400)
-    const noNote = await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'changes-requested' })
+    const noNote = await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back' })
     expectStatus(noNote, 400)
     expect(noNote.body.data[0].path).toBe('note')
     expect((await reviewOf(story)).status).toBe('unreviewed')

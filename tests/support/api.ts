@@ -47,8 +47,8 @@ export class Client {
     return this.request<T>('PATCH', path, body ?? {})
   }
 
-  delete<T = any>(path: string) {
-    return this.request<T>('DELETE', path)
+  delete<T = any>(path: string, body?: unknown) {
+    return this.request<T>('DELETE', path, body)
   }
 }
 

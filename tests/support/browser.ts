@@ -2,7 +2,10 @@ import { mkdirSync } from 'node:fs'
 import { join } from 'node:path'
 import { chromium } from 'playwright-core'
 import type { Browser, Page } from 'playwright-core'
+import type { Role } from '#shared/auth/roles'
 import { baseUrl } from './api'
+import { PASSWORD } from './newsroom'
+import type { TestNewsroom } from './newsroom'
 
 // Flags that keep Debian's Chromium quiet on a closed network (../shared/STACK.md).
 const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
@@ -49,4 +52,19 @@ export async function watchCspViolations(page: Page): Promise<() => Promise<stri
 export async function screenshot(page: Page, name: string) {
   mkdirSync(artifacts, { recursive: true })
   await page.screenshot({ path: join(artifacts, `${name}.png`), fullPage: true })
+}
+
+/**
+ * Signs in through the page as the test newsroom's member with `role` and opens the investigation
+ * `id`, in a fresh context of its own (with the clipboard allowed, for copy buttons).
+ */
+export async function openInvestigationAs(browser: Browser, newsroom: TestNewsroom, role: Role, id: string, width = 1400): Promise<Page> {
+  const context = await browser.newContext({ viewport: { width, height: 1000 } })
+  await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: baseUrl })
+  const page = await context.newPage()
+  await signInThroughPage(page, newsroom.emails[role], PASSWORD)
+  await page.waitForURL(/\/newsrooms\//)
+  await page.goto(`${baseUrl}/investigations/${id}`)
+  await page.locator('.ProseMirror').first().waitFor()
+  return page
 }

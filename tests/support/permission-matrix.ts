@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto'
+import ExcelJS from 'exceljs'
 import { expect } from 'vitest'
 import { Client } from './api'
 import type { Reply } from './api'
@@ -136,6 +137,16 @@ export async function freshInvestigation(desk: MatrixDesk) {
 /** A dataset the owner uploaded and no block uses. */
 export async function freshDataset(desk: MatrixDesk) {
   return { id: await uploadPayments(desk.as.owner, desk.newsroom.id) }
+}
+
+/** A workbook of two sheets the owner uploaded ("2023" read, "2024" left to choose). */
+export async function freshWorkbook(desk: MatrixDesk) {
+  const workbook = new ExcelJS.Workbook()
+  workbook.addWorksheet('2023').addRows([['payee', 'amount'], ['Matrix Probe Ltd', 125]])
+  workbook.addWorksheet('2024').addRows([['payee', 'amount'], ['Matrix Probe Ltd', 250]])
+  const reply = await upload(desk.as.owner, 'matrix-sheets.xlsx', new Uint8Array(await workbook.xlsx.writeBuffer()), { title: 'Matrix workbook' }, `?newsroomId=${desk.newsroom.id}`)
+  expectStatus(reply, 201)
+  return { id: reply.body.id as string }
 }
 
 /** A pending invitation to a new address: its id and token. */

@@ -8,9 +8,8 @@ import type { DatasetFormat } from '../../server/services/datasets/sniff'
 /** Every row a stored file gives, read as the import reads it (encoding and BOM found by sniff.ts). */
 async function rowsOf(format: DatasetFormat, bytes: Buffer) {
   const { encoding, bomLength } = format === 'xlsx' ? { encoding: 'utf-8' as const, bomLength: 0 } : detectEncoding(bytes)
-  // In 64 KB pieces, as a file stream hands them over.
-  const open = async (start: number) => Readable.from([bytes.subarray(start)])
-  const source = openRows(format, open, encoding, bomLength)
+  const open = async (start: number, end?: number) => Readable.from([bytes.subarray(start, end === undefined ? undefined : end + 1)])
+  const source = openRows(format, { open, byteSize: bytes.length, sheet: null }, encoding, bomLength)
   const rows: string[][] = []
   for await (const batch of source.rows) rows.push(...batch)
   return { rows, meta: source.meta, bytesRead: source.bytesRead() }

@@ -49,6 +49,7 @@ export async function describeDataset(dataset: Dataset): Promise<DatasetDTO> {
     ...summary(dataset, creator?.name ?? ''),
     newsroomId: dataset.newsroomId, sourceNote: dataset.sourceNote, sourceUrl: dataset.sourceUrl,
     obtainedOn: dataset.obtainedOn, sha256: dataset.sha256, format: dataset.format, encoding: dataset.encoding ?? null,
+    compression: dataset.compression ?? null, archiveEntry: dataset.archiveEntry ?? null, sheet: dataset.sheet ?? null, sheets: dataset.sheets ?? null,
     delimiter: dataset.delimiter ?? null, raggedRows: dataset.raggedRows, replacesId: dataset.replacesId,
     columns: await datasetColumns(dataset.id),
   }

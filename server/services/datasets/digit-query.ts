@@ -15,7 +15,7 @@ export interface DigitQuery {
   groupEquals: string | null
   /** Set when `group` yields codes that must be turned back into the column's text. */
   groupCodesOf: number | null
-  replacements: Record<string, unknown>
+  replacements: { datasetId: string } & Record<string, unknown>
 }
 
 /** The code of a text in a coded column, or NULL: compares one integer per record instead of joining the rows. */
@@ -38,7 +38,7 @@ export function buildDigitQuery(
 ): DigitQuery {
   const joins: string[] = []
   const conditions = ['d.dataset_id = :datasetId', 'd.column_pos = :columnPos']
-  const replacements: Record<string, unknown> = { datasetId, columnPos: tested.position }
+  const replacements: DigitQuery['replacements'] = { datasetId, columnPos: tested.position }
   let needsRows = false
   filters.forEach((filter, i) => {
     const column = columnByName(columns, filter.column, `filters.${i}.column`)
@@ -113,7 +113,10 @@ export function selectRows<T extends object>(
   return rawSelect<T>(sql, { ...query.replacements, ...replacements })
 }
 
-/** A SELECT with bound replacements, answering plain rows. */
-export function rawSelect<T extends object>(sql: string, replacements: Record<string, unknown>): Promise<T[]> {
-  return useDb().sequelize.query<T>(sql, { replacements, type: QueryTypes.SELECT })
+/**
+ * A SELECT over one dataset's data with bound replacements, answering plain rows; it may run on a
+ * read replica (datasetReader), so it never writes.
+ */
+export async function rawSelect<T extends object>(sql: string, replacements: { datasetId: string } & Record<string, unknown>): Promise<T[]> {
+  return (await datasetReader(replacements.datasetId)).query<T>(sql, { replacements, type: QueryTypes.SELECT })
 }

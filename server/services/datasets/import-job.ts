@@ -1,5 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { importDataset } from './import'
+import { importSlot } from './import-slots'
 import { dropPartitionsSql } from './partitions'
 import { UnreadableFile } from './sniff'
 import { INLINE_BYTES } from './upload'
@@ -50,6 +51,7 @@ async function markFailedWhenReachable(datasetId: string, reason: string): Promi
  * tries the job again from nothing.
  */
 export async function runImportJob(datasetId: string): Promise<void> {
+  const slot = await importSlot()
   try {
     await importDataset(datasetId)
   }
@@ -57,6 +59,9 @@ export async function runImportJob(datasetId: string): Promise<void> {
     const reason = error instanceof UnreadableFile ? error.message : INTERNAL
     if (!(error instanceof UnreadableFile)) console.error(`[import] ${datasetId}:`, error)
     await markFailedWhenReachable(datasetId, reason)
+  }
+  finally {
+    slot()
   }
 }
 
@@ -70,7 +75,8 @@ export async function failAbandonedImports(): Promise<string[]> {
   const abandoned = await sequelize.query<{ id: string }>(`
     SELECT d.id FROM datasets d
     WHERE d.status = 'importing' AND d.created_at < now() - interval '1 minute' AND CASE
-      WHEN d.byte_size > :inlineBytes THEN NOT EXISTS (
+      -- Queued: large files, and small ones that arrived while every import slot was taken.
+      WHEN d.byte_size > :inlineBytes OR EXISTS (SELECT 1 FROM pgboss.job j WHERE j.name = :queue AND j.data->>'datasetId' = d.id::text) THEN NOT EXISTS (
         SELECT 1 FROM pgboss.job j
         WHERE j.name = :queue AND j.data->>'datasetId' = d.id::text AND j.state IN ('created', 'retry', 'active'))
       ELSE d.created_at < now() - make_interval(mins => :minutes)

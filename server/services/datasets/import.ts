@@ -8,6 +8,7 @@ import { CopyStream } from './bulk-copy'
 import { DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS } from './copy-encoder'
 import { signCode, STATUS_CODES } from './digit-columns'
 import { CUBE_COLUMNS } from './digit-cube'
+import { inflatedHead, inflatedOpener } from './compressed'
 import { openRows } from './readers'
 import type { EncodedImport, TopValue } from './row-encoder'
 import { RowEncoderWorker } from './row-encoder-worker'
@@ -25,16 +26,33 @@ interface Connections {
   digits: PoolClient
 }
 
+/**
+ * Two connections for an import's two COPYs. After a failure they are closed, not pooled: a COPY
+ * cut off half-way can leave a connection in the middle of the protocol, and the next query sent
+ * on it made PostgreSQL log "protocol synchronization was lost".
+ */
 async function withConnections<T>(work: (c: Connections) => Promise<T>): Promise<T> {
   const manager = useDb().sequelize.connectionManager
   const rows = await manager.getConnection({ type: 'write' }) as PoolClient
-  const digits = await manager.getConnection({ type: 'write' }) as PoolClient
+  let digits: PoolClient
   try {
-    return await work({ rows, digits })
+    digits = await manager.getConnection({ type: 'write' }) as PoolClient
+  }
+  catch (error) {
+    manager.releaseConnection(rows)
+    throw error
+  }
+  let clean = false
+  try {
+    const result = await work({ rows, digits })
+    clean = true
+    return result
   }
   finally {
-    manager.releaseConnection(rows)
-    manager.releaseConnection(digits)
+    for (const connection of [rows, digits]) {
+      if (clean) manager.releaseConnection(connection)
+      else await manager.destroyConnection(connection).catch(() => {})
+    }
   }
 }
 
@@ -50,6 +68,9 @@ interface ImportJob {
   datasetId: string
   dataset: Dataset
   names: ReturnType<typeof partitionNames>
+  /** The stored bytes as uploaded, from `start` (to `end`, inclusive). */
+  openRaw: (start: number, end?: number) => Promise<Readable>
+  /** The table's bytes: inflated from the start when the upload was compressed, else the stored ones. */
   openStored: (start?: number) => Promise<Readable>
 }
 
@@ -76,7 +97,12 @@ export async function importDataset(datasetId: string): Promise<void> {
   const dataset = await useDb().models.Dataset.findByPk(datasetId)
   if (!dataset || dataset.status !== 'importing') return
   const files = useFileStore()
-  const job: ImportJob = { datasetId, dataset, names: partitionNames(datasetId), openStored: (start = 0) => files.open(dataset.storageKey, start) }
+  const openRaw = (start: number, end?: number) => files.open(dataset.storageKey, start, end)
+  // A compressed table is read inflating, from its start; anything else straight from the store.
+  const openStored = dataset.compression
+    ? inflatedOpener(openRaw, Number(dataset.byteSize), dataset.compression, dataset.archiveEntry, Number(useRuntimeConfig().uploadLimitBytes))
+    : (start = 0) => openRaw(start)
+  const job: ImportJob = { datasetId, dataset, names: partitionNames(datasetId), openRaw, openStored }
 
   // The encoding thread starts, the file's encoding is found and the tables are made side by side.
   const encoder = new RowEncoderWorker(datasetId)
@@ -107,8 +133,8 @@ export async function importDataset(datasetId: string): Promise<void> {
   }
 }
 
-async function detectFormatEncoding({ dataset, openStored }: ImportJob) {
-  const head = await buffer(await useFileStore().open(dataset.storageKey, 0, 64 * 1024 - 1))
+async function detectFormatEncoding({ dataset, openRaw, openStored }: ImportJob) {
+  const head = dataset.compression ? await inflatedHead(await openStored()) : await buffer(await openRaw(0, 64 * 1024 - 1))
   return dataset.format === 'xlsx' ? detectEncoding(head) : await detectFileEncoding(openStored, head)
 }
 
@@ -129,10 +155,11 @@ async function openCopies({ datasetId, names }: ImportJob, db: Connections): Pro
 
 /** Streams the file's rows through the encoding thread into both COPYs; returns what was learnt. */
 async function streamRows(
-  { datasetId, dataset, openStored }: ImportJob, encoder: RowEncoderWorker, [rowsOut, digitsOut]: [CopyStream, CopyStream],
+  { datasetId, dataset, openRaw, openStored }: ImportJob, encoder: RowEncoderWorker, [rowsOut, digitsOut]: [CopyStream, CopyStream],
   { encoding, bomLength }: { encoding: TextEncoding, bomLength: number },
 ): Promise<CopiedRows> {
-  const source = openRows(dataset.format as DatasetFormat, openStored, encoding, bomLength)
+  const stored = { open: dataset.format === 'xlsx' ? openRaw : openStored, byteSize: Number(dataset.byteSize), sheet: dataset.sheet }
+  const source = openRows(dataset.format as DatasetFormat, stored, encoding, bomLength)
   let width = -1
   let ragged = 0
   let lastProgress = Date.now()
@@ -159,7 +186,10 @@ async function streamRows(
       for (let c = 0; c < width; c++) cells.push(raw[c] ?? '')
     }
     if (from === batch.length) continue
-    ahead.push(encoder.encode(cells, batch.length - from))
+    const encoding = encoder.encode(cells, batch.length - from)
+    // Awaited in order below; one that fails before its turn (the thread refused the header) must not go unhandled.
+    encoding.catch(() => {})
+    ahead.push(encoding)
     if (ahead.length >= BATCHES_AHEAD) await send(await ahead.shift()!)
   }
   if (width < 0) throw new UnreadableFile('No readable columns: the file holds no rows at all.')
@@ -244,7 +274,7 @@ async function attach(job: ImportJob, db: Connections, { encoded, ragged, source
     })), { transaction })
     await ready.update({
       status: 'ready', progress: 1, rowCount: encoded.rowCount, raggedRows: ragged + meta.extraFields,
-      encoding, delimiter: meta.delimiter, readyAt: new Date(),
+      encoding, delimiter: meta.delimiter, sheets: meta.sheets, readyAt: new Date(),
     }, { transaction })
     await recordAudit({
       newsroomId: ready.newsroomId, actorId: ready.createdBy, action: 'dataset.imported',

@@ -3,17 +3,18 @@ import { StringDecoder } from 'node:string_decoder'
 import { pipeline } from 'node:stream/promises'
 import type { Readable } from 'node:stream'
 import Papa from 'papaparse'
-import ExcelJS from 'exceljs'
 import StreamArray from 'stream-json/streamers/StreamArray.js'
-import { decimalText, readNumber } from '#shared/digits'
 import { UnreadableFile } from './sniff'
+import { storable } from './storable-text'
+import { workbookRows } from './workbook'
+import type { RangeOpener } from './workbook'
 import type { DatasetFormat, TextEncoding } from './sniff'
 
 /** Rows of a file as text cells, header first, in batches; streams, never holds the file. */
 export interface RowSource {
   rows: AsyncIterable<string[][]>
-  /** Known once the first rows were read. */
-  meta: { delimiter: string | null, extraFields: number }
+  /** Known once the first rows were read; `sheets`: a workbook's sheets, in its order. */
+  meta: { delimiter: string | null, extraFields: number, sheets: string[] | null }
   /** How far into the file reading has come. */
   bytesRead: () => number
 }
@@ -21,15 +22,6 @@ export interface RowSource {
 const PAUSE_AT = 2000
 const PIECE = 1 << 16
 const JSON_HEADER_SAMPLE = 1000
-
-/**
- * PostgreSQL text holds neither NUL nor half of a surrogate pair (a JSON "\\ud800" escape): both
- * failed the import when they reached a column name or a sampled cell. NUL is dropped, a broken
- * pair becomes U+FFFD, as a text decoder does with broken bytes.
- */
-function storable(text: string): string {
-  return (text.includes('\0') ? text.replaceAll('\0', '') : text).toWellFormed()
-}
 
 /**
  * Node's StringDecoder reads UTF-8 and UTF-16LE about twice as fast as a streaming TextDecoder,
@@ -123,58 +115,6 @@ async function* delimitedRows(input: Readable, format: 'csv' | 'tsv', meta: RowS
     })
     wake = null
   }
-}
-
-/** A number's plain decimal text: String(1e21) would give "1e+21". */
-function numberText(value: number): string {
-  const read = readNumber(value)
-  return read.status === 'number' || read.status === 'zero' ? decimalText(read) : String(value)
-}
-
-/**
- * Excel works to 15 significant digits and shows no more; the 17 a workbook stores are binary
- * leftovers of its arithmetic (1.1 * 100 is kept as 110.00000000000001), not the figure.
- */
-const EXCEL_DIGITS = 15
-
-function excelCellText(value: ExcelJS.CellValue): string {
-  if (value === null || value === undefined) return ''
-  if (typeof value === 'number') return numberText(Number(value.toPrecision(EXCEL_DIGITS)))
-  if (typeof value === 'string') return storable(value)
-  if (typeof value === 'boolean') return value ? 'TRUE' : 'FALSE'
-  if (value instanceof Date) return value.toISOString().replace(/T00:00:00\.000Z$/, '')
-  if ('richText' in value) return storable(value.richText.map(part => part.text).join(''))
-  if ('result' in value && value.result !== undefined) return excelCellText(value.result as ExcelJS.CellValue)
-  // A formula whose value was never saved (scripts write such workbooks): shown as the formula, so
-  // the cell counts as unreadable instead of passing for a blank.
-  if ('formula' in value && value.formula) return storable(`=${value.formula}`)
-  if ('text' in value) return storable(String(value.text))
-  if ('error' in value) return String(value.error)
-  return ''
-}
-
-const DAMAGED_WORKBOOK = 'This workbook cannot be read: it is damaged, cut off, or not an Excel .xlsx file. Open it in the spreadsheet program and save it again as .xlsx, or export the sheet as CSV.'
-
-async function* workbookRows(input: Readable) {
-  const reader = new ExcelJS.stream.xlsx.WorkbookReader(input, { sharedStrings: 'cache', hyperlinks: 'ignore', styles: 'cache', worksheets: 'emit' })
-  try {
-    // The first worksheet holds the data; a workbook with several sheets is read from its first one.
-    for await (const worksheet of reader) {
-      for await (const row of worksheet as AsyncIterable<ExcelJS.Row>) {
-        const values = row.values as ExcelJS.CellValue[]
-        const cells: string[] = []
-        for (let i = 1; i < values.length; i++) cells.push(excelCellText(values[i]))
-        yield cells
-      }
-      return
-    }
-  }
-  catch (error) {
-    // A zip that is no workbook, or a workbook cut off, fails inside the unzipping.
-    if (error instanceof UnreadableFile) throw error
-    throw new UnreadableFile(DAMAGED_WORKBOOK)
-  }
-  throw new UnreadableFile('This .xlsx file holds no worksheet. Save the sheet with the data as .xlsx again, or export it as CSV.')
 }
 
 /** stream-json's Assembler option, missing from its types: numbers arrive as the text the file wrote. */
@@ -281,10 +221,27 @@ async function* untilFailure<T>(file: Readable, rows: AsyncIterable<T>): AsyncIt
   }
 }
 
-/** Opens a stored file (`open` reads it from an offset) as rows of text cells, whatever its format. */
-export function openRows(format: DatasetFormat, open: (start: number) => Promise<Readable>, encoding: TextEncoding, bomLength: number): RowSource {
-  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0 }
+/** Where a stored file is read from: ranged reads of its bytes, its size, and for a workbook the sheet to read. */
+export interface StoredSource {
+  open: RangeOpener
+  byteSize: number
+  /** The sheet of a workbook; null reads the first visible one. */
+  sheet: string | null
+}
+
+/** Opens a stored file as rows of text cells, whatever its format. */
+export function openRows(format: DatasetFormat, stored: StoredSource, encoding: TextEncoding, bomLength: number): RowSource {
+  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0, sheets: null }
   let bytesRead = 0
+  if (format === 'xlsx') {
+    // The workbook reader makes ranged reads of its own (the archive's directory is at its end).
+    const rows = workbookRows(stored.open, stored.byteSize, stored.sheet, (bytes) => {
+      bytesRead += bytes
+    }, (sheets) => {
+      meta.sheets = sheets
+    })
+    return { rows, meta, bytesRead: () => bytesRead }
+  }
   const file = new Transform({
     highWaterMark: 1 << 20,
     transform(chunk: Buffer, _encoding, done) {
@@ -292,10 +249,8 @@ export function openRows(format: DatasetFormat, open: (start: number) => Promise
       done(null, chunk)
     },
   })
-  open(format === 'xlsx' ? 0 : bomLength).then(input => pipeline(input, file)).catch(error => file.destroy(error))
+  stored.open(bomLength).then(input => pipeline(input, file)).catch(error => file.destroy(error))
   const text = () => file.pipe(decoding(encoding, format !== 'json'))
-  const rows = format === 'xlsx'
-    ? inBatches(workbookRows(file))
-    : format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)
+  const rows = format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)
   return { rows: untilFailure(file, rows), meta, bytesRead: () => bytesRead }
 }

@@ -94,7 +94,7 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   const query = buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy)
   const bin = binCondition(request.test, request.key, request.threshold)
   let where = `${query.where} AND ${numbersOfSign(request.sign ?? 'positive')} AND ${bin.sql}`
-  const replacements: Record<string, unknown> = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
+  const replacements: typeof query.replacements = { ...query.replacements, ...bin.values, offset: (request.page - 1) * PAGE_SIZE }
   if (query.groupEquals && request.group !== undefined) {
     where += ` AND ${query.groupEquals}`
     replacements.group = query.groupCodesOf === null ? request.group : request.group.trim()

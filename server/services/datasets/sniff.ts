@@ -13,14 +13,24 @@ export class UnreadableFile extends Error {
   }
 }
 
-/** The format a file name promises; refuses names Mantissa cannot read. */
-export function formatFromName(name: string): DatasetFormat {
-  const extension = name.toLowerCase().match(/\.([a-z0-9]+)$/)?.[1] ?? ''
-  const format = EXTENSIONS[extension]
-  if (!format) {
-    throw new UnreadableFile(`Mantissa reads .csv, .tsv, .txt, .xlsx and .json files; "${extension ? `.${extension}` : 'no extension'}" is not one of them.`, 415)
+const READS = 'Mantissa reads .csv, .tsv, .txt, .xlsx and .json files, and tables gzipped (.csv.gz) or alone in a .zip'
+
+/**
+ * The format a file name promises, and how it is compressed: "ledger.csv.gz" is gzipped CSV, a
+ * .zip holds a table whose format its entry names (null here). Refuses names Mantissa cannot read.
+ */
+export function formatFromName(name: string): { format: DatasetFormat | null, compression: 'gzip' | 'zip' | null } {
+  const lower = name.toLowerCase()
+  const extension = lower.match(/\.([a-z0-9]+)$/)?.[1] ?? ''
+  if (extension === 'zip') return { format: null, compression: 'zip' }
+  if (extension === 'gz') {
+    const inner = EXTENSIONS[lower.slice(0, -3).match(/\.([a-z0-9]+)$/)?.[1] ?? '']
+    if (!inner || inner === 'xlsx') throw new UnreadableFile(`${READS}; "${name}" does not say which table it holds (name it like ledger.csv.gz).`, 415)
+    return { format: inner, compression: 'gzip' }
   }
-  return format
+  const format = EXTENSIONS[extension]
+  if (!format) throw new UnreadableFile(`${READS}; "${extension ? `.${extension}` : 'no extension'}" is not one of them.`, 415)
+  return { format, compression: null }
 }
 
 function startsWith(head: Uint8Array, bytes: number[]) {
@@ -103,6 +113,14 @@ function completeUpTo(bytes: Buffer): number {
     }
   }
   return bytes.length
+}
+
+/** Checks that a compressed file's first bytes are of its kind (gzip's or zip's signature). */
+export function checkCompressed(compression: 'gzip' | 'zip', head: Uint8Array) {
+  if (compression === 'gzip' && !startsWith(head, [0x1F, 0x8B])) throw new UnreadableFile('This file is named .gz but is not gzip-compressed. Upload the table itself, or compress it again.', 415)
+  if (compression === 'zip' && !startsWith(head, [0x50, 0x4B, 0x03, 0x04]) && !startsWith(head, [0x50, 0x4B, 0x05, 0x06])) {
+    throw new UnreadableFile('This file is named .zip but is not a zip archive. Upload the table itself, or compress it again.', 415)
+  }
 }
 
 /** Checks that the first bytes fit the promised format; a spreadsheet renamed .csv or a binary file is refused. */

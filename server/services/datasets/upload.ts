@@ -3,13 +3,17 @@ import type { H3Event } from 'h3'
 import { datasetUploadSchema } from '#shared/schemas/dataset'
 import type { Actor } from '../../utils/permissions'
 import { importDataset } from './import'
+import { importSlot } from './import-slots'
 import { queueImport } from '../../utils/jobs'
-import { UnreadableFile, checkContent, formatFromName } from './sniff'
+import { inflatedHead, inflatedOpener, tableInZip } from './compressed'
+import { UnreadableFile, checkCompressed, checkContent, formatFromName } from './sniff'
 import type { StoredFile } from '../../utils/file-drivers/store'
 import { TooLarge } from '../../utils/file-drivers/store'
 
 /** Files up to this size are imported while the upload waits, so errors come back as 4xx at once. */
 export const INLINE_BYTES = 8 * 1024 * 1024
+/** How long a small upload waits for an import slot before it is queued instead (answered 202). */
+const SLOT_WAIT_MS = 10_000
 
 interface Received {
   fields: Record<string, string>
@@ -66,10 +70,48 @@ function receive(event: H3Event, limit: number): Promise<Received> {
   })
 }
 
+/**
+ * The format of what was sent and the first bytes of its table: for a compressed file, of the
+ * table inside it (the zip's one table, found through its directory).
+ */
+async function whatWasSent(file: StoredFile & { originalName: string }) {
+  const named = formatFromName(file.originalName)
+  if (!named.compression) return { format: named.format!, compression: null, archiveEntry: null, head: file.head }
+  checkCompressed(named.compression, file.head)
+  const open = (start: number, end?: number) => useFileStore().open(file.key, start, end)
+  const inZip = named.compression === 'zip' ? await tableInZip(open, file.byteSize) : null
+  const table = inflatedOpener(open, file.byteSize, named.compression, inZip?.entry ?? null, Number(useRuntimeConfig().uploadLimitBytes))
+  return { format: inZip?.format ?? named.format!, compression: named.compression, archiveEntry: inZip?.entry ?? null, head: await inflatedHead(await table()) }
+}
+
 /** Removes an upload's stored bytes unless another dataset kept the same file. */
 async function discard(key: string) {
   const { Dataset } = useDb().models
   if (await Dataset.count({ where: { storageKey: key } }) === 0) await useFileStore().remove(key)
+}
+
+/**
+ * Imports a new dataset's stored file. A small file is imported while the request waits, so a bad
+ * one is refused at once (the dataset is removed and the error thrown); a large one, or one that
+ * finds this server's import slots taken for a while, goes to the queue.
+ */
+export async function startImport(datasetId: string, byteSize: number): Promise<{ id: string, status: string, queued: boolean }> {
+  const slot = byteSize > INLINE_BYTES ? null : await importSlot(SLOT_WAIT_MS)
+  if (!slot) {
+    await queueImport(datasetId)
+    return { id: datasetId, status: 'importing', queued: true }
+  }
+  try {
+    await importDataset(datasetId)
+  }
+  catch (error) {
+    await useDb().models.Dataset.destroy({ where: { id: datasetId } })
+    throw error
+  }
+  finally {
+    slot()
+  }
+  return { id: datasetId, status: 'ready', queued: false }
 }
 
 /**
@@ -90,8 +132,8 @@ export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id:
     const parsed = datasetUploadSchema.safeParse(fields)
     if (!parsed.success) throw fail(400, fieldErrors(parsed.error))
     if (file.byteSize === 0) throw fail(422, { message: 'The file is empty.' })
-    const format = formatFromName(file.originalName)
-    checkContent(format, file.head)
+    const { format, compression, archiveEntry, head } = await whatWasSent(file)
+    checkContent(format, head)
     if (parsed.data.replacesId) {
       const replaced = await models.Dataset.findOne({ where: { id: parsed.data.replacesId, newsroomId: actor.newsroomId } })
       if (!replaced) throw fail(400, [{ path: 'replacesId', message: 'The dataset this one replaces is not in your newsroom.' }])
@@ -99,21 +141,10 @@ export async function uploadDataset(event: H3Event, actor: Actor): Promise<{ id:
     const dataset = await models.Dataset.create({
       newsroomId: actor.newsroomId, title: parsed.data.title, sourceNote: parsed.data.sourceNote ?? null,
       sourceUrl: parsed.data.sourceUrl ?? null, obtainedOn: parsed.data.obtainedOn ?? null,
-      originalName: file.originalName, format, sha256: file.sha256, byteSize: file.byteSize,
+      originalName: file.originalName, format, compression, archiveEntry, sheet: parsed.data.sheet ?? null, sha256: file.sha256, byteSize: file.byteSize,
       storageKey: file.key, replacesId: parsed.data.replacesId ?? null, createdBy: actor.userId,
     })
-    if (file.byteSize > INLINE_BYTES) {
-      await queueImport(dataset.id)
-      return { id: dataset.id, status: 'importing', queued: true }
-    }
-    try {
-      await importDataset(dataset.id)
-    }
-    catch (error) {
-      await models.Dataset.destroy({ where: { id: dataset.id } })
-      throw error
-    }
-    return { id: dataset.id, status: 'ready', queued: false }
+    return await startImport(dataset.id, file.byteSize)
   }
   catch (error) {
     await discard(file.key)

@@ -68,7 +68,7 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   const reporter = actorOf(people, reporterId, 'reporter')
   const editor = actorOf(people, people.editorId, 'data-editor')
   const checker = actorOf(people, people.checkerId, 'fact-checker')
-  for (const [index, decision] of [[1, 'approved'], [3, 'approved'], [5, 'changes-requested']] as const) {
+  for (const [index, decision] of [[1, 'approved'], [3, 'approved'], [5, 'sent-back']] as const) {
     await decideReview(editor, blocks[index]!, investigation, decision, decision === 'approved' ? undefined : 'Give the band width in the text and show how many payments fall just over the limit, not only under it.')
   }
   const claimIn = (id: string) => blocks.find(b => b.kind === 'prose' && JSON.stringify(b.content).includes(id))!
@@ -79,7 +79,10 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   await verifyClaim(checker, verified)
   const { claim: disputed } = await findClaim(DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
-  const published = await publish(editor, investigation, { reason: 'Demo newsroom: published with checks still open, to show the public page.' })
+  const published = await publish(editor, investigation, {
+    reason: 'Demo newsroom: published with checks still open, to show the public page.',
+    disputed: { claimIds: [DEMO_CLAIMS.disputed.id], reason: 'Demo newsroom: the disputed passage is published to show that the public page does not mark it as verified.' },
+  })
   await models.Block.create({
     investigationId: investigation.id, kind: 'prose', position: blocks.length, content: DEMO_FOLLOW_UP, createdBy: reporterId, updatedBy: reporterId,
   })

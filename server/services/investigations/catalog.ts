@@ -2,6 +2,7 @@ import type { Transaction } from 'sequelize'
 import type { BlockDTO, ClaimDTO, InvestigationDTO, InvestigationSummaryDTO, Stamp } from '#shared/types/investigation'
 import type { Block, Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
+import { attachedClaims } from './prose-claims'
 
 function summary(investigation: Investigation, names: Map<string, string>): InvestigationSummaryDTO {
   return {
@@ -19,7 +20,8 @@ export async function userNames(ids: (string | null | undefined)[]): Promise<Map
   return new Map(users.map(u => [u.id, u.name]))
 }
 
-function stamp(userId: string | null | undefined, at: Date | null | undefined, names: Map<string, string>): Stamp | null {
+/** Who did something and when, or null when it was not done. */
+export function stamp(userId: string | null | undefined, at: Date | null | undefined, names: Map<string, string>): Stamp | null {
   return userId && at ? { by: names.get(userId) ?? 'a former member', at: at.toISOString() } : null
 }
 
@@ -35,9 +37,10 @@ export function blockDTO(block: Block, names: Map<string, string>): BlockDTO {
   }
 }
 
-export function claimDTO(claim: Claim, names: Map<string, string>): ClaimDTO {
+/** `quote` is the passage's words as they stand now, when the caller has read them from the block. */
+export function claimDTO(claim: Claim, names: Map<string, string>, quote = claim.quote): ClaimDTO {
   return {
-    id: claim.id, blockId: claim.blockId, quote: claim.quote, supportingBlockIds: claim.supportingBlockIds,
+    id: claim.id, blockId: claim.blockId, quote, supportingBlockIds: claim.supportingBlockIds,
     status: claim.status, note: claim.note ?? null, createdBy: names.get(claim.createdBy) ?? '',
     decision: stamp(claim.decidedBy, claim.decidedAt, names),
   }
@@ -70,13 +73,12 @@ export async function describeInvestigation(investigation: Investigation): Promi
   const names = await userNames([
     investigation.createdBy, investigation.updatedBy, ...blocks.flatMap(blockPeople), ...claims.flatMap(c => [c.createdBy, c.decidedBy]),
   ])
-  const live = new Set(blocks.map(b => b.id))
   return {
     ...summary(investigation, names),
     newsroomId: investigation.newsroomId,
     layoutVersion: investigation.layoutVersion,
     blocks: blocks.map(b => blockDTO(b, names)),
-    claims: claims.filter(c => live.has(c.blockId)).map(c => claimDTO(c, names)),
+    claims: attachedClaims(claims, blocks).map(({ claim, quote }) => claimDTO(claim, names, quote)),
   }
 }
 

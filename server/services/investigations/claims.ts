@@ -4,7 +4,8 @@ import type { QueueItemDTO } from '#shared/types/investigation'
 import type { Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { claimDTO, findInvestigation, liveBlocks, userNames } from './catalog'
-import { claimText } from './prose-claims'
+import { assertFourEyes } from './four-eyes'
+import { attachedClaims, claimText } from './prose-claims'
 
 /** The claim behind an id with its investigation, for the permission check; 404 when missing. */
 export async function findClaim(id: string): Promise<{ claim: Claim, investigation: Investigation }> {
@@ -46,8 +47,15 @@ export async function createClaim(actor: Actor, investigation: Investigation, in
   return describeClaim(claim)
 }
 
+/** A claim whose words were deleted is out of every list; a late request about it gets 409. */
+async function assertPassage(claim: Claim) {
+  const block = await useDb().models.Block.findByPk(claim.blockId, { attributes: ['id', 'content', 'deletedAt'] })
+  if (!block || !attachedClaims([claim], [block]).length) throw fail(409, { message: 'The marked passage is no longer in the text.' })
+}
+
 export async function updateClaimSupport(actor: Actor, claim: Claim, supportingBlockIds: string[]) {
   if (claim.status === 'verified') throw fail(423, { message: 'This claim is verified and locked; its sources cannot change until a data editor lifts the lock.' })
+  await assertPassage(claim)
   await checkSupport(claim.investigationId, supportingBlockIds)
   await claim.update({ supportingBlockIds })
   return describeClaim(claim)
@@ -61,6 +69,7 @@ export async function verifyClaim(actor: Actor, claim: Claim) {
     const block = await models.Block.findByPk(claim.blockId, { transaction, lock: transaction.LOCK.UPDATE })
     const quote = claimText(block?.content, claim.id)
     if (!block || block.deletedAt || !quote.trim()) throw fail(409, { message: 'The marked passage is no longer in the text; it cannot be verified.' })
+    await assertFourEyes(actor, [claim.createdBy, block.createdBy, block.updatedBy], 'claim', transaction)
     const now = new Date()
     await claim.update({ status: 'verified', quote, note: null, decidedBy: actor.userId, decidedAt: now }, { transaction })
     await models.Block.update({ lockedBy: actor.userId, lockedAt: now }, {
@@ -73,6 +82,7 @@ export async function verifyClaim(actor: Actor, claim: Claim) {
 
 export async function disputeClaim(actor: Actor, claim: Claim, investigation: Investigation, note: string) {
   if (claim.status === 'verified') throw fail(423, { message: 'This claim is verified and locked. A data editor must lift the lock before it can be disputed.' })
+  await assertPassage(claim)
   await useDb().sequelize.transaction(async (transaction) => {
     await claim.update({ status: 'disputed', note, decidedBy: actor.userId, decidedAt: new Date() }, { transaction })
     await audit(actor, claim, 'claim.disputed', { note }, transaction)
@@ -116,12 +126,12 @@ export async function factCheckQueue(newsroomId: string): Promise<QueueItemDTO[]
     where: { investigationId: { [Op.in]: [...byId.keys()] }, status: { [Op.in]: ['open', 'disputed'] } },
     order: [['createdAt', 'ASC']],
   })
-  const live = new Set((await models.Block.findAll({ where: { id: { [Op.in]: claims.map(c => c.blockId) }, deletedAt: null }, attributes: ['id'] })).map(b => b.id))
-  return claims.filter(c => live.has(c.blockId)).map(claim => ({
+  const blocks = await models.Block.findAll({ where: { id: { [Op.in]: claims.map(c => c.blockId) }, deletedAt: null }, attributes: ['id', 'content'] })
+  return attachedClaims(claims, blocks).map(({ claim, quote }) => ({
     investigationId: claim.investigationId,
     investigationTitle: byId.get(claim.investigationId)!.title,
     blockId: claim.blockId,
-    label: claim.quote,
+    label: quote,
     status: claim.status,
     note: claim.note ?? null,
   }))

@@ -5,6 +5,7 @@ import type { Block, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { lockBlockForChange } from './blocks'
 import { describeBlock, describeInvestigation } from './catalog'
+import { assertFourEyes } from './four-eyes'
 
 /** The reporter asks the desk to review the method of every analysis block. */
 export async function requestReview(actor: Actor, investigation: Investigation) {
@@ -26,12 +27,13 @@ export async function requestReview(actor: Actor, investigation: Investigation) 
  * the decision holds only for the settings the editor saw: a block saved since answers 409 with
  * the block as it now is, so nobody approves settings they never read.
  */
-export async function decideReview(actor: Actor, block: Block, investigation: Investigation, decision: 'approved' | 'changes-requested', note?: string, version?: number) {
+export async function decideReview(actor: Actor, block: Block, investigation: Investigation, decision: 'approved' | 'sent-back', note?: string, version?: number) {
   if (block.kind !== 'analysis') throw fail(400, [{ path: 'decision', message: 'Only analysis blocks have a method to review.' }])
   const { sequelize } = useDb()
   const outcome = await sequelize.transaction(async (transaction) => {
     const current = await lockBlockForChange(block, transaction)
     if (version !== undefined && current.version !== version) return { stale: true, block: current }
+    if (decision === 'approved') await assertFourEyes(actor, [current.createdBy, current.updatedBy], 'method', transaction)
     await current.update({ reviewStatus: decision, reviewNote: note ?? null, reviewedBy: actor.userId, reviewedAt: new Date() }, { transaction })
     await recordAudit({
       newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
@@ -44,7 +46,7 @@ export async function decideReview(actor: Actor, block: Block, investigation: In
     throw fail(409, { message: 'The block was changed after you opened it. Read its settings again before deciding.', current: await describeBlock(outcome.block) })
   }
   const decided = outcome.block
-  if (decision === 'changes-requested') {
+  if (decision === 'sent-back') {
     await notifyUsers([investigation.createdBy], {
       subject: `Method sent back: ${investigation.title}`,
       lines: [`${actor.name} sent back an analysis block (${decided.settings?.test ? TEST_LABELS[decided.settings.test] : 'analysis'}) in “${investigation.title}”.`, `Their note: ${note}`],

@@ -1,35 +1,70 @@
+import { randomUUID } from 'node:crypto'
 import { Op } from 'sequelize'
+import { can } from '#shared/auth/permissions'
 import { summarize } from '#shared/charts/summary'
 import { TEST_LABELS } from '#shared/charts/labels'
 import { methodologyAppendix } from '#shared/methodology/appendix'
-import type { DatasetFingerprint, PublishBlockerDTO, PublishedBlock, PublishedSnapshot, PublishOutcomeDTO, ShareLinkDTO } from '#shared/types/publication'
-import type { Investigation, ShareLink } from '../../models'
+import type { z } from 'zod'
+import type { publishSchema } from '#shared/schemas/investigation'
+import type { DatasetFingerprint, PublishBlockerDTO, PublishCheckDTO, PublishedBlock, PublishedChecks, PublishedSnapshot, PublishingDTO, PublishOutcomeDTO, ShareLinkDTO } from '#shared/types/publication'
+import type { Block, Claim, Investigation, Publication, ShareLink } from '../../models'
+import type { FieldError } from '../../utils/errors'
 import type { Actor } from '../../utils/permissions'
-import { liveBlocks, userNames } from '../investigations/catalog'
+import { liveBlocks, stamp, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
+import { attachedClaims, filterClaimMarks } from '../investigations/prose-claims'
 
-/** What stands between the investigation and a clean publication: unapproved methods, unverified claims. */
-export async function publishBlockers(investigation: Investigation): Promise<PublishBlockerDTO[]> {
+/** The investigation's live blocks and the claims still attached to their words: what every check reads. */
+interface CheckState {
+  blocks: Block[]
+  claims: { claim: Claim, quote: string }[]
+}
+
+async function checkState(investigation: Investigation): Promise<CheckState> {
   const blocks = await liveBlocks(investigation.id)
-  const live = new Set(blocks.map(b => b.id))
-  const claims = await useDb().models.Claim.findAll({ where: { investigationId: investigation.id, status: { [Op.ne]: 'verified' } } })
+  const claims = await useDb().models.Claim.findAll({ where: { investigationId: investigation.id }, order: [['createdAt', 'ASC']] })
+  return { blocks, claims: attachedClaims(claims, blocks) }
+}
+
+const analysisBlocks = (state: CheckState) => state.blocks.filter(b => b.kind === 'analysis')
+const methodLabel = (b: Block) => `${b.settings?.test ? TEST_LABELS[b.settings.test] : 'Analysis'}${b.settings?.column ? ` of “${b.settings.column}”` : ''}`
+const quoteLabel = (quote: string) => `“${quote.length > 100 ? `${quote.slice(0, 100)}…` : quote}”`
+
+/** What stands between the investigation and a clean publication: unapproved methods, unverified or disputed claims. */
+function blockersOf(state: CheckState): PublishBlockerDTO[] {
   return [
-    ...blocks.filter(b => b.kind === 'analysis' && b.reviewStatus !== 'approved').map(b => ({
-      kind: 'unreviewed-block' as const,
-      label: `${b.settings?.test ? TEST_LABELS[b.settings.test] : 'Analysis'}${b.settings?.column ? ` of “${b.settings.column}”` : ''}: method ${b.reviewStatus === 'changes-requested' ? 'sent back' : 'not approved'}`,
+    ...analysisBlocks(state).filter(b => b.reviewStatus !== 'approved').map(b => ({
+      kind: 'unreviewed-block' as const, id: b.id, label: `${methodLabel(b)}: method ${b.reviewStatus === 'sent-back' ? 'sent back' : 'not approved'}`,
     })),
-    ...claims.filter(c => live.has(c.blockId)).map(c => ({ kind: 'unverified-claim' as const, label: `“${c.quote.slice(0, 100)}”: ${c.status === 'disputed' ? 'disputed' : 'not verified'}` })),
+    ...state.claims.filter(({ claim }) => claim.status !== 'verified').map(({ claim, quote }) => ({
+      kind: claim.status === 'disputed' ? 'disputed-claim' as const : 'unverified-claim' as const,
+      id: claim.id, label: `${quoteLabel(quote)}: ${claim.status === 'disputed' ? 'disputed' : 'not verified'}`,
+    })),
   ]
 }
 
+/** The record of the checks as the public page states it: counts only, and whether four eyes held for each. */
+function publishedChecks(state: CheckState): PublishedChecks {
+  const methods = analysisBlocks(state)
+  const approved = methods.filter(b => b.reviewStatus === 'approved')
+  const verified = state.claims.filter(({ claim }) => claim.status === 'verified')
+  return {
+    methods: { approved: approved.length, total: methods.length },
+    claims: { verified: verified.length, disputed: state.claims.filter(({ claim }) => claim.status === 'disputed').length, total: state.claims.length },
+    independent: approved.every(b => b.reviewedBy !== b.createdBy) && verified.every(({ claim }) => claim.decidedBy !== claim.createdBy),
+  }
+}
+
 /** Freezes the investigation as it is now: text, results, summaries, dataset fingerprints, methodology. */
-async function snapshotOf(investigation: Investigation): Promise<PublishedSnapshot> {
+async function snapshotOf(investigation: Investigation, state: CheckState, followUpConfirmed: boolean): Promise<PublishedSnapshot> {
   const { models } = useDb()
-  const blocks = await liveBlocks(investigation.id)
+  // Only verified claims keep their marking: the public page marks nothing the record does not show as checked.
+  const verifiedClaims = state.claims.filter(({ claim }) => claim.status === 'verified').map(({ claim }) => claim.id)
+  const keep = new Set(verifiedClaims)
   const published: PublishedBlock[] = []
-  for (const block of blocks) {
+  for (const block of state.blocks) {
     if (block.kind === 'prose') {
-      published.push({ kind: 'prose', content: block.content ?? { type: 'doc', content: [] } })
+      published.push({ kind: 'prose', content: filterClaimMarks(block.content ?? { type: 'doc', content: [] }, id => keep.has(id)) })
       continue
     }
     const settings = block.settings ?? {}
@@ -39,73 +74,165 @@ async function snapshotOf(investigation: Investigation): Promise<PublishedSnapsh
     const result = outcome?.result ?? null
     published.push({ kind: 'analysis', settings, result, summary: result ? summarize(result) : 'This analysis was not run.' })
   }
-  const datasetIds = [...new Set(blocks.map(b => b.settings?.datasetId).filter((id): id is string => Boolean(id)))]
+  const datasetIds = [...new Set(state.blocks.map(b => b.settings?.datasetId).filter((id): id is string => Boolean(id)))]
   const datasets: DatasetFingerprint[] = (await models.Dataset.findAll({ where: { id: { [Op.in]: datasetIds } } })).map(d => ({
     id: d.id, title: d.title, sha256: d.sha256, rowCount: d.rowCount ?? null, obtainedOn: d.obtainedOn,
     sourceNote: d.sourceNote, sourceUrl: d.sourceUrl, originalName: d.originalName,
   }))
   const newsroom = await models.Newsroom.findByPk(investigation.newsroomId)
   const analyses = published.flatMap(b => (b.kind === 'analysis' ? [{ settings: b.settings, result: b.result }] : []))
+  const checks = publishedChecks(state)
   return {
     title: investigation.title,
     newsroom: newsroom?.name ?? '',
     publishedAt: new Date().toISOString(),
     blocks: published,
     datasets,
-    methodology: methodologyAppendix(investigation.title, analyses, datasets),
+    methodology: methodologyAppendix(investigation.title, analyses, datasets, { checks, followUpConfirmed }),
+    verifiedClaims,
+    checks,
   }
 }
 
-export function shareLinkDTO(link: ShareLink, publishedAt: Date, overrideReason: string | null, names: Map<string, string>): ShareLinkDTO {
-  return {
-    id: link.id, publicationId: link.publicationId, publishedAt: publishedAt.toISOString(), createdBy: names.get(link.createdBy) ?? '',
-    expiresAt: link.expiresAt?.toISOString() ?? null, revokedAt: link.revokedAt?.toISOString() ?? null, overrideReason,
-  }
+function linkState(link: ShareLink): ShareLinkDTO['state'] {
+  if (link.revokedAt) return 'withdrawn'
+  return link.expiresAt && link.expiresAt <= new Date() ? 'expired' : 'live'
 }
 
 /**
- * Publishes a frozen snapshot behind a new random link. Without every method approved and every
- * claim verified it needs a written reason, which the audit trail keeps with the blockers.
+ * A link as the publishing panel shows it. `showAddress` (members who may publish) adds the public
+ * address of a live link, derived again from the server secret; a stored hash that the derived
+ * token does not match (a link made before, or under another secret) is said to be lost, never
+ * shown wrong.
  */
-export async function publish(actor: Actor, investigation: Investigation, options: { reason?: string, expiresAt?: string }): Promise<PublishOutcomeDTO> {
-  const blockers = await publishBlockers(investigation)
-  if (blockers.length && !options.reason) {
-    throw fail(400, [{ path: 'reason', message: `${blockers.length} check${blockers.length === 1 ? ' is' : 's are'} not done. Finish them, or give the reason for publishing anyway.` }])
+export function shareLinkDTO(link: ShareLink, publication: Publication, names: Map<string, string>, showAddress: boolean): ShareLinkDTO {
+  const state = linkState(link)
+  const token = shareLinkToken(link.id)
+  const derivable = hashToken(token) === link.tokenHash
+  return {
+    id: link.id, publicationId: link.publicationId, publishedAt: publication.publishedAt.toISOString(), createdBy: names.get(link.createdBy) ?? '',
+    expiresAt: link.expiresAt?.toISOString() ?? null, revokedAt: link.revokedAt?.toISOString() ?? null, state,
+    url: showAddress && state === 'live' && derivable ? `${useRuntimeConfig().publicUrl}/p/${token}` : null,
+    addressLost: state === 'live' && !derivable,
+    overrideReason: publication.overrideReason, disputedReason: publication.disputedReason ?? null,
+    followUpConfirmedBy: publication.followUpConfirmedBy ? names.get(publication.followUpConfirmedBy) ?? 'a former member' : null,
   }
-  const snapshot = await snapshotOf(investigation)
-  const token = newToken()
+}
+
+type PublishOptions = z.output<typeof publishSchema>
+
+/** The decisions an open check needs: a reason for the general override, a decision of its own for disputed claims. */
+function assertDecisions(blockers: PublishBlockerDTO[], options: PublishOptions) {
+  const general = blockers.filter(b => b.kind !== 'disputed-claim')
+  const disputed = blockers.filter(b => b.kind === 'disputed-claim')
+  const errors: FieldError[] = []
+  if (general.length && !options.reason) {
+    errors.push({ path: 'reason', message: `${general.length} check${general.length === 1 ? ' is' : 's are'} not done. Finish them, or give the reason for publishing anyway.` })
+  }
+  if (disputed.length && !options.disputed) {
+    errors.push({ path: 'disputed', message: `${disputed.length === 1 ? 'A claim is' : `${disputed.length} claims are`} disputed. Publishing ${disputed.length === 1 ? 'it' : 'them'} as written needs its own decision: name the claims and say why.` })
+  }
+  else if (disputed.length && options.disputed) {
+    const named = new Set(options.disputed.claimIds)
+    if (disputed.some(b => !named.has(b.id))) errors.push({ path: 'disputed', message: 'A claim was disputed after you read the list: read it again and decide.' })
+  }
+  if (errors.length) throw fail(400, errors)
+}
+
+/**
+ * Publishes a frozen snapshot behind a new link. Without every method approved and every claim
+ * verified it needs a written reason; disputed claims need a decision of their own; the follow-up
+ * statement appears in the methodology only when the publisher confirms it. The audit trail keeps
+ * each decision with who made it.
+ */
+export async function publish(actor: Actor, investigation: Investigation, options: PublishOptions): Promise<PublishOutcomeDTO> {
+  const state = await checkState(investigation)
+  const blockers = blockersOf(state)
+  assertDecisions(blockers, options)
+  const general = blockers.filter(b => b.kind !== 'disputed-claim')
+  const disputed = state.claims.filter(({ claim }) => claim.status === 'disputed')
+  const followUpConfirmed = options.followUpConfirmed === true
+  const snapshot = await snapshotOf(investigation, state, followUpConfirmed)
+  const linkId = randomUUID()
+  const token = shareLinkToken(linkId)
   const { sequelize, models } = useDb()
   const { link, publication } = await sequelize.transaction(async (transaction) => {
     const publication = await models.Publication.create({
-      investigationId: investigation.id, snapshot, overrideReason: blockers.length ? options.reason! : null, publishedBy: actor.userId,
+      investigationId: investigation.id, snapshot, publishedBy: actor.userId,
+      overrideReason: general.length ? options.reason! : null,
+      disputedReason: disputed.length ? options.disputed!.reason : null,
+      followUpConfirmedBy: followUpConfirmed ? actor.userId : null,
     }, { transaction })
     const link = await models.ShareLink.create({
-      publicationId: publication.id, investigationId: investigation.id, tokenHash: hashToken(token),
+      id: linkId, publicationId: publication.id, investigationId: investigation.id, tokenHash: hashToken(token),
       expiresAt: options.expiresAt ? new Date(options.expiresAt) : null, createdBy: actor.userId,
     }, { transaction })
     await investigation.update({ status: 'published', updatedBy: actor.userId }, { transaction })
+    const entry = { newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId }
     await recordAudit({
-      newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId, action: 'investigation.published',
-      subjectType: 'publication', subjectId: publication.id,
-      detail: { title: investigation.title, reason: blockers.length ? options.reason : null, blockers: blockers.map(b => b.label), linkId: link.id, expiresAt: options.expiresAt ?? null },
+      ...entry, action: 'investigation.published', subjectType: 'publication', subjectId: publication.id,
+      detail: {
+        title: investigation.title, reason: general.length ? options.reason : null, blockers: blockers.map(b => b.label),
+        linkId: link.id, expiresAt: options.expiresAt ?? null, followUpConfirmed,
+      },
     }, transaction)
+    for (const { claim, quote } of disputed) {
+      await recordAudit({
+        ...entry, action: 'claim.published-disputed', subjectType: 'claim', subjectId: claim.id,
+        detail: { quote, note: claim.note ?? null, reason: options.disputed!.reason, publicationId: publication.id },
+      }, transaction)
+    }
+    if (followUpConfirmed) {
+      await recordAudit({ ...entry, action: 'publication.follow-up-confirmed', subjectType: 'publication', subjectId: publication.id }, transaction)
+    }
     return { link, publication }
   })
-  const url = `${useRuntimeConfig().publicUrl}/p/${token}`
+  const open = general.length + disputed.length
   await notifyUsers(await membersWithRoles(actor.newsroomId, ['admin', 'data-editor', 'fact-checker', 'reporter']), {
     subject: `Published: ${investigation.title}`,
-    lines: [`${actor.name} published “${investigation.title}”.${blockers.length ? ` They published with ${blockers.length} ${blockers.length === 1 ? 'check' : 'checks'} open, giving this reason: ${options.reason}` : ''}`, 'The public link is in the investigation, under Publishing.'],
+    lines: [
+      `${actor.name} published “${investigation.title}”.${general.length ? ` They published with ${open} ${open === 1 ? 'check' : 'checks'} open, giving this reason: ${options.reason}` : ''}`,
+      ...(disputed.length ? [`${disputed.length === 1 ? 'One claim was' : `${disputed.length} claims were`} published while disputed, for this reason: ${options.disputed!.reason}`] : []),
+      'Data editors and admins can open and copy the public link in the investigation, under Publishing.',
+    ],
     path: `/investigations/${investigation.id}`,
   }, actor.userId)
-  return { url, link: shareLinkDTO(link, publication.publishedAt, publication.overrideReason, await userNames([actor.userId])) }
+  const names = await userNames([actor.userId])
+  return { url: `${useRuntimeConfig().publicUrl}/p/${token}`, link: shareLinkDTO(link, publication, names, true) }
 }
 
-export async function listShareLinks(investigation: Investigation): Promise<ShareLinkDTO[]> {
+/** Every check with who made the thing checked and who checked it: the publishing panel's list. */
+function checksOf(state: CheckState, names: Map<string, string>): PublishCheckDTO[] {
+  return [
+    ...analysisBlocks(state).map(b => ({
+      kind: 'method' as const, id: b.id, label: methodLabel(b), status: b.reviewStatus,
+      author: names.get(b.createdBy) ?? 'a former member', decision: stamp(b.reviewedBy, b.reviewedAt, names),
+    })),
+    ...state.claims.map(({ claim, quote }) => ({
+      kind: 'claim' as const, id: claim.id, label: quoteLabel(quote), status: claim.status,
+      author: names.get(claim.createdBy) ?? 'a former member', decision: stamp(claim.decidedBy, claim.decidedAt, names),
+    })),
+  ]
+}
+
+/** The publishing panel: open checks, who did each check, the newsroom's four-eyes setting and the links. */
+export async function publishingPanel(actor: Actor, investigation: Investigation): Promise<PublishingDTO> {
   const { models } = useDb()
+  const state = await checkState(investigation)
   const links = await models.ShareLink.findAll({ where: { investigationId: investigation.id }, order: [['createdAt', 'DESC']] })
-  const publications = new Map((await models.Publication.findAll({ where: { investigationId: investigation.id }, attributes: ['id', 'publishedAt', 'overrideReason'] })).map(p => [p.id, p]))
-  const names = await userNames(links.map(l => l.createdBy))
-  return links.map(link => shareLinkDTO(link, publications.get(link.publicationId)!.publishedAt, publications.get(link.publicationId)!.overrideReason, names))
+  const publications = new Map((await models.Publication.findAll({ where: { investigationId: investigation.id } })).map(p => [p.id, p]))
+  const names = await userNames([
+    ...links.map(l => l.createdBy), ...[...publications.values()].map(p => p.followUpConfirmedBy),
+    ...state.blocks.flatMap(b => [b.createdBy, b.reviewedBy]), ...state.claims.flatMap(({ claim }) => [claim.createdBy, claim.decidedBy]),
+  ])
+  const newsroom = await models.Newsroom.findByPk(investigation.newsroomId, { attributes: ['fourEyes'] })
+  const showAddress = can(actor.role, 'investigation.publish')
+  return {
+    blockers: blockersOf(state),
+    checks: checksOf(state, names),
+    links: links.map(link => shareLinkDTO(link, publications.get(link.publicationId)!, names, showAddress)),
+    fourEyes: newsroom?.fourEyes ?? true,
+  }
 }
 
 export async function findShareLink(id: string): Promise<ShareLink> {
@@ -114,7 +241,7 @@ export async function findShareLink(id: string): Promise<ShareLink> {
   return link
 }
 
-/** Revokes a link: from then on it answers 404. */
+/** Withdraws a link: from then on it answers 410 with a page that says so. */
 export async function revokeShareLink(actor: Actor, link: ShareLink) {
   if (link.revokedAt) return
   const { sequelize, models } = useDb()
