@@ -39,7 +39,8 @@ export class ColumnProfile {
   private readonly looksByCode: number[] = []
   readonly bySign = { positive: new SignProfile(), negative: new SignProfile() }
 
-  constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null) {}
+  /** `told`: the kind a reporter gave the column, which the counts then no longer decide. */
+  constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null, readonly told: ColumnKind | null = null) {}
 
   private sample(cell: string) {
     if (this.samples.length < SAMPLES && !this.samples.includes(cell)) this.samples.push(clip(cell, 200))
@@ -103,6 +104,7 @@ export class ColumnProfile {
   }
 
   get kind(): ColumnKind {
+    if (this.told) return this.told
     const nonBlank = this.parsed + this.unreadable + this.textOnly
     const mostlyNumbers = this.numeric && this.parsed >= Math.max(1, 0.5 * nonBlank)
     if (!mostlyNumbers) {
