@@ -36,7 +36,7 @@ const TEXT_KINDS: ReadonlySet<ColumnKind> = new Set(['date', 'text'])
 /**
  * A column is tested as numbers when most of its sampled non-blank cells read as numbers, unless the
  * reporter said how to read it (`readings`, by column name): an amount or count is read as numbers,
- * a date or text as text, and their decimal mark, negatives and currency are theirs.
+ * a date or text as text, and a decimal mark, negatives or currency told make it numbers too.
  */
 function planColumns(names: string[], sample: string[][], readings: ColumnReadings) {
   return names.map((name, position) => {
@@ -56,7 +56,9 @@ function planColumns(names: string[], sample: string[][], readings: ColumnReadin
       if (status === 'number' || status === 'zero') numbers++
     }
     const detected = filled > 0 && numbers >= 0.6 * filled
-    const numeric = reading.kind ? NUMBER_KINDS.has(reading.kind) || (!TEXT_KINDS.has(reading.kind) && detected) : detected
+    // A decimal mark, a way of writing negatives or a currency, told, says the column holds numbers.
+    const toldNumbers = Boolean(reading.decimalMark || reading.negatives || reading.currency)
+    const numeric = reading.kind ? NUMBER_KINDS.has(reading.kind) || (!TEXT_KINDS.has(reading.kind) && (toldNumbers || detected)) : toldNumbers || detected
     return { style, dateOrder: reading.dateOrder ?? null, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null, reading.kind ?? null) }
   })
 }
