@@ -35,7 +35,7 @@ export function useDatasetCells(id: Ref<string>, fallback: Ref<CellChoice | null
     query: { ...route.query, ...changes, page: changes.page && changes.page > 1 ? String(changes.page) : undefined },
   })
   const downloadHref = computed(() => (choice.value
-    ? `/api/datasets/${id.value}/cells?${new URLSearchParams({ ...choice.value as Record<string, string>, format: 'csv' })}`
+    ? `/api/datasets/${id.value}/cells?${new URLSearchParams({ column: choice.value.column, status: choice.value.status, ...(choice.value.test ? { test: choice.value.test } : {}), format: 'csv' })}`
     : null))
   return { choice, page, cells: data, error, loading: computed(() => status.value === 'pending'), show, downloadHref }
 }
