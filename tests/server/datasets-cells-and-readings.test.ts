@@ -6,35 +6,12 @@ import { utf8 } from '../support/dataset-files'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { blockOf, expectStatus, saveBlock, writeStory } from '../support/stories'
+import { QUAY_LEDGER } from '../fixtures/datasets/quay-ledger'
 
 // Issue 19 and docs/product-rules.md ("Cell by cell", "Reading a column again"): the cells a test
 // leaves out are listed by row with the file's text; ragged rows keep their extra cells; a column read
 // again makes a new version and analysis blocks stay where they ran until moved.
-//
-// The hand-made ledger below (invented suppliers). Its data rows, numbered from 1 after the header:
-//   1 Northgate Paving,1840.00,03/02/2026        7 Northgate Paving,7.5,09/02/2026  (under 10)
-//   2 Quay Lighting,"93,19",04/02/2026  (comma)  8 Willow Drains,0,10/02/2026        (zero)
-//   3 Willow Drains,"1.337,69",05/02/2026        9 Alder Fencing,412.30,11/02/2026,late entry,see memo  (5 cells)
-//   4 Harbour Cranes,,06/02/2026        (blank)  10 Harbour Cranes,2210.00         (2 cells)
-//   5 Alder Fencing,n/a,07/02/2026               11 Quay Lighting,318.40,13/02/2026
-//   6 Quay Lighting,(250.00),08/02/2026 (negative)
-// Most amounts use a decimal point, so the import reads the column that way (the comma cells are
-// unreadable); read with a decimal comma, "93,19" is 93.19 and "1.337,69" is 1337.69 (1.337,69 is the
-// comma style of 1,337.69: docs/product-rules.md, "The analysis").
-const LEDGER = [
-  'supplier,amount,paid on',
-  'Northgate Paving,1840.00,03/02/2026',
-  'Quay Lighting,"93,19",04/02/2026',
-  'Willow Drains,"1.337,69",05/02/2026',
-  'Harbour Cranes,,06/02/2026',
-  'Alder Fencing,n/a,07/02/2026',
-  'Quay Lighting,(250.00),08/02/2026',
-  'Northgate Paving,7.5,09/02/2026',
-  'Willow Drains,0,10/02/2026',
-  'Alder Fencing,412.30,11/02/2026,late entry,see memo',
-  'Harbour Cranes,2210.00',
-  'Quay Lighting,318.40,13/02/2026',
-].join('\r\n') + '\r\n'
+// The hand-made ledger, row by row, is in tests/fixtures/datasets/quay-ledger.ts.
 
 let desk: TestNewsroom
 let other: TestNewsroom
@@ -50,7 +27,7 @@ const described = async (id: string): Promise<DatasetDTO> => (await desk.reporte
 beforeAll(async () => {
   desk = await createTestNewsroom('Cell by cell')
   other = await createTestNewsroom('Cell by cell, elsewhere')
-  const reply = await upload(desk.reporter, 'quay-ledger.csv', utf8(LEDGER), { title: 'Quay ledger' }, `?newsroomId=${desk.id}`)
+  const reply = await upload(desk.reporter, 'quay-ledger.csv', utf8(QUAY_LEDGER), { title: 'Quay ledger' }, `?newsroomId=${desk.id}`)
   expectStatus(reply, 201)
   first = reply.body.id
 })
