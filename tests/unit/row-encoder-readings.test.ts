@@ -28,7 +28,7 @@ function encode(readings = {}, ragged: [number, { cellCount: number, extra: stri
 describe('column readings told after an import', () => {
   it('reads a decimal comma, one way of writing negatives and a date order as told', () => {
     const { digits, encoded } = encode({ 'amount': { decimalMark: ',', negatives: 'parentheses' }, 'paid on': { dateOrder: 'mdy' } })
-    const field = (row: Buffer[], name: string) => row[DIGIT_COLUMNS.indexOf(name)]!
+    const field = (row: (Buffer | null)[], name: string) => row[DIGIT_COLUMNS.indexOf(name)]!
     const amounts = digits.filter(row => int2(field(row, 'column_pos')) === 1)
     expect(amounts.map(row => [int4(field(row, 'row_no')), int2(field(row, 'status')), numeric(field(row, 'value'))])).toEqual([
       // Values are stored as their exact decimal, without trailing zeros: (12,00) is -12.
