@@ -107,6 +107,8 @@ describe('reading a column again', () => {
     const version = await waitUntilSettled(desk.reporter, second) as DatasetDTO
     expect(version).toMatchObject({ sha256: before.sha256, byteSize: before.byteSize, title: 'Quay ledger', readingGroup: first, readingNo: 2, rowCount: 11 })
     expect(version.columnReadings).toEqual({ 'amount': { decimalMark: ',' }, 'paid on': { dateOrder: 'mdy' } })
+    // Told its decimal mark, the column holds amounts however few of its cells now read.
+    expect(version.columns.find(c => c.name === 'amount')).toMatchObject({ kind: 'amount', numeric: true, decimalMark: ',', parsed: 3, unreadable: 7 })
     const values = (await sql(`SELECT row_no, value::text FROM digit_records WHERE dataset_id = $1 AND column_pos = 1 AND status = 3 ORDER BY row_no`, [second])).rows
     expect(values).toEqual([{ row_no: 2, value: '93.19' }, { row_no: 3, value: '1337.69' }])
     // Read with a decimal comma, the cells written with a decimal point are the unreadable ones now.

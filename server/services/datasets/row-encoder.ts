@@ -59,7 +59,7 @@ function planColumns(names: string[], sample: string[][], readings: ColumnReadin
     // A decimal mark, a way of writing negatives or a currency, told, says the column holds numbers.
     const toldNumbers = Boolean(reading.decimalMark || reading.negatives || reading.currency)
     const numeric = reading.kind ? NUMBER_KINDS.has(reading.kind) || (!TEXT_KINDS.has(reading.kind) && (toldNumbers || detected)) : toldNumbers || detected
-    return { style, dateOrder: reading.dateOrder ?? null, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null, reading.kind ?? null) }
+    return { style, dateOrder: reading.dateOrder ?? null, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null, reading.kind ?? null, numeric && toldNumbers) }
   })
 }
 
