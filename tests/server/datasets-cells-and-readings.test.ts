@@ -142,6 +142,18 @@ describe('reading a column again', () => {
     expect(reply.body.data.map((e: { path: string }) => e.path).sort()).toEqual(['columns.amount.dateOrder', 'columns.no such column', 'columns.supplier.decimalMark'])
   })
 
+  it('keeps the later readings together when the first one is deleted', async () => {
+    const made = await upload(desk.reporter, 'spare-ledger.csv', utf8(QUAY_LEDGER), { title: 'Spare ledger' }, `?newsroomId=${desk.id}`)
+    expectStatus(made, 201)
+    const two = (await desk.reporter.post(`/api/datasets/${made.body.id}/readings`, { columns: { amount: { decimalMark: ',' } } })).body.id
+    const three = (await desk.reporter.post(`/api/datasets/${two}/readings`, { columns: { amount: { kind: 'text' } } })).body.id
+    expectStatus(await desk.reporter.delete(`/api/datasets/${made.body.id}`), 200)
+    for (const id of [two, three]) expect((await described(id)).readings.map(r => [r.id, r.readingNo])).toEqual([[two, 2], [three, 3]])
+    // A reading made after that is numbered after the last one still kept.
+    const four = await desk.reporter.post(`/api/datasets/${three}/readings`, { columns: { amount: { decimalMark: '.' } } })
+    expect(four.body.readingNo).toBe(4)
+  })
+
   it('lets a fact-checker read the versions but not make one (403)', async () => {
     expect((await desk['fact-checker'].post(`/api/datasets/${first}/readings`, { columns: { amount: { decimalMark: ',' } } })).status).toBe(403)
   })
