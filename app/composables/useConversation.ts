@@ -14,7 +14,7 @@ export function useConversation(id: Ref<string>) {
   }, { immediate: true })
   watch(() => route.hash, (hash) => {
     store.target = readAnchor(hash)
-    if (store.target) store.open = { ...store.open, [`${store.target.type}-${store.target.id}`]: true }
+    if (store.target) store.show(store.target.type, store.target.id)
   }, { immediate: true })
   return store
 }

@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia'
 import type { ConversationDTO, MessagePart, ThreadDTO, ThreadSubjectType } from '#shared/types/conversation'
+import { subjectAnchor } from '#shared/conversation/anchor'
 
 /**
  * The conversations of the open investigation: its threads, who may be mentioned, which threads
@@ -14,8 +15,8 @@ export const useConversationStore = defineStore('conversation', () => {
   const open = ref<Record<string, boolean>>({})
   const target = ref<{ type: ThreadSubjectType, id: string } | null>(null)
 
+  // `open` is kept across loads: its keys name subjects by id, so another investigation's never match here.
   function load(id: string, dto: ConversationDTO) {
-    if (investigationId.value !== id) open.value = {}
     investigationId.value = id
     threads.value = dto.threads
     members.value = dto.members
@@ -28,6 +29,11 @@ export const useConversationStore = defineStore('conversation', () => {
   }
 
   const threadOf = (type: ThreadSubjectType, id: string) => threads.value.find(t => t.subjectType === type && t.subjectId === id) ?? null
+
+  /** Draws a subject's conversation open. */
+  function show(type: ThreadSubjectType, id: string) {
+    open.value = { ...open.value, [subjectAnchor(type, id)]: true }
+  }
 
   async function refresh() {
     if (!investigationId.value) return
@@ -49,5 +55,5 @@ export const useConversationStore = defineStore('conversation', () => {
     put(await send<ThreadDTO>(`/api/threads/${threadId}/${resolved ? 'resolve' : 'reopen'}`, { method: 'POST' }))
   }
 
-  return { investigationId, threads, members, open, target, load, refresh, threadOf, write, setResolved }
+  return { investigationId, threads, members, open, target, load, show, refresh, threadOf, write, setResolved }
 })
