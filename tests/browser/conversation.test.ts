@@ -6,7 +6,7 @@ import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
 
-// Issue 20: a fact-checker disputes a claim; the reporter sees the count in the header, follows the
+// docs/product-rules.md ("Conversations and notifications"): a fact-checker disputes a claim; the reporter sees the count in the header, follows the
 // notification to the exact passage (the address carries it, so a reload lands there too) and
 // replies there, mentioning the fact-checker, at desktop (1366 px) and phone (390 px) width.
 

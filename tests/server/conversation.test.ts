@@ -6,8 +6,8 @@ import type { TestNewsroom } from '../support/newsroom'
 import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// Issue 20 ("Conversation", "Notifications in the app") and DESIGN.md ("Who does what": every member
-// reads the newsroom; the fact-checker comments; another newsroom's ids answer 404).
+// docs/product-rules.md ("Conversations and notifications"; "Who does what": every member reads the
+// newsroom; "Newsroom walls": another newsroom's ids answer 404, no session 401), from issue 20.
 
 type Role = 'admin' | 'data-editor' | 'fact-checker' | 'reporter'
 const text = (value: string) => ({ type: 'text', text: value })

@@ -342,7 +342,7 @@ const ROWS: Row[] = [
   {
     route: 'POST /api/investigations/[id]/threads',
     expected: allowOnly(MEMBERS, 201),
-    why: 'DESIGN.md: the fact-checker comments; every role that reads an investigation may write in its conversations.',
+    why: 'docs/product-rules.md ("Conversations and notifications"): every member who reads an investigation may write in its conversations.',
     send: (client, _t, desk) => client.post(`/api/investigations/${desk.story.id}/threads`, { subjectType: 'block', subjectId: desk.story.proseBlockId, parts: [{ type: 'text', text: 'The matrix asks about this paragraph.' }] }),
   },
   {

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { matchingMembers, mentionQuery, messageParts } from '#shared/conversation/message-parts'
 import { messageText } from '#shared/conversation/message-text'
 
-// Issue 20: a mention is stored as the member's id, not as text to read again. These cases are
+// docs/product-rules.md ("Conversations and notifications"): a mention is stored as the member's id, not as text to read again. These cases are
 // worked out by hand from the rule in message-parts.ts (no outside table applies to them).
 const ann = { userId: '00000000-0000-4000-8000-000000000001', name: 'Ann' }
 const annLee = { userId: '00000000-0000-4000-8000-000000000002', name: 'Ann Lee' }

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { listConversation } from '../../../services/conversation/threads'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { listConversation } from '#server/services/conversation/threads'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { threadStartSchema } from '#shared/schemas/conversation'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { startThread } from '../../../services/conversation/threads'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { startThread } from '#server/services/conversation/threads'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { notificationQuerySchema } from '#shared/schemas/conversation'
-import { listNotifications } from '../../../services/conversation/notifications'
+import { listNotifications } from '#server/services/conversation/notifications'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

@@ -1,5 +1,5 @@
 import { notificationReadSchema } from '#shared/schemas/conversation'
-import { markNotificationsRead } from '../../../services/conversation/notifications'
+import { markNotificationsRead } from '#server/services/conversation/notifications'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

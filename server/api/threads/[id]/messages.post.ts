@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { messageSchema } from '#shared/schemas/conversation'
-import { findThread, replyToThread } from '../../../services/conversation/threads'
+import { findThread, replyToThread } from '#server/services/conversation/threads'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findThread, setResolved } from '../../../services/conversation/threads'
+import { findThread, setResolved } from '#server/services/conversation/threads'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)
