@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/api'
 import { mailTo, waitForMail } from '../support/mail'
-import { createTestNewsroom } from '../support/newsroom'
+import { createTestNewsroom, PASSWORD, signedIn } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
@@ -273,5 +273,14 @@ describe('notifications in the app', () => {
     expectStatus(queue, 200)
     expect(queue.body.review.find((i: { blockId: string }) => i.blockId === fresh.analysisBlockId).anchor).toBe(`review-${fresh.analysisBlockId}`)
     expect(queue.body.factCheck.find((i: { investigationId: string }) => i.investigationId === fresh.id).anchor).toBe(`claim-${fresh.claimId}`)
+  })
+
+  it('shows nothing of a newsroom the member no longer belongs to', async () => {
+    expect((await notices(newsroom['fact-checker'])).items.length).toBeGreaterThan(0)
+    const members = await newsroom.admin.get(`/api/newsrooms/${newsroom.id}/members`)
+    const membership = members.body.find((m: { email: string }) => m.email === newsroom.emails['fact-checker'])
+    expectStatus(await newsroom.admin.delete(`/api/memberships/${membership.membershipId}`), 200)
+    const again = await signedIn(newsroom.emails['fact-checker'], PASSWORD)
+    expect(await notices(again)).toEqual({ unread: 0, items: [], next: null })
   })
 })
