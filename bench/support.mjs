@@ -43,9 +43,14 @@ export function memoryOf(pid) {
 
 export const median = list => [...list].sort((a, b) => a - b)[Math.floor(list.length / 2)]
 
-/** A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. */
-export async function startBench(port = 3601) {
-  const database = ensurePostgres({ name: 'bench', port: 54369, database: 'mantissa_bench', throwaway: true })
+/**
+ * A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. Its
+ * ports (app, PostgreSQL, mail sink) are MANTISSA_BENCH_PORT, MANTISSA_BENCH_PG_PORT and
+ * MANTISSA_BENCH_MAIL_PORT, 3601, 54369 and 2765 unless set, so checkouts can bench side by side
+ * (a cluster keeps the port it was made with: remove .data/pg-bench after changing it).
+ */
+export async function startBench(port = Number(process.env.MANTISSA_BENCH_PORT ?? 3601)) {
+  const database = ensurePostgres({ name: 'bench', port: Number(process.env.MANTISSA_BENCH_PG_PORT ?? 54369), database: 'mantissa_bench', throwaway: true })
   database.recreate()
   migrate(database.url, database.appUrl)
   buildIfStale()
@@ -57,7 +62,7 @@ export async function startBench(port = 3601) {
     env: {
       ...process.env, PORT: String(port), NITRO_HOST: '127.0.0.1', NUXT_DATABASE_URL: database.appUrl,
       NUXT_SESSION_PASSWORD: 'bench-only-session-password-of-32-characters', NUXT_DEMO_SEED: 'true',
-      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: '2765', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
+      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: process.env.MANTISSA_BENCH_MAIL_PORT ?? '2765', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
       NUXT_STORAGE_BASE: join(root, '.data', 'bench-files'),
     },
   })

@@ -75,11 +75,11 @@ const VARIANTS: Variant[] = [
   { label: 'grouped by quarter of paid_on, vendor Alderbank Works', filters: [{ column: 'vendor', op: 'one-of', values: ['Alderbank Works'] }], keep: e => e.vendor === 'Alderbank Works', groupBy: { column: 'paid_on', period: 'quarter', of: periodOf('quarter') } },
   // Ranges of the tested column: the value ladder adds up the rungs a range holds whole and counts the
   // records of those it cuts through (server/services/datasets/value-ladder.ts); ends exact, inclusive.
-  { label: 'amount between 100 and 5,000', filters: [{ column: 'amount', op: 'between', min: 100, max: 5000 }], keep: amountBetween(100, 5000) },
+  { label: 'amount between 100 and 50,000', filters: [{ column: 'amount', op: 'between', min: 100, max: 50000 }], keep: amountBetween(100, 50000) },
   { label: 'amount at least 99.995 (between two cents)', filters: [{ column: 'amount', op: 'between', min: 99.995 }], keep: amountBetween(99.995) },
   { label: 'amount from one stored value to another, both kept', filters: [{ column: 'amount', op: 'between', min: AT_LOW, max: AT_HIGH }], keep: amountBetween(AT_LOW, AT_HIGH) },
-  { label: 'amount at most 5,000 (zeros and negatives inside)', filters: [{ column: 'amount', op: 'between', max: 5000 }], keep: amountBetween(undefined, 5000) },
-  { label: 'amount from -2,000 to 2,000 (across zero)', filters: [{ column: 'amount', op: 'between', min: -2000, max: 2000 }], keep: amountBetween(-2000, 2000) },
+  { label: 'amount at most 25,000 (zeros and negatives inside)', filters: [{ column: 'amount', op: 'between', max: 25000 }], keep: amountBetween(undefined, 25000) },
+  { label: 'amount from -2,000 to 12,000 (across zero)', filters: [{ column: 'amount', op: 'between', min: -2000, max: 12000 }], keep: amountBetween(-2000, 12000) },
   { label: 'amount from -50,000 to -20, negative values tested', sign: 'negative', filters: [{ column: 'amount', op: 'between', min: -50000, max: -20 }], keep: amountBetween(-50000, -20) },
   { label: 'amount at most -1,000, negative values tested, grouped by department', sign: 'negative', filters: [{ column: 'amount', op: 'between', max: -1000 }], keep: amountBetween(undefined, -1000), groupBy: byDepartment },
   { label: 'two ranges of amount at once (100 up, and up to 80,000)', filters: [{ column: 'amount', op: 'between', min: 100 }, { column: 'amount', op: 'between', max: 80000 }], keep: amountBetween(100, 80000) },
