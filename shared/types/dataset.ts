@@ -39,6 +39,8 @@ export interface DateReadingDTO {
   /** Rows whose cell reads as a date, and non-blank rows whose cell does not. */
   read: number
   unread: number
+  /** A column of timestamps: the rows whose time of day was set aside, each read as the day written (no offset applied). */
+  timed?: number
   first: string | null
   last: string | null
 }

@@ -50,6 +50,7 @@ const VARIANTS: Variant[] = [
   { label: 'department equals Parks', filters: [{ column: 'department', op: 'equals', value: 'Parks' }], keep: e => e.department === 'Parks' },
   { label: 'quantity between 50 and 300', filters: [{ column: 'quantity', op: 'between', min: 50, max: 300 }], keep: e => e.units !== null && e.units >= 50 && e.units <= 300 },
   { label: 'amount at least 100', filters: [{ column: 'amount', op: 'between', min: 100 }], keep: e => e.meaning.kind === 'number' && e.meaning.sign > 0 && e.meaning.cents >= 10_000 },
+  { label: 'vendor one of one (its repeated amounts kept at import)', filters: [{ column: 'vendor', op: 'one-of', values: ['Brindle & Pike'] }], keep: e => e.vendor === 'Brindle & Pike' },
   { label: 'vendor one of two', filters: [{ column: 'vendor', op: 'one-of', values: ['Corvid Haulage', ' Dunmore Signs'] }], keep: e => ['Corvid Haulage', 'Dunmore Signs'].includes(e.vendor) },
   { label: 'department not one of Parks', filters: [{ column: 'department', op: 'not-one-of', values: ['Parks'] }], keep: e => e.department !== 'Parks' },
   { label: 'paid in 2025', filters: [{ column: 'paid_on', op: 'dates', from: '2025-01-01', to: '2025-12-31' }], keep: paidBetween('2025-01-01', '2025-12-31') },

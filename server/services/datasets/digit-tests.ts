@@ -15,6 +15,7 @@ import type { CodeFilter, DigitQuery } from './digit-query'
 import { bucketOf, emptyStatus, groupCells, mergeGroups } from './count-merge'
 import type { Grouped } from './count-merge'
 import { ladderDistribution } from './ladder-counts'
+import { codeRepeats } from './code-repeats'
 
 
 async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Grouped<StatusCounts>> {
@@ -165,6 +166,15 @@ async function cubeDistribution(test: DistributionTest, datasetId: string, store
 }
 
 /**
+ * A distribution test's counts (by group) from the import's cells: the cube's, or the value ladder's
+ * for a range of the tested column. Null when the records must be counted.
+ */
+async function cellsOf(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter, scan = (q: DigitQuery) => statusAndDistribution(test, q, sign, Boolean(q.group)).then(g => decodeGroups(q, g))) {
+  return await cubeDistribution(test, datasetId, stored, columnPos, query, sign)
+    ?? await ladderDistribution(test, datasetId, stored?.ladder ?? null, columnPos, query, sign, scan)
+}
+
+/**
  * How many values one bin holds, as the import counted them: for the drill-down of an unfiltered
  * distribution test, whole or in one group, so its page count needs no scan. Null when not kept.
  */
@@ -269,18 +279,19 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     const test = body.test as DistributionTest
     const counted = grouping ?? whole
     const scan = (query: DigitQuery) => statusAndDistribution(test, query, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(query, g) : g))
-    const fromCube = await cubeDistribution(test, dataset.id, stored, tested.position, counted, sign)
-      ?? await ladderDistribution(test, dataset.id, stored?.ladder ?? null, tested.position, counted, sign, scan)
+    const fromCube = await cellsOf(test, dataset.id, stored, tested.position, counted, sign, scan)
     profile = suitabilityProfile(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
     const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await scan(counted)
     counts = grouping ? mergeGroups(scanned.values()) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {
-    profile = suitabilityProfile(stored, whole, sign, filtered)
-    const repeats = body.test === 'duplicates' && !filtered ? stored?.repeats?.[sign] : null
+    // The status counts and the suitability facts, from the import's cells where they hold them.
+    const cells = filtered ? await cellsOf('first-digit', dataset.id, stored, tested.position, whole, sign) : null
+    profile = suitabilityProfile(stored, whole, sign, filtered, cells?.profile ?? undefined)
+    const repeats = body.test !== 'duplicates' ? null : filtered ? await codeRepeats(dataset.id, tested.position, whole.codeFilters, sign) : stored?.repeats?.[sign]
     const [status, byTest] = await Promise.all([
-      statusCounts(whole, false),
+      cells ? new Map([[null, mergeGroups(cells.groups.values()).status]]) : statusCounts(whole, false),
       repeats ? new Map([[null, repeats]]) : TEST_COUNTS[body.test](whole, sign, false, body.threshold),
     ])
     counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]

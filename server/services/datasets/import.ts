@@ -17,6 +17,7 @@ import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat, TextEncoding } from './sniff'
 import { dropPartitionsSql, partitionNames } from './partitions'
 import { duplicateCounts } from './digit-tests'
+import { countCodeRepeats } from './code-repeats'
 
 const PROGRESS_EVERY_MS = 500
 /** Batches of rows with the encoding thread at once: enough to keep it busy, few enough to bound memory. */
@@ -223,9 +224,10 @@ async function speedUp({ datasetId, names }: ImportJob, db: Connections) {
 }
 
 /**
- * Each number column's repeated values per sign, counted once over the whole column and kept, so
- * that the unfiltered repeated-amounts test reads them (until then it counts them itself, with the
- * same answer). A failure here changes no answer either.
+ * Each number column's repeated values per sign, counted once over the whole column and per value of
+ * each text column the cube counts it by, and kept, so that the repeated-amounts test, unfiltered or
+ * filtered to one value, reads them (until then it counts them itself, with the same answer). A
+ * failure here changes no answer either.
  */
 async function countRepeats({ datasetId, names }: ImportJob, columns: EncodedImport['columns']) {
   for (const [position, column] of columns.entries()) {
@@ -234,6 +236,8 @@ async function countRepeats({ datasetId, names }: ImportJob, columns: EncodedImp
     try {
       const [positive, negative] = [await duplicateCounts(whole, 'positive'), await duplicateCounts(whole, 'negative')]
       await useDb().models.DatasetColumn.update({ repeats: { positive, negative } }, { where: { datasetId, position } })
+      // And by each text column the cube counts it by: one department's repeated amounts read them.
+      for (const textPos of column.cubeGroups ?? []) if (textPos >= 0) await countCodeRepeats(datasetId, names.digits, position, textPos)
     }
     catch (error) {
       console.warn(`[import] ${datasetId}: repeated values of column ${position} not kept: ${(error as Error).message}`)

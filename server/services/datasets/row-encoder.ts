@@ -189,7 +189,8 @@ export class RowEncoder {
       first = Math.min(first, day)
       last = Math.max(last, day)
     }
-    return { days, reading: { order, settled, read, unread, first: read ? dayText(first) : null, last: read ? dayText(last) : null } }
+    const timed = codes.timedRows(position)
+    return { days, reading: { order, settled, read, unread, first: read ? dayText(first) : null, last: read ? dayText(last) : null, ...(timed === null ? {} : { timed }) } }
   }
 
   private summary(profile: ColumnProfile, position: number, dates: DateReadingDTO | null): ColumnSummary {
