@@ -17,7 +17,6 @@ import type { Grouped } from './count-merge'
 import { ladderDistribution } from './ladder-counts'
 import { codeRepeats } from './code-repeats'
 
-
 async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Grouped<StatusCounts>> {
   const rows = await selectRows<{ grp?: string, status: number, sign: number, count: number }>(query, {
     select: 'd.status, d.sign, count(*)::int AS count', groupBy: 'd.status, d.sign', grouped,
