@@ -66,6 +66,8 @@ export default defineNuxtConfig({
     },
   },
   vite: {
+    // The engine's incomplete beta (stdlib) would test generator support with eval; the page has no eval.
+    resolve: { alias: { '@stdlib/assert-has-generator-support': fileURLToPath(new URL('./server/build/generator-support.cjs', import.meta.url)) } },
     build: { target: 'es2022' },
     esbuild: { target: 'es2022' },
     optimizeDeps: {

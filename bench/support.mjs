@@ -5,6 +5,7 @@ import { createReadStream, createWriteStream, readFileSync, statSync } from 'nod
 import { Readable } from 'node:stream'
 import { once } from 'node:events'
 import { join } from 'node:path'
+import pg from 'pg'
 import { ensurePostgres } from '../server/cli/postgres.mjs'
 import { buildIfStale, migrate, root, waitForServer } from '../server/cli/prepare.mjs'
 import { seededRandom } from '../server/services/demo/seeded-random.ts'
@@ -71,6 +72,7 @@ export async function startBench(port = Number(process.env.MANTISSA_BENCH_PORT ?
   return {
     url,
     server,
+    database,
     async stop() {
       // The app first, so that no request still running sees its database go away.
       const exited = once(server, 'exit')
@@ -78,6 +80,28 @@ export async function startBench(port = Number(process.env.MANTISSA_BENCH_PORT ?
       await exited
       database.stop()
     },
+  }
+}
+
+/**
+ * Waits until the work an import does after "ready" is done (indexes, planner statistics, repeated
+ * values whole and per text value): until then answers are right but some are slower. Returns when.
+ */
+export async function waitForAfterImport(database, datasetId, seconds = 600) {
+  const client = new pg.Client({ connectionString: database.appUrl })
+  await client.connect()
+  try {
+    for (const until = Date.now() + seconds * 1000; Date.now() < until;) {
+      const { rows: [done] } = await client.query(
+        // A number column's whole repeats are kept last (import.ts, countRepeats).
+        'SELECT bool_and(repeats IS NOT NULL) AS done FROM dataset_columns WHERE dataset_id = $1 AND profiles IS NOT NULL', [datasetId])
+      if (done?.done) return performance.now()
+      await new Promise(r => setTimeout(r, 200))
+    }
+    throw new Error('the work after the import did not finish')
+  }
+  finally {
+    await client.end()
   }
 }
 

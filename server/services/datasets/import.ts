@@ -234,10 +234,11 @@ async function countRepeats({ datasetId, names }: ImportJob, columns: EncodedImp
     if (!column.signs) continue
     const whole = { from: `${names.digits} d`, where: `d.column_pos = ${position}`, replacements: { datasetId } }
     try {
+      // By each text column the cube counts it by (one department's repeated amounts read them), then
+      // the whole column's, last, so that a column with its repeats kept has all of them.
+      for (const textPos of column.cubeGroups ?? []) if (textPos >= 0) await countCodeRepeats(datasetId, names.digits, position, textPos)
       const [positive, negative] = [await duplicateCounts(whole, 'positive'), await duplicateCounts(whole, 'negative')]
       await useDb().models.DatasetColumn.update({ repeats: { positive, negative } }, { where: { datasetId, position } })
-      // And by each text column the cube counts it by: one department's repeated amounts read them.
-      for (const textPos of column.cubeGroups ?? []) if (textPos >= 0) await countCodeRepeats(datasetId, names.digits, position, textPos)
     }
     catch (error) {
       console.warn(`[import] ${datasetId}: repeated values of column ${position} not kept: ${(error as Error).message}`)
