@@ -57,7 +57,7 @@ const MAX_PAIRS = 6
  * cells, and all of them together keep at most LADDER_CELLS (about 9 KB each).
  */
 const MAX_LADDER_PAIR_CELLS = 3600
-const LADDER_CELLS = 6000
+const LADDER_CELLS = 4000
 
 /**
  * The pairs of text columns worth counting together, from the first rows: both with few values
