@@ -210,7 +210,8 @@ async function streamRows(
  * and change no answer, and a reporter need not wait the second per million rows they take. Preview
  * pages and joins find rows by number; drill-down walks a column's records in row order. Rows
  * are only ever found by number, so statistics on their cells would tell the planner nothing. A range
- * filter counts the records of the rungs it cuts through by value (value-ladder.ts).
+ * filter counts the records of the rungs it cuts through by value (value-ladder.ts), and a question
+ * reads the cube's cells of one column and one cut of it (thousands of cells with the value ladder's).
  * Should this fail, queries stay right, only slower, and autovacuum still gathers statistics.
  * One connection does it all, leaving the other core to the reporter's first questions.
  */
@@ -219,6 +220,7 @@ async function speedUp({ datasetId, names }: ImportJob, db: Connections) {
     CREATE INDEX IF NOT EXISTS ${names.rows}_row_no ON ${names.rows} (row_no);
     CREATE INDEX IF NOT EXISTS ${names.digits}_column_row ON ${names.digits} (column_pos, row_no);
     CREATE INDEX IF NOT EXISTS ${names.digits}_column_value ON ${names.digits} (column_pos, value);
+    CREATE INDEX IF NOT EXISTS ${names.cube}_cells ON ${names.cube} (column_pos, group_pos, pair_pos);
     ANALYZE ${names.rows} (row_no); ANALYZE ${names.digits}; ANALYZE ${names.cube};
   `).catch(error => console.warn(`[import] ${datasetId}: indexes or statistics not made: ${(error as Error).message}`))
 }
