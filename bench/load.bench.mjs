@@ -10,7 +10,7 @@ import { rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
-import { memoryOf, signIn, startBench, uploadAndWait, writeLedger } from './support.mjs'
+import { memoryOf, signIn, startBench, uploadAndWait, waitForAfterImport, writeLedger } from './support.mjs'
 
 const [rows = 1_000_000, connections = 50, seconds = 60] = process.argv.slice(2, 5).map(Number)
 // A fourth argument runs only the mixes whose name holds it ("filtered").
@@ -21,6 +21,7 @@ const bench = await startBench()
 try {
   const { cookie, request } = await signIn(bench.url)
   const { dataset } = await uploadAndWait(bench.url, cookie, file, `Load ledger ${rows}`)
+  await waitForAfterImport(bench.database, dataset.id)
   rmSync(file, { force: true })
   const me = await request('GET', '/api/me')
   const story = await request('POST', '/api/investigations', { newsroomId: me.memberships[0].newsroomId, title: 'Load test' })
