@@ -150,7 +150,8 @@ describe('reading a column again', () => {
     expectStatus(await desk.reporter.delete(`/api/datasets/${made.body.id}`), 200)
     for (const id of [two, three]) expect((await described(id)).readings.map(r => [r.id, r.readingNo])).toEqual([[two, 2], [three, 3]])
     // A reading made after that is numbered after the last one still kept.
-    const four = await desk.reporter.post(`/api/datasets/${three}/readings`, { columns: { amount: { decimalMark: '.' } } })
+    const four = await desk.reporter.post(`/api/datasets/${three}/readings`, { columns: { amount: { kind: 'amount' } } })
+    expectStatus(four, 201)
     expect(four.body.readingNo).toBe(4)
   })
 
