@@ -67,6 +67,9 @@ export const claimCreateSchema = z.object({
   supportingBlockIds: z.array(z.string().uuid()).max(50).default([]),
 })
 
+// A claim's id is unique within its investigation; a member who holds the same id in two of them names one.
+export const claimQuerySchema = z.object({ investigationId: z.string().uuid().optional() })
+
 export const claimUpdateSchema = z.object({
   supportingBlockIds: z.array(z.string().uuid()).max(50),
 })

@@ -1,7 +1,8 @@
 import { beforeAll, describe, expect, it } from 'vitest'
-import { createTestNewsroom } from '../support/newsroom'
+import { randomUUID } from 'node:crypto'
+import { createTestNewsroom, invite, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { blockOf, expectStatus, proseDoc, readStory, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { blockOf, expectStatus, postClaim, proseDoc, readStory, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 import type { Reply } from '../support/api'
 
@@ -166,17 +167,94 @@ describe('two admins changing memberships at once', () => {
 })
 
 describe('claim ids chosen by the client', () => {
-  it('never says that another newsroom\'s claim id exists', async () => {
+  // Issue 22: "a client-chosen claim id of another newsroom answers 409 'exists already'. Existence
+  // never leaks." An id names a claim within its investigation, so another newsroom's id is as free as a fresh one.
+  async function outsiderStory(outsider: TestNewsroom) {
+    return writeStory(outsider.reporter, outsider.id, await uploadPayments(outsider.reporter, outsider.id))
+  }
+  const markWith = async (client: TestNewsroom['reporter'], story: Story, claimId: string) => {
+    expectStatus(await saveBlock(client, story, story.proseBlockId, { content: proseDoc('Copied ', { text: 'an id', claimId }) }), 200)
+    return client.post(`/api/investigations/${story.id}/claims`, { id: claimId, blockId: story.proseBlockId, supportingBlockIds: [] })
+  }
+  /** What a reply says, without what differs between any two claims (ids, names, times). */
+  const shape = (reply: Reply) => ({ status: reply.status, fields: Object.keys(reply.body).sort(), claimStatus: reply.body.status, quote: reply.body.quote })
+
+  it('lets another newsroom mark a claim with this newsroom\'s id exactly as with a fresh one, and each claim goes its own way', async () => {
     const { story } = await verifiedPassage()
     const outsider = await createTestNewsroom('Outside ids')
-    const theirs = await writeStory(outsider.reporter, outsider.id, await uploadPayments(outsider.reporter, outsider.id))
-    // The outsider marks a passage with the id of this newsroom's claim.
-    expectStatus(await saveBlock(outsider.reporter, theirs, theirs.proseBlockId, { content: proseDoc('Copied ', { text: 'an id', claimId: story.claimId }) }), 200)
-    const reply = await outsider.reporter.post(`/api/investigations/${theirs.id}/claims`, { id: story.claimId, blockId: theirs.proseBlockId, supportingBlockIds: [] })
-    expectStatus(reply, 400)
-    expect(reply.body.data).toEqual([{ path: 'id', message: 'Give the claim a fresh random id.' }])
-    // Within one investigation a second POST of the same claim still says what happened.
-    const again = await newsroom.reporter.post(`/api/investigations/${story.id}/claims`, { id: story.claimId, blockId: story.proseBlockId, supportingBlockIds: [] })
-    expectStatus(again, 409)
+    const fresh = await markWith(outsider.reporter, await outsiderStory(outsider), randomUUID())
+    const theirs = await outsiderStory(outsider)
+    const taken = await markWith(outsider.reporter, theirs, story.claimId)
+    expectStatus(taken, 201)
+    expect(shape(taken)).toEqual(shape(fresh))
+    expect(taken.body.id).toBe(story.claimId)
+
+    // The outsider's claim of that id is theirs to cite, dispute and take off; ours stays verified.
+    const analysis = theirs.analysisBlockId
+    expectStatus(await outsider.reporter.patch(`/api/claims/${story.claimId}`, { supportingBlockIds: [analysis] }), 200)
+    expectStatus(await outsider['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note: 'Copied from nowhere.' }), 200)
+    expectStatus(await outsider['data-editor'].delete(`/api/claims/${story.claimId}`, { reason: 'Not ours to claim.' }), 200)
+    expect((await readStory(outsider.reporter, theirs)).claims).toEqual([])
+    const ours = (await readStory(newsroom.reporter, story)).claims
+    expect(ours).toMatchObject([{ id: story.claimId, status: 'verified', quote: PASSAGE }])
+    // Our fact-checker still reaches our claim by its id alone, and nothing of theirs.
+    expectStatus(await newsroom['data-editor'].patch(`/api/claims/${story.claimId}`, { supportingBlockIds: [] }), 423)
+  })
+
+  it('still answers 409 for the same claim marked twice in one investigation, also twenty times at once, never 500', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    const replies = await Promise.all(Array.from({ length: 20 }, () => newsroom.reporter.post(`/api/investigations/${story.id}/claims`, { id: story.claimId, blockId: story.proseBlockId, supportingBlockIds: [] })))
+    expect(replies.map(r => r.status).sort()).toEqual([201, ...Array(19).fill(409)])
+    expect(replies.find(r => r.status === 409)!.body.data).toEqual({ message: 'This claim exists already.' })
+    expect((await readStory(newsroom.reporter, story)).claims).toHaveLength(1)
+  })
+
+  it('asks a member who can open two claims of one id to name the investigation, and never mixes them up', async () => {
+    const { story } = await verifiedPassage()
+    const other = await createTestNewsroom('Second desk')
+    // Our reporter joins the other newsroom too, and marks a claim there with the same id.
+    const { token } = await invite(other.admin, other.id, newsroom.emails.reporter, 'reporter')
+    expectStatus(await newsroom.reporter.post(`/api/join/${token}`, { name: newsroom.names.reporter, password: PASSWORD }), 201)
+    const there = await writeStory(newsroom.reporter, other.id, await uploadPayments(newsroom.reporter, other.id))
+    expectStatus(await markWith(newsroom.reporter, there, story.claimId), 201)
+
+    const unnamed = await newsroom.reporter.patch(`/api/claims/${story.claimId}`, { supportingBlockIds: [there.analysisBlockId] })
+    expectStatus(unnamed, 400)
+    expect(unnamed.body.data).toEqual([{ path: 'investigationId', message: 'Claims with this id are in several investigations you can open: add ?investigationId= to say which.' }])
+    expectStatus(await newsroom.reporter.patch(`/api/claims/${story.claimId}?investigationId=${there.id}`, { supportingBlockIds: [there.analysisBlockId] }), 200)
+    expectStatus(await newsroom.reporter.patch(`/api/claims/${story.claimId}?investigationId=${story.id}`, { supportingBlockIds: [] }), 423)
+    // The members of each newsroom, who can open only one of them, need no investigation named.
+    expectStatus(await other['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note: 'Which ledger?' }), 200)
+    expect((await readStory(newsroom.reporter, story)).claims[0].status).toBe('verified')
+    // An investigation of a newsroom one does not belong to answers 404, like a missing one.
+    expectStatus(await other['fact-checker'].post(`/api/claims/${story.claimId}/dispute?investigationId=${story.id}`, { note: 'x' }), 404)
+    expectStatus(await other['fact-checker'].post(`/api/claims/${randomUUID()}/dispute`, { note: 'x' }), 404)
+  })
+
+  it('takes as long for an id another newsroom holds as for a fresh one (within a factor of two, medians of 7)', async () => {
+    const outsider = await createTestNewsroom('Timing ids')
+    const held: string[] = []
+    for (let i = 0; i < 7; i++) {
+      const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+      expectStatus(await postClaim(newsroom.reporter, story), 201)
+      held.push(story.claimId)
+    }
+    const timed = async (claimId: string) => {
+      const story = await outsiderStory(outsider)
+      expectStatus(await saveBlock(outsider.reporter, story, story.proseBlockId, { content: proseDoc('Copied ', { text: 'an id', claimId }) }), 200)
+      const started = performance.now()
+      expectStatus(await outsider.reporter.post(`/api/investigations/${story.id}/claims`, { id: claimId, blockId: story.proseBlockId, supportingBlockIds: [] }), 201)
+      return performance.now() - started
+    }
+    const freshTimes: number[] = []
+    const heldTimes: number[] = []
+    for (const claimId of held) {
+      freshTimes.push(await timed(randomUUID()))
+      heldTimes.push(await timed(claimId))
+    }
+    const median = (values: number[]) => values.sort((a, b) => a - b)[Math.floor(values.length / 2)]!
+    const ratio = median(heldTimes) / median(freshTimes)
+    expect(ratio, `held ${median(heldTimes).toFixed(1)} ms, fresh ${median(freshTimes).toFixed(1)} ms`).toBeGreaterThan(0.5)
+    expect(ratio).toBeLessThan(2)
   })
 })
