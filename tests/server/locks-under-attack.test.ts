@@ -77,6 +77,23 @@ describe('a verified claim\'s passage, as the page draws it', () => {
     expectLocked(await saveBlock(newsroom.reporter, story, other.body.id, { content: borrowed }), at)
   })
 
+  it('refuses a number slipped in as text between three marked pieces, which the page would draw (a 0 among the words)', async () => {
+    const { story, at } = await verifiedPassage()
+    const pieces = (between: unknown) => doc(paragraph(text('Before. '), text('Payments ', story.claimId), between, text('cluster below ', story.claimId), text('the limit.', story.claimId), text(' After.')))
+    // PublicationProse.vue draws `node.text ?? ''`: the number 0 shows as "0", yet holds no words to compare.
+    const zero = await saveBlock(newsroom.reporter, story, story.proseBlockId, { content: pieces({ type: 'text', text: 0 }) })
+    expectStatus(zero, 400)
+    expect(zero.body.data[0].path).toBe('content')
+    // Children that are not a list would break the page instead; a line break and a third piece changed are the lock's.
+    expectStatus(await saveBlock(newsroom.reporter, story, story.proseBlockId, { content: pieces({ type: 'paragraph', content: 'do not ' }) }), 400)
+    expectStatus(await saveBlock(newsroom.reporter, story, story.proseBlockId, { content: pieces({ type: 'text', text: 'do not ', marks: { type: 'bold' } }) }), 400)
+    expectLocked(await saveBlock(newsroom.reporter, story, story.proseBlockId, { content: pieces({ type: 'hardBreak' }) }), at)
+    expectLocked(await saveBlock(newsroom.reporter, story, story.proseBlockId, { content: pieces({ type: 'image', attrs: { src: 'https://example.org/x.png' } }) }), at)
+    const now = await readStory(newsroom.reporter, story)
+    expect(now.claims[0]).toMatchObject({ status: 'verified', quote: PASSAGE })
+    expect(now.blocks.find((b: { id: string }) => b.id === story.proseBlockId).content).toEqual(doc(paragraph(text('Before. '), text(PASSAGE, story.claimId), text(' After.'))))
+  })
+
   it('still takes edits around the passage, and the same passage split into pieces the page draws alike', async () => {
     const { story } = await verifiedPassage()
     const around = doc(paragraph(text('Rewritten intro. '), text('Payments ', story.claimId), text('cluster below the limit.', story.claimId), text(' New ending.')))
