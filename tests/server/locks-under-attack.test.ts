@@ -4,6 +4,7 @@ import { createTestNewsroom, invite, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { blockOf, expectStatus, postClaim, proseDoc, readStory, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
+import { Client } from '../support/api'
 import type { Reply } from '../support/api'
 
 // DESIGN.md: "A locked claim's text and a locked analysis block's settings cannot change. Any save
@@ -142,6 +143,30 @@ describe('verification racing a change of the claim\'s sources', () => {
   })
 })
 
+describe('twenty requests at once on one claim: verifications, changes of its sources and lifted locks', () => {
+  it('never answer 500, and leave the locked blocks exactly the sources of the claim if it is verified, else none', async () => {
+    for (let round = 0; round < 3; round++) {
+      const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+      const second = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'analysis', settings: { ...story.settings, test: 'second-digit' } })
+      expectStatus(second, 201)
+      expectStatus(await postClaim(newsroom.reporter, story), 201)
+      const { version } = await blockOf(newsroom.reporter, story, story.proseBlockId)
+      // Lifted locks first in the list, so that some land between verifications.
+      const requests = Array.from({ length: 20 }, (_, i) => {
+        if (i % 3 === 2) return newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { version })
+        if (i % 3 === 1) return newsroom.reporter.patch(`/api/claims/${story.claimId}`, { supportingBlockIds: i % 2 ? [second.body.id] : [story.analysisBlockId, second.body.id] })
+        return newsroom['data-editor'].post(`/api/claims/${story.claimId}/unlock`, { reason: 'Checked against the wrong ledger.' })
+      })
+      const statuses = (await Promise.all(requests)).map(r => r.status)
+      expect(statuses.filter(s => ![200, 409, 423].includes(s)), `round ${round}: ${statuses}`).toEqual([])
+      const now = await readStory(newsroom.reporter, story)
+      const claim = now.claims[0]
+      const locked = now.blocks.filter((b: { lock: unknown }) => b.lock).map((b: { id: string }) => b.id).sort()
+      expect(locked, `round ${round}: ${claim.status}`).toEqual(claim.status === 'verified' ? [...claim.supportingBlockIds].sort() : [])
+    }
+  })
+})
+
 describe('two people renaming an investigation at once', () => {
   it('keeps one title and answers the other 409 with the title as it now is', async () => {
     const created = await newsroom.reporter.post('/api/investigations', { newsroomId: newsroom.id, title: 'Harbour works' })
@@ -156,6 +181,18 @@ describe('two people renaming an investigation at once', () => {
     expect(lost.body.data.current).toEqual({ title: won.body.title, titleVersion: titleVersion + 1 })
     const read = await newsroom.reporter.get(`/api/investigations/${created.body.id}`)
     expect(read.body.title).toBe(won.body.title)
+  })
+
+  it('lets one of twenty renames at once land, and of twenty reorders of its blocks', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    const { titleVersion, layoutVersion, blocks } = await readStory(newsroom.reporter, story)
+    const renames = await Promise.all(Array.from({ length: 20 }, (_, i) => newsroom.reporter.patch(`/api/investigations/${story.id}`, { title: `Harbour works, take ${i}`, titleVersion })))
+    expect(renames.map(r => r.status).sort()).toEqual([200, ...Array(19).fill(409)])
+    const ids = blocks.map((b: { id: string }) => b.id)
+    const orders = await Promise.all(Array.from({ length: 20 }, (_, i) => newsroom.reporter.post(`/api/investigations/${story.id}/order`, { layoutVersion, blockIds: i % 2 ? [...ids].reverse() : ids })))
+    expect(orders.map(r => r.status).sort()).toEqual([200, ...Array(19).fill(409)])
+    const won = orders.findIndex(r => r.status === 200)
+    expect((await readStory(newsroom.reporter, story)).blocks.map((b: { id: string }) => b.id)).toEqual(won % 2 ? [...ids].reverse() : ids)
   })
 })
 
@@ -180,6 +217,23 @@ describe('two admins changing memberships at once', () => {
       const after = (await (one.status === 200 ? desk.admin : desk['data-editor']).get(`/api/newsrooms/${desk.id}/members`)).body as { role: string }[]
       expect(after.filter(m => m.role === 'admin').length, `round ${round}`).toBeGreaterThanOrEqual(1)
     }
+  })
+})
+
+describe('many membership changes at once', () => {
+  it('answers twenty role changes of one member and ten joins through one link without a 500', async () => {
+    const desk = await createTestNewsroom('Busy desk')
+    const { token } = await invite(desk.admin, desk.id, `crowd-${randomUUID().slice(0, 8)}@test.example`, 'reporter')
+    const joins = (await Promise.all(Array.from({ length: 10 }, () => new Client().post(`/api/join/${token}`, { name: 'One of many', password: PASSWORD })))).map(r => r.status)
+    // The link works once; the others find it used (404, as an unknown link).
+    expect(joins.sort()).toEqual([201, ...Array(9).fill(404)])
+    const members = (await desk.admin.get(`/api/newsrooms/${desk.id}/members`)).body as { membershipId: string, email: string, role: string }[]
+    const joined = members.find(m => m.email.startsWith('crowd-'))!
+    const roles = ['reporter', 'fact-checker', 'data-editor', 'admin'] as const
+    const changes = await Promise.all(Array.from({ length: 20 }, (_, i) => desk.admin.patch(`/api/memberships/${joined.membershipId}`, { role: roles[i % 4] })))
+    expect(changes.map(r => r.status).filter(s => s !== 200 && s !== 409)).toEqual([])
+    const after = (await desk.admin.get(`/api/newsrooms/${desk.id}/members`)).body as { email: string, role: string }[]
+    expect(roles).toContain(after.find(m => m.email.startsWith('crowd-'))!.role)
   })
 })
 
