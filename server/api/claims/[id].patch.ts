@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { claimQuerySchema, claimUpdateSchema } from '#shared/schemas/investigation'
-import { findClaim, updateClaimSupport } from '../../services/investigations/claims'
+import { findClaim, updateClaimSupport } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)
