@@ -120,14 +120,20 @@ describe('verifying names what the fact-checker read', () => {
   })
 })
 
+/** A story whose claim cites its analysis block, a second analysis block it could cite, and the text block's version to verify. */
+async function claimWithASecondBlock() {
+  const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+  const second = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'analysis', settings: { ...story.settings, test: 'second-digit' } })
+  expectStatus(second, 201)
+  expectStatus(await postClaim(newsroom.reporter, story), 201)
+  const { version } = await blockOf(newsroom.reporter, story, story.proseBlockId)
+  return { story, second, version }
+}
+
 describe('verification racing a change of the claim\'s sources', () => {
   it('never leaves a verified claim citing an unlocked block, nor a block locked that no verified claim cites', async () => {
     for (let round = 0; round < 10; round++) {
-      const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
-      const second = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'analysis', settings: { ...story.settings, test: 'second-digit' } })
-      expectStatus(second, 201)
-      expectStatus(await newsroom.reporter.post(`/api/investigations/${story.id}/claims`, { id: story.claimId, blockId: story.proseBlockId, supportingBlockIds: [story.analysisBlockId] }), 201)
-      const { version } = await blockOf(newsroom.reporter, story, story.proseBlockId)
+      const { story, second, version } = await claimWithASecondBlock()
       const [sources, verify] = await Promise.all([
         newsroom.reporter.patch(`/api/claims/${story.claimId}`, { supportingBlockIds: [second.body.id] }),
         newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { version }),
@@ -146,11 +152,7 @@ describe('verification racing a change of the claim\'s sources', () => {
 describe('twenty requests at once on one claim: verifications, changes of its sources and lifted locks', () => {
   it('never answer 500, and leave the locked blocks exactly the sources of the claim if it is verified, else none', async () => {
     for (let round = 0; round < 3; round++) {
-      const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
-      const second = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'analysis', settings: { ...story.settings, test: 'second-digit' } })
-      expectStatus(second, 201)
-      expectStatus(await postClaim(newsroom.reporter, story), 201)
-      const { version } = await blockOf(newsroom.reporter, story, story.proseBlockId)
+      const { story, second, version } = await claimWithASecondBlock()
       // Lifted locks first in the list, so that some land between verifications.
       const requests = Array.from({ length: 20 }, (_, i) => {
         if (i % 3 === 2) return newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { version })
