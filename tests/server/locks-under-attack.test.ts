@@ -78,6 +78,20 @@ describe('a verified claim\'s passage, as the page draws it', () => {
     expectLocked(await saveBlock(newsroom.reporter, story, other.body.id, { content: borrowed }), at)
   })
 
+  it('refuses to bring back a removed block that carries the mark of a claim verified since', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    expectStatus(await postClaim(newsroom.reporter, story), 201)
+    // While the claim is open, its mark may stand on other words too; that block is then removed.
+    const copy = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'prose', content: doc(paragraph(text('Unchecked words under the same mark', story.claimId))) })
+    expectStatus(copy, 201)
+    expectStatus(await newsroom.reporter.delete(`/api/blocks/${copy.body.id}`), 200)
+    const { version } = await blockOf(newsroom.reporter, story, story.proseBlockId)
+    const verified = await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/verify`, { version })
+    expectStatus(verified, 200)
+    expectLocked(await newsroom.reporter.post(`/api/blocks/${copy.body.id}/restore`), verified.body.decision.at)
+    expect((await readStory(newsroom.reporter, story)).blocks.map((b: { id: string }) => b.id)).not.toContain(copy.body.id)
+  })
+
   it('refuses a number slipped in as text between three marked pieces, which the page would draw (a 0 among the words)', async () => {
     const { story, at } = await verifiedPassage()
     const pieces = (between: unknown) => doc(paragraph(text('Before. '), text('Payments ', story.claimId), between, text('cluster below ', story.claimId), text('the limit.', story.claimId), text(' After.')))
