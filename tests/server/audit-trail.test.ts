@@ -114,6 +114,18 @@ describe('what the trail records', () => {
   })
 })
 
+describe('one public link withdrawn ten times at once', () => {
+  it('is one withdrawal in the trail, as it is one in the record', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    const published = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { reason: 'Checks still open: testing the trail.' })
+    expectStatus(published, 201)
+    const replies = await Promise.all(Array.from({ length: 10 }, () => newsroom['data-editor'].post(`/api/share-links/${published.body.link.id}/revoke`)))
+    expect(replies.map(r => r.status)).toEqual(Array(10).fill(200))
+    const withdrawals = (await walk(story)).filter(e => e.action === 'investigation.unpublished')
+    expect(withdrawals).toHaveLength(1)
+  })
+})
+
 describe('the app\'s database role', () => {
   // Each statement runs in a transaction that is rolled back, so a role that may do it changes nothing.
   const attempt = (statement: string) => sql(`BEGIN; ${statement}; ROLLBACK;`)

@@ -318,30 +318,39 @@ describe('claim ids chosen by the client', () => {
     expectStatus(await other['fact-checker'].post(`/api/claims/${randomUUID()}/dispute`, { note: 'x' }), 404)
   })
 
-  it('takes as long for an id another newsroom holds as for a fresh one (within a factor of two, medians of 7)', async () => {
+  it('takes about as long for an id another newsroom holds as for a fresh one (medians of 9, within a factor of three)', async () => {
     const outsider = await createTestNewsroom('Timing ids')
-    const held: string[] = []
-    for (let i = 0; i < 7; i++) {
+    const ids: { held: string, fresh: string }[] = []
+    for (let i = 0; i < 9; i++) {
       const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
       expectStatus(await postClaim(newsroom.reporter, story), 201)
-      held.push(story.claimId)
+      ids.push({ held: story.claimId, fresh: randomUUID() })
     }
-    const timed = async (claimId: string) => {
+    // The outsider's passages are marked beforehand, so that only the claim's POST is timed.
+    const marked = async (claimId: string) => {
       const story = await outsiderStory(outsider)
       expectStatus(await saveBlock(outsider.reporter, story, story.proseBlockId, { content: proseDoc('Copied ', { text: 'an id', claimId }) }), 200)
+      return { story, claimId }
+    }
+    const pairs = []
+    for (const { held, fresh } of ids) pairs.push({ held: await marked(held), fresh: await marked(fresh) })
+    const timed = async ({ story, claimId }: { story: Story, claimId: string }) => {
       const started = performance.now()
       expectStatus(await outsider.reporter.post(`/api/investigations/${story.id}/claims`, { id: claimId, blockId: story.proseBlockId, supportingBlockIds: [] }), 201)
       return performance.now() - started
     }
     const freshTimes: number[] = []
     const heldTimes: number[] = []
-    for (const claimId of held) {
-      freshTimes.push(await timed(randomUUID()))
-      heldTimes.push(await timed(claimId))
+    // Taken in turns, each first every other time, so that a machine growing busier weighs on both alike.
+    for (const [i, pair] of pairs.entries()) {
+      if (i % 2) heldTimes.push(await timed(pair.held))
+      freshTimes.push(await timed(pair.fresh))
+      if (!(i % 2)) heldTimes.push(await timed(pair.held))
     }
     const median = (values: number[]) => values.sort((a, b) => a - b)[Math.floor(values.length / 2)]!
     const ratio = median(heldTimes) / median(freshTimes)
-    expect(ratio, `held ${median(heldTimes).toFixed(1)} ms, fresh ${median(freshTimes).toFixed(1)} ms`).toBeGreaterThan(0.5)
-    expect(ratio).toBeLessThan(2)
+    // The same code answers both, so only noise parts them; a shortcut for a held id would answer far sooner.
+    expect(ratio, `held ${median(heldTimes).toFixed(1)} ms, fresh ${median(freshTimes).toFixed(1)} ms`).toBeGreaterThan(1 / 3)
+    expect(ratio).toBeLessThan(3)
   })
 })
