@@ -81,7 +81,7 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   const disputed = await claimOf(investigation.id, DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
   // The reporter answers the dispute in its conversation and asks the data editor in, so the demo shows one.
-  const dispute = await models.Thread.findOne({ where: { subjectType: 'claim', subjectId: disputed.id } })
+  const dispute = await models.Thread.findOne({ where: { investigationId: investigation.id, subjectType: 'claim', subjectId: disputed.id } })
   if (dispute) {
     await replyToThread(reporter, investigation, dispute, [
       { type: 'text', text: 'Fair: I will say it stands out in the digit test and nothing more. ' },
