@@ -1,17 +1,17 @@
-import { diffWords } from 'diff'
+import { diffWordsWithSpace } from 'diff'
 import type { TextPiece } from '../types/history'
 
 /** Longest a word comparison may take before it settles for "all of it changed" (a million-character block). */
 const DIFF_TIMEOUT_MS = 2000
 
 /**
- * The word-level difference between two texts (the `diff` package's word comparison: words and
- * punctuation are compared, the spaces between them kept as they were). Neighbouring pieces of the
- * same kind are joined.
+ * The word-level difference between two texts (the `diff` package's word comparison, spaces and
+ * line breaks counted as words too, so that the kept and removed pieces give the earlier text
+ * exactly and the kept and added ones the later). Neighbouring pieces of the same kind are joined.
  */
 export function textDiff(before: string, after: string): TextPiece[] {
   if (before === after) return before ? [{ text: before, change: 'same' }] : []
-  const changes = diffWords(before, after, { timeout: DIFF_TIMEOUT_MS })
+  const changes = diffWordsWithSpace(before, after, { timeout: DIFF_TIMEOUT_MS })
     ?? [{ value: before, removed: true, added: false, count: 1 }, { value: after, added: true, removed: false, count: 1 }]
   const pieces: TextPiece[] = []
   for (const change of changes) {
