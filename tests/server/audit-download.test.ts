@@ -6,8 +6,9 @@ import type { TestNewsroom } from '../support/newsroom'
 import { expectStatus, proseDoc, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// Issue 20: "the audit trail names the block, the claim and what changed (old → new for settings),
-// can be filtered by person and kind, and downloads as CSV". The CSV is read back with papaparse
+// Issue 20 and docs/product-rules.md ("The trail in words"): "the audit trail names the block, the
+// claim and what changed (old → new for settings), can be filtered by person and kind, and
+// downloads as CSV". The CSV is read back with papaparse
 // (a general-purpose CSV parser) and must say what the JSON trail says. RFC 4180 (CSV): a header
 // row, CRLF line ends, fields holding a comma, a double quote or a line break in double quotes,
 // a quote inside doubled. OWASP's "CSV Injection" advice: a cell starting with =, +, - or @ is

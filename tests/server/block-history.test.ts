@@ -8,9 +8,9 @@ import { CLAIM_TEXT, blockOf, expectStatus, postClaim, proseDoc, saveBlock, uplo
 // Issue 20: "every saved state of each block (prose and settings) is kept; a history view lists them
 // by time and person, shows the difference between any two (text differences inline, settings side
 // by side), and restores one as a new change (which follows the usual rules: locks, review reset)".
-// DESIGN.md: a locked claim's text and a locked block's settings cannot change (423, who and when);
-// changing an approved block's settings sends its approval back to "unreviewed"; another
-// newsroom's ids answer 404. The texts below are written here; each expected word difference
+// docs/product-rules.md ("Locks", "Approval follows the method", "Newsroom walls", "History"): a
+// locked claim's text and a locked block's settings cannot change (423, who and when); changing an
+// approved block's settings sends its approval back to "unreviewed"; another newsroom's ids answer 404. The texts below are written here; each expected word difference
 // follows from them word for word.
 
 interface Version { version: number, change: string, restoredFrom: number | null, savedBy: string | null, savedAt: string, summary: string }

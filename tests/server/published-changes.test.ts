@@ -6,8 +6,8 @@ import type { TestNewsroom } from '../support/newsroom'
 import { expectStatus, saveBlock, uploadPayments, writeStory } from '../support/stories'
 
 // Issue 20: "Compare with published: beside each publication, what changed since, block by block."
-// DESIGN.md: a published investigation is a frozen snapshot; later edits do not leak to the public
-// link until the next publish. The texts below are written here; the expected differences follow
+// docs/product-rules.md ("Frozen snapshots", "History"): a publication is a frozen snapshot; later
+// edits do not reach the public link until the next publish. The texts below are written here; the expected differences follow
 // from them word for word.
 
 interface Change { blockId: string | null, label: string, change: 'added' | 'removed' | 'changed', diff: any }
@@ -67,7 +67,7 @@ describe('what changed since a publication', () => {
     expect(byBlock.get(added.body.id)).toMatchObject({ change: 'added', label: 'Block 3 (text), “Written after publication.”' })
     expect(byBlock.get(removable)).toMatchObject({ change: 'removed', label: 'Removed text block, “A paragraph that will go.”' })
     expect(list).toHaveLength(4)
-    // The public link still shows what was published (DESIGN.md: later edits do not leak).
+    // The public link still shows what was published (docs/product-rules.md, "Frozen snapshots").
     const link = await newsroom['data-editor'].get(`/api/investigations/${story.id}/publishing`)
     const address = new URL(link.body.links[0].url)
     const page = await new Client().get(`/api/public/${address.pathname.split('/').at(-1)}`)

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { versionDiffQuerySchema } from '#shared/schemas/history'
-import { findBlock } from '../../../services/investigations/blocks'
-import { versionDiff } from '../../../services/history/versions'
+import { findBlock } from '#server/services/investigations/blocks'
+import { versionDiff } from '#server/services/history/versions'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

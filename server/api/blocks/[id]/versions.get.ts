@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findBlock } from '../../../services/investigations/blocks'
-import { blockHistory } from '../../../services/history/versions'
+import { findBlock } from '#server/services/investigations/blocks'
+import { blockHistory } from '#server/services/history/versions'
 
 // A removed block's history stays readable: it is how one finds what it said.
 export default defineEventHandler(async (event) => {

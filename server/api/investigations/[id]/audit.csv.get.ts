@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { auditDownloadSchema } from '#shared/schemas/history'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { auditCsv, auditFileName } from '../../../services/investigations/audit-download'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { auditCsv, auditFileName } from '#server/services/investigations/audit-download'
 
 // The trail as CSV, with the same filters as the page (?actor=&kind=), every matching event.
 export default defineEventHandler(async (event) => {

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findPublication } from '../../../services/publishing/publish'
-import { changesSincePublication } from '../../../services/history/published-changes'
+import { findPublication } from '#server/services/publishing/publish'
+import { changesSincePublication } from '#server/services/history/published-changes'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

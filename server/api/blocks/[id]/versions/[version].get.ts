@@ -1,6 +1,6 @@
 import { versionParamsSchema } from '#shared/schemas/history'
-import { findBlock } from '../../../../services/investigations/blocks'
-import { blockVersion } from '../../../../services/history/versions'
+import { findBlock } from '#server/services/investigations/blocks'
+import { blockVersion } from '#server/services/history/versions'
 
 export default defineEventHandler(async (event) => {
   const { id, version } = readParams(event, versionParamsSchema)

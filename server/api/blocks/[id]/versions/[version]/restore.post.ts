@@ -1,6 +1,6 @@
 import { versionParamsSchema, versionRestoreSchema } from '#shared/schemas/history'
-import { findBlock } from '../../../../../services/investigations/blocks'
-import { restoreVersion } from '../../../../../services/history/restore'
+import { findBlock } from '#server/services/investigations/blocks'
+import { restoreVersion } from '#server/services/history/restore'
 
 // Whoever may edit the block may restore one of its versions: a restore is a save.
 export default defineEventHandler(async (event) => {
