@@ -1,6 +1,7 @@
 import Papa from 'papaparse'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/api'
+import type { Reply } from '../support/api'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { expectStatus, proseDoc, saveBlock, uploadPayments, writeStory } from '../support/stories'
@@ -40,7 +41,7 @@ async function trail(query = ''): Promise<Event[]> {
   const events: Event[] = []
   let before: string | null = null
   do {
-    const reply = await newsroom['fact-checker'].get(`/api/investigations/${story.id}/audit?limit=3${query}${before ? `&before=${before}` : ''}`)
+    const reply: Reply<{ events: Event[], next: string | null }> = await newsroom['fact-checker'].get(`/api/investigations/${story.id}/audit?limit=3${query}${before ? `&before=${before}` : ''}`)
     expectStatus(reply, 200)
     events.push(...reply.body.events)
     before = reply.body.next

@@ -3,7 +3,7 @@ import { Client } from '../support/api'
 import { ownerSql, sql } from '../support/database'
 import { createTestNewsroom } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { CLAIM_TEXT, blockOf, expectStatus, postClaim, proseDoc, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, blockOf, expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
 
 // Issue 20: "every saved state of each block (prose and settings) is kept; a history view lists them
 // by time and person, shows the difference between any two (text differences inline, settings side
