@@ -15,12 +15,14 @@ export function useBlockHistory(blockId: Ref<string>) {
     if (to.value === null || !numbers.includes(to.value)) to.value = numbers[0] ?? null
     if (from.value === null || !numbers.includes(from.value)) from.value = numbers[1] ?? numbers[0] ?? null
   }, { immediate: true })
-  const diff = useFetch<BlockDiffDTO>(() => `/api/blocks/${blockId.value}/diff`, {
-    key: computed(() => `block-diff-${blockId.value}-${from.value}-${to.value}`),
-    query: computed(() => ({ from: from.value, to: to.value })),
-    immediate: from.value !== null && to.value !== null,
-    watch: [from, to],
-  })
+  // Two versions to compare exist only once the history is in: until then there is nothing to ask.
+  const requestFetch = useRequestFetch()
+  const diff = useAsyncData(
+    computed(() => `block-diff-${blockId.value}-${from.value}-${to.value}`),
+    () => (from.value !== null && to.value !== null
+      ? requestFetch<BlockDiffDTO>(`/api/blocks/${blockId.value}/diff`, { query: { from: from.value, to: to.value } })
+      : Promise.resolve(null)),
+  )
 
   /** Shows what one version changed: it against the version before it. */
   function showChangesOf(version: number) {
