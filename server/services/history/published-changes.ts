@@ -29,7 +29,7 @@ export async function changesSincePublication(publication: Publication): Promise
   const live = await liveBlocks(publication.investigationId)
   const base = { publicationId: publication.id, publishedAt: publication.publishedAt.toISOString() }
   if (publication.blockVersions) return { ...base, matchedBy: 'version', ...await byVersion(publication, live) }
-  return { ...base, matchedBy: 'content', ...await byContent(publication.snapshot.blocks, live) }
+  return { ...base, matchedBy: 'content', ...await byContent(publication, live) }
 }
 
 async function byVersion(publication: Publication, live: Block[]) {
@@ -68,9 +68,9 @@ async function byVersion(publication: Publication, live: Block[]) {
  * blocks are lined up by what they read (the `diff` package's array comparison), and a published
  * block that is followed by a current one of the same kind in its place counts as changed.
  */
-async function byContent(publishedBlocks: PublishedBlock[], live: Block[]) {
-  const then = publishedBlocks.map(stateOfPublished)
-  const labels = await placeLabels(live[0]?.investigationId ?? '', live)
+async function byContent(publication: Publication, live: Block[]) {
+  const then = publication.snapshot.blocks.map(stateOfPublished)
+  const labels = await placeLabels(publication.investigationId, live)
   const parts = diffArrays(then.map(readingOf), live.map(b => readingOf(b)))
   const changes: PublishedChangeDTO[] = []
   let unchanged = 0
