@@ -95,8 +95,11 @@ describe.each([1366, 390])('a block\'s history at %i px', (width) => {
     await waitForApp(page)
     await page.getByLabel('Show').selectOption('block')
     await page.getByLabel('by').selectOption({ label: newsroom.names.reporter })
+    // Once the filtered page is in, only the reporter's block events are listed.
+    const actions = () => page.locator('li[data-action]').evaluateAll(items => items.map(item => item.getAttribute('data-action')))
+    await expect.poll(actions).toEqual(['block.version-restored', 'block.edited', 'block.edited', 'block.added'])
+    expect(await page.locator('li[data-action] strong').allTextContents()).toEqual(Array(4).fill(newsroom.names.reporter))
     const restoredEvent = page.locator('li[data-action="block.version-restored"]')
-    await restoredEvent.waitFor()
     expect(await restoredEvent.textContent()).toContain('Block 1 (text), “The council paid the quick supplier twice.”')
     expect(await restoredEvent.textContent()).toContain('brought back version 3 as version 5')
     const csv = await page.getByRole('link', { name: 'Download as CSV' }).getAttribute('href')
