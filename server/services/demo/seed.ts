@@ -8,6 +8,7 @@ import { decideReview, requestReview } from '../investigations/review'
 import { claimOf, createClaim, disputeClaim, verifyClaim } from '../investigations/claims'
 import { publish } from '../publishing/publish'
 import { replyToThread } from '../conversation/threads'
+import { recordBlockVersion } from '../history/versions'
 import type { Actor } from '../../utils/permissions'
 import type { Block } from '../../models'
 
@@ -63,6 +64,7 @@ async function seedStory(people: DemoPeople, datasetId: string) {
       settings: part.kind === 'analysis' ? { datasetId, ...part.settings } : null,
       createdBy: reporterId, updatedBy: reporterId,
     })
+    await recordBlockVersion(block, 'created')
     if (block.kind === 'analysis') await runAnalysis(block, newsroomId)
     blocks.push(block)
   }
@@ -93,9 +95,9 @@ async function seedStory(people: DemoPeople, datasetId: string) {
     reason: 'Demo newsroom: published with checks still open, to show the public page.',
     disputed: { claimIds: [DEMO_CLAIMS.disputed.id], reason: 'Demo newsroom: the disputed passage is published to show that the public page does not mark it as verified.' },
   })
-  await models.Block.create({
+  await recordBlockVersion(await models.Block.create({
     investigationId: investigation.id, kind: 'prose', position: blocks.length, content: DEMO_FOLLOW_UP, createdBy: reporterId, updatedBy: reporterId,
-  })
+  }), 'created')
   await requestReview(reporter, investigation)
   return published.url
 }
