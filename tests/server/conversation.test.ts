@@ -197,6 +197,12 @@ describe('conversations on blocks, reviews and claims', () => {
     if (ours) expect(ours.id).not.toBe(started.body.id)
     const seen = JSON.stringify(await threadsOf(newsroom.reporter, story))
     expect(seen).not.toContain('Our own question.')
+    // Nor does the trail name their claim's words for ours ("claim.marked" keeps no quote of its own).
+    const trail = await newsroom.admin.get(`/api/investigations/${story.id}/audit?kind=claim`)
+    expectStatus(trail, 200)
+    const named = trail.body.events.filter((e: { subjectId: string }) => e.subjectId === story.claimId).map((e: { claim: string | null }) => e.claim)
+    expect(named.length).toBeGreaterThan(0)
+    expect(named.filter((quote: string | null) => quote === 'an id')).toEqual([])
   })
 
   it('keeps 404 for a member of another newsroom and 401 without a session on every conversation route', async () => {
