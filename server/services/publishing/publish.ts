@@ -11,7 +11,7 @@ import type { DatasetFingerprint, PublishBlockerDTO, PublishCheckDTO, PublishedB
 import type { Block, Claim, Investigation, Publication, ShareLink } from '../../models'
 import type { FieldError } from '../../utils/errors'
 import type { Actor } from '../../utils/permissions'
-import { liveBlocks, stamp, userNames } from '../investigations/catalog'
+import { findInvestigation, liveBlocks, stamp, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
 import { datasetColumns } from '../datasets/catalog'
 import { attachedClaims, filterClaimMarks } from '../investigations/prose-claims'
@@ -162,6 +162,7 @@ export async function publish(actor: Actor, investigation: Investigation, option
   const { link, publication } = await sequelize.transaction(async (transaction) => {
     const publication = await models.Publication.create({
       investigationId: investigation.id, snapshot, publishedBy: actor.userId,
+      blockVersions: state.blocks.map(b => ({ blockId: b.id, version: b.version })),
       overrideReason: general.length ? options.reason! : null,
       disputedReason: disputed.length ? options.disputed!.reason : null,
       followUpConfirmedBy: followUpConfirmed ? actor.userId : null,
@@ -252,9 +253,21 @@ export async function revokeShareLink(actor: Actor, link: ShareLink) {
   if (link.revokedAt) return
   const { sequelize, models } = useDb()
   await sequelize.transaction(async (transaction) => {
-    await link.update({ revokedAt: new Date(), revokedBy: actor.userId }, { transaction })
+    // In the one lock order (the investigation's row first), and read again under the lock: of
+    // several withdrawals at once, one withdraws and writes the trail, the others find it done.
+    await models.Investigation.findByPk(link.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
+    const current = await models.ShareLink.findByPk(link.id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!current || current.revokedAt) return
+    await current.update({ revokedAt: new Date(), revokedBy: actor.userId }, { transaction })
     const stillOpen = await models.ShareLink.count({ where: { investigationId: link.investigationId, revokedAt: null }, transaction })
     if (!stillOpen) await models.Investigation.update({ status: 'in-review' }, { where: { id: link.investigationId, status: 'published' }, transaction })
     await recordAudit({ newsroomId: actor.newsroomId, investigationId: link.investigationId, actorId: actor.userId, action: 'investigation.unpublished', subjectType: 'share-link', subjectId: link.id }, transaction)
   })
+}
+
+/** A publication with its investigation, for the permission check; 404 when missing. */
+export async function findPublication(id: string): Promise<{ publication: Publication, investigation: Investigation }> {
+  const publication = await useDb().models.Publication.findByPk(id)
+  if (!publication) throw fail(404)
+  return { publication, investigation: await findInvestigation(publication.investigationId) }
 }
