@@ -1,5 +1,6 @@
 import { Model, DataTypes } from 'sequelize'
 import type { InferAttributes, InferCreationAttributes, CreationOptional, Sequelize } from 'sequelize'
+import type { ColumnReadings } from '#shared/types/dataset'
 
 export type DatasetStatus = 'importing' | 'ready' | 'failed'
 
@@ -27,6 +28,10 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
   declare encoding: CreationOptional<string | null>
   declare delimiter: CreationOptional<string | null>
   declare replacesId: string | null
+  /** The first reading of the same upload, when this one re-reads it (migration 0060). */
+  declare readingOf: CreationOptional<string | null>
+  declare readingNo: CreationOptional<number>
+  declare columnReadings: CreationOptional<ColumnReadings>
   declare archivedAt: CreationOptional<Date | null>
   declare createdBy: string
   declare createdAt: CreationOptional<Date>
@@ -59,6 +64,9 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
       encoding: DataTypes.TEXT,
       delimiter: DataTypes.TEXT,
       replacesId: DataTypes.UUID,
+      readingOf: DataTypes.UUID,
+      readingNo: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
+      columnReadings: { type: DataTypes.JSONB, allowNull: false, defaultValue: {} },
       archivedAt: DataTypes.DATE,
       createdBy: { type: DataTypes.UUID, allowNull: false },
       createdAt: DataTypes.DATE,

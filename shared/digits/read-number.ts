@@ -1,4 +1,4 @@
-import type { CellStatus, NumberStyle } from './types'
+import type { CellStatus, NegativeNotation, NumberStyle } from './types'
 
 /** A number as its decimal text wrote it: value = ±d1.d2d3… × 10^exponent. */
 export interface ReadNumber {
@@ -78,7 +78,10 @@ export function readNumber(cell: string | number | null | undefined, style: Numb
   if (typeof cell === 'number') return readJsNumber(cell)
   const grammar = GRAMMARS[style.decimalMark]
   const plain = grammar.plain.exec(cell)
-  if (plain) return fromParts(plain[1] === '-', plain[2]!, plain[3] ?? '', 0)
+  if (plain) {
+    if (plain[1] === '-' && style.negatives && style.negatives !== 'leading-minus') return UNREADABLE
+    return fromParts(plain[1] === '-', plain[2]!, plain[3] ?? '', 0)
+  }
   return readDecoratedText(cell, style, grammar)
 }
 
@@ -96,8 +99,9 @@ function readDecoratedText(cell: string, style: NumberStyle, grammar: StyleGramm
   if (text === '') return BLANK
   if (/\p{Nd}/u.test(text.replace(/[0-9]/g, ''))) return UNREADABLE
 
-  const peeled = peelDecorations(text)
+  const peeled = peelDecorations(style.currency ? stripCurrency(text, style.currency) : text)
   if (peeled.signs > 1 || peeled.percents > 1) return UNREADABLE
+  if (peeled.negative && style.negatives && peeled.notation !== style.negatives) return UNREADABLE
 
   const body = grammar.body.exec(peeled.text)
   if (!body) return UNREADABLE
@@ -108,10 +112,23 @@ function readDecoratedText(cell: string, style: NumberStyle, grammar: StyleGramm
   return fromParts(peeled.negative, integer, fraction, exponent)
 }
 
+/** The column's own currency mark taken off either end (once), with the spaces beside it. */
+function stripCurrency(text: string, currency: string): string {
+  const mark = currency.toLowerCase()
+  const lower = text.toLowerCase()
+  if (lower.startsWith(mark)) return text.slice(mark.length).trim()
+  if (lower.endsWith(mark)) return text.slice(0, -mark.length).trim()
+  // A sign may stand outside the mark: "-KSh 1,200", "(KSh 1,200)".
+  const inner = /^([-\u2212(]\s*)(.*?)(\s*\)?)$/.exec(text)
+  if (inner && inner[2]!.toLowerCase().startsWith(mark)) return `${inner[1]}${inner[2]!.slice(mark.length).trim()}${inner[3]}`
+  return text
+}
+
 /** Strips signs, parentheses, currency and percent marks from both ends, counting the signs. */
 function peelDecorations(cell: string) {
   let text = cell
   let negative = false
+  let notation: NegativeNotation | null = null
   let signs = 0
   let percents = 0
   let before: string
@@ -119,16 +136,19 @@ function peelDecorations(cell: string) {
     before = text
     if (text.startsWith('(') && text.endsWith(')')) {
       negative = true
+      notation = 'parentheses'
       signs++
       text = text.slice(1, -1)
     }
     else if (SIGN.test(text)) {
       negative = text[0] !== '+'
+      if (negative) notation = 'leading-minus'
       signs++
       text = text.slice(1)
     }
     else if (TRAILING_SIGN.test(text) && !/[eE][-+]$/.test(text)) {
       negative = !text.endsWith('+')
+      if (negative) notation = 'trailing-minus'
       signs++
       text = text.slice(0, -1)
     }
@@ -141,7 +161,7 @@ function peelDecorations(cell: string) {
     }
     text = text.trim()
   } while (text !== before)
-  return { text, negative, signs, percents }
+  return { text, negative, notation, signs, percents }
 }
 
 function foldDigits(cell: string, style: NumberStyle): string {

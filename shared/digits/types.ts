@@ -33,9 +33,19 @@ export type SignFilter = 'positive' | 'negative'
 
 export type CellStatus = 'blank' | 'unreadable' | 'zero' | 'number'
 
+/** How a column writes a negative number, when a reporter says so; unset, any of them is read. */
+export type NegativeNotation = 'leading-minus' | 'trailing-minus' | 'parentheses'
+
 /** How a column writes its numbers; decided once per column, never per cell. */
 export interface NumberStyle {
   decimalMark: '.' | ','
+  /**
+   * The one way this column writes negatives: a number written another way is unreadable, so that
+   * a stray sign (a dash meaning "none", a bracketed note) is listed rather than read as a negative.
+   */
+  negatives?: NegativeNotation
+  /** A currency mark to strip from either end besides the ones always read ("KSh", "Fr"), matched without regard to case. */
+  currency?: string
 }
 
 /**

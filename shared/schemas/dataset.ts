@@ -100,3 +100,42 @@ export const drillDownQuerySchema = z.object({
   period: periodSchema.optional(),
   group: z.string().max(1000).optional(),
 }).transform(query => ({ ...query, test: query.test ?? KEY_LENGTH_TESTS[query.key.length] ?? 'first-digit' }))
+
+/** Which cells of a column to list: left out of every test, or (outside) out of one test's range. */
+export const CELL_STATUSES = ['blank', 'unreadable', 'zero', 'negative', 'outside'] as const
+export type CellStatusAsked = typeof CELL_STATUSES[number]
+/** The tests that leave out values under a minimum (values under 10, or 100): their "outside the range" cells. */
+export const RANGED_TESTS = ['first-two-digits', 'first-three-digits', 'last-two-digits', 'summation', 'round-numbers'] as const
+export type RangedTest = typeof RANGED_TESTS[number]
+
+export const cellListQuerySchema = z.object({
+  column: z.string().min(1).max(200),
+  status: z.enum(CELL_STATUSES),
+  test: z.enum(RANGED_TESTS).optional(),
+  sign: z.enum(['positive', 'negative']).default('positive'),
+  page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(50),
+  /** csv: every such cell of the column as one download, not a page. */
+  format: z.enum(['json', 'csv']).default('json'),
+}).refine(q => q.status !== 'outside' || q.test, { path: ['test'], message: 'Say which test\'s range: first-two-digits, first-three-digits, last-two-digits, summation or round-numbers' })
+export type CellListQuery = z.output<typeof cellListQuerySchema>
+
+export const raggedQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).max(1_000_000).default(1),
+})
+
+const readingSchema = z.object({
+  kind: z.enum(['amount', 'count', 'date', 'text', 'identifier']).optional(),
+  decimalMark: z.enum(['.', ',']).optional(),
+  negatives: z.enum(['leading-minus', 'trailing-minus', 'parentheses']).optional(),
+  currency: z.string().trim().max(12, 'A currency mark of at most 12 characters').optional().transform(v => v || undefined)
+    .refine(v => !v || !/[\d.,()+\-\u2212]/.test(v), 'A currency mark has no digits, separators or signs'),
+  dateOrder: z.enum(['ymd', 'dmy', 'mdy']).optional(),
+}).strict()
+
+/** A new reading of a stored upload: how each named column is read; a column not named is read as detected. */
+export const rereadSchema = z.object({
+  columns: z.record(z.string().min(1).max(200), readingSchema)
+    .refine(columns => Object.keys(columns).length <= 2000, 'At most 2,000 columns'),
+})
+export type RereadBody = z.output<typeof rereadSchema>

@@ -61,6 +61,9 @@ export interface DatasetSummaryDTO {
   sha256: string
   /** The workbook sheet read, when not the first visible one. */
   sheet: string | null
+  /** Readings of one upload share their group (the first reading's id) and are numbered from 1. */
+  readingGroup: string
+  readingNo: number
 }
 
 export interface DatasetDTO extends DatasetSummaryDTO {
@@ -81,6 +84,37 @@ export interface DatasetDTO extends DatasetSummaryDTO {
   raggedRows: number
   replacesId: string | null
   columns: ColumnDTO[]
+  /** How this version was told to read its columns (empty for the upload's first reading). */
+  columnReadings: ColumnReadings
+  /** Every reading of the same upload, this one included, first to last. */
+  readings: ReadingDTO[]
+}
+
+/**
+ * How a reporter told one column to be read, after its import; an unset field is read as detected.
+ * `kind` amount, count or identifier reads the column as numbers, date or text as text.
+ */
+export interface ColumnReading {
+  kind?: ColumnKind
+  decimalMark?: '.' | ','
+  negatives?: 'leading-minus' | 'trailing-minus' | 'parentheses'
+  /** A currency mark to strip besides those always read, such as "KSh". */
+  currency?: string
+  dateOrder?: 'ymd' | 'dmy' | 'mdy'
+}
+
+/** The column readings of a dataset, by column name. */
+export type ColumnReadings = Record<string, ColumnReading>
+
+/** One reading of an upload: the same stored bytes, its columns read as `readings` say. */
+export interface ReadingDTO {
+  id: string
+  readingNo: number
+  status: DatasetStatus
+  archived: boolean
+  createdAt: string
+  createdBy: string
+  readings: ColumnReadings
 }
 
 export interface PageDTO<T> {
@@ -93,4 +127,20 @@ export interface PageDTO<T> {
 export interface RowDTO {
   rowNo: number
   cells: string[]
+  /** A ragged row (the rows page only): how many cells the file gave it, and those past the header. */
+  cellCount?: number
+  extra?: string[]
+}
+
+/** One listed cell: its row number and the text the file had there. */
+export interface CellDTO {
+  rowNo: number
+  text: string
+}
+
+/** A row with another number of cells than the header, and the cells past the header. */
+export interface RaggedRowDTO {
+  rowNo: number
+  cellCount: number
+  extra: string[]
 }

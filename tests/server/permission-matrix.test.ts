@@ -267,6 +267,24 @@ const ROWS: Row[] = [
     send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/rows?column=amount&key=1`),
   },
   {
+    route: 'GET /api/datasets/[id]/cells',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'Listing the cells a test left out reads the dataset, as its preview does; every member reads everything in the newsroom.',
+    send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/cells?column=amount&status=blank`),
+  },
+  {
+    route: 'GET /api/datasets/[id]/ragged-rows',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'As the cells: reading the dataset.',
+    send: (client, _t, desk) => client.get(`/api/datasets/${desk.datasetId}/ragged-rows`),
+  },
+  {
+    route: 'POST /api/datasets/[id]/readings',
+    expected: allowOnly(CREATORS, 201),
+    why: 'A new reading of the stored file makes a new dataset, as an upload or another sheet does; the dataset read from is not changed.',
+    send: (client, _t, desk) => client.post(`/api/datasets/${desk.datasetId}/readings`, { columns: { amount: { decimalMark: ',' } } }),
+  },
+  {
     route: 'POST /api/datasets/[id]/sheets',
     expected: allowOnly(CREATORS, 201),
     why: 'Reading another sheet of a stored workbook makes a new dataset, as an upload does.',

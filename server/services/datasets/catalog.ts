@@ -4,6 +4,7 @@ import { Op } from 'sequelize'
 import type { ColumnDTO, ColumnKind, DatasetDTO, DatasetSummaryDTO } from '#shared/types/dataset'
 import type { Dataset, DatasetColumn } from '../../models'
 import { dropPartitionsSql } from './partitions'
+import { readingsOf } from './readings'
 
 function summary(dataset: Dataset, creator: string): DatasetSummaryDTO {
   return {
@@ -11,6 +12,7 @@ function summary(dataset: Dataset, creator: string): DatasetSummaryDTO {
     rowCount: dataset.rowCount ?? null, byteSize: dataset.byteSize, originalName: dataset.originalName,
     createdAt: dataset.createdAt.toISOString(), createdBy: creator, archived: Boolean(dataset.archivedAt),
     obtainedOn: dataset.obtainedOn, sha256: dataset.sha256, sheet: dataset.sheet ?? null,
+    readingGroup: dataset.readingOf ?? dataset.id, readingNo: dataset.readingNo,
   }
 }
 
@@ -60,7 +62,7 @@ export async function describeDataset(dataset: Dataset): Promise<DatasetDTO> {
     format: dataset.format, encoding: dataset.encoding ?? null,
     compression: dataset.compression ?? null, archiveEntry: dataset.archiveEntry ?? null, sheets: dataset.sheets ?? null,
     delimiter: dataset.delimiter ?? null, raggedRows: dataset.raggedRows, replacesId: dataset.replacesId,
-    columns: await datasetColumns(dataset.id),
+    columns: await datasetColumns(dataset.id), columnReadings: dataset.columnReadings ?? {}, readings: await readingsOf(dataset),
   }
 }
 
@@ -103,6 +105,11 @@ export async function deleteDataset(actor: Actor, dataset: Dataset) {
   await sequelize.transaction(async (transaction) => {
     await sequelize.query(dropPartitionsSql(dataset.id), { transaction })
     await models.Dataset.update({ replacesId: null }, { where: { replacesId: dataset.id }, transaction })
+    // The first reading of an upload gone, the next one left becomes the first its later ones name.
+    await sequelize.query(`
+      WITH heir AS (SELECT id FROM datasets WHERE reading_of = :id ORDER BY reading_no LIMIT 1),
+      moved AS (UPDATE datasets SET reading_of = (SELECT id FROM heir) WHERE reading_of = :id AND id <> (SELECT id FROM heir))
+      UPDATE datasets SET reading_of = NULL WHERE id = (SELECT id FROM heir)`, { replacements: { id: dataset.id }, transaction })
     await dataset.destroy({ transaction })
     await recordAudit({ newsroomId: actor.newsroomId, actorId: actor.userId, action: 'dataset.deleted', subjectType: 'dataset', subjectId: dataset.id, detail: { title: dataset.title, sha256: dataset.sha256 } }, transaction)
   })

@@ -39,7 +39,14 @@ export class ColumnProfile {
   private readonly looksByCode: number[] = []
   readonly bySign = { positive: new SignProfile(), negative: new SignProfile() }
 
-  constructor(readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null) {}
+  /**
+   * `told`: the kind a reporter gave the column, which the counts then no longer decide; `numbersTold`:
+   * they said how its numbers are written, so it holds numbers however few of its cells read.
+   */
+  constructor(
+    readonly name: string, readonly numeric: boolean, readonly decimalMark: '.' | ',' | null,
+    readonly told: ColumnKind | null = null, readonly numbersTold = false,
+  ) {}
 
   private sample(cell: string) {
     if (this.samples.length < SAMPLES && !this.samples.includes(cell)) this.samples.push(clip(cell, 200))
@@ -103,8 +110,9 @@ export class ColumnProfile {
   }
 
   get kind(): ColumnKind {
+    if (this.told) return this.told
     const nonBlank = this.parsed + this.unreadable + this.textOnly
-    const mostlyNumbers = this.numeric && this.parsed >= Math.max(1, 0.5 * nonBlank)
+    const mostlyNumbers = this.numeric && (this.numbersTold || this.parsed >= Math.max(1, 0.5 * nonBlank))
     if (!mostlyNumbers) {
       if (nonBlank && this.dateLike >= 0.8 * nonBlank) return 'date'
       if (nonBlank && this.codeLike >= 0.9 * nonBlank && ID_NAME.test(this.name)) return 'identifier'

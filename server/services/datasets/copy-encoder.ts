@@ -245,7 +245,7 @@ export function uuidBytes(id: string): Buffer {
 
 // The rows and digit records leave out dataset_id: their import tables give it as the column's
 // default (import.ts), which costs PostgreSQL less than reading 16 bytes per row.
-export const ROW_COLUMNS = ['row_no', 'cells']
+export const ROW_COLUMNS = ['row_no', 'cells', 'cell_count', 'extra_cells']
 export const DIGIT_COLUMNS = [
   'column_pos', 'row_no', 'status', 'sign', 'value', 'first_digit', 'second_digit', 'first_two',
   'first_three', 'last_two', 'integer_digits', 'trailing_zeros', 'fraction_digits', 'mantissa', 'group_codes',
@@ -253,10 +253,25 @@ export const DIGIT_COLUMNS = [
 export const GROUP_VALUE_COLUMNS = ['dataset_id', 'column_pos', 'code', 'value', 'day']
 
 /** A row's `width` cells start at `from` in `cells`. */
-export function writeRow(out: CopyEncoder, rowNo: number, cells: readonly string[], from: number, width: number) {
-  out.row(2)
+/** A row the file gave another number of cells than the header: how many, and those past the header. */
+export interface RaggedRow {
+  cellCount: number
+  extra: string[]
+}
+
+/** One row's cells (the header's width of them from `from`), and for a ragged row its cell count and extra cells. */
+export function writeRow(out: CopyEncoder, rowNo: number, cells: readonly string[], from: number, width: number, ragged?: RaggedRow) {
+  out.row(4)
   out.int32(rowNo)
   out.textArray(cells, from, width)
+  if (!ragged) {
+    out.null()
+    out.null()
+    return
+  }
+  out.int32(ragged.cellCount)
+  if (ragged.extra.length) out.textArray(ragged.extra, 0, ragged.extra.length)
+  else out.null()
 }
 
 /** `codes` are the row's group codes (GroupCodes.codesOf). */

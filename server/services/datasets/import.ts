@@ -6,6 +6,7 @@ import type { ColumnProfile as SuitabilityProfile } from '#shared/digits'
 import type { Dataset } from '../../models'
 import { CopyStream } from './bulk-copy'
 import { DIGIT_COLUMNS, GROUP_VALUE_COLUMNS, ROW_COLUMNS } from './copy-encoder'
+import type { RaggedRow } from './copy-encoder'
 import { signCode, STATUS_CODES } from './digit-columns'
 import { CUBE_COLUMNS } from './digit-cube'
 import { inflatedHead, inflatedOpener } from './compressed'
@@ -107,7 +108,7 @@ export async function importDataset(datasetId: string): Promise<void> {
   const job: ImportJob = { datasetId, dataset, names: partitionNames(datasetId), openRaw, openStored }
 
   // The encoding thread starts, the file's encoding is found and the tables are made side by side.
-  const encoder = new RowEncoderWorker(datasetId)
+  const encoder = new RowEncoderWorker(datasetId, dataset.columnReadings)
   const detected = detectFormatEncoding(job)
   detected.catch(() => {}) // awaited below; a failure before then must not go unhandled
   try {
@@ -183,15 +184,20 @@ async function streamRows(
       encoder.header(batch[0]!)
       from = 1
     }
-    // The cells one after another, each row cut or padded to the header's width.
+    // The cells one after another, each row cut or padded to the header's width; a ragged row's
+    // cell count and the cells past the header go beside them, so nothing of the file is lost.
     const cells: string[] = []
+    const raggedRows: [number, RaggedRow][] = []
     for (let i = from; i < batch.length; i++) {
       const raw = batch[i]!
-      if (raw.length !== width) ragged++
+      if (raw.length !== width) {
+        ragged++
+        raggedRows.push([i - from, { cellCount: raw.length, extra: raw.slice(width) }])
+      }
       for (let c = 0; c < width; c++) cells.push(raw[c] ?? '')
     }
     if (from === batch.length) continue
-    const encoding = encoder.encode(cells, batch.length - from)
+    const encoding = encoder.encode(cells, batch.length - from, raggedRows)
     // Awaited in order below; one that fails before its turn (the thread refused the header) must not go unhandled.
     encoding.catch(() => {})
     ahead.push(encoding)
@@ -215,9 +221,10 @@ async function streamRows(
  * Should this fail, queries stay right, only slower, and autovacuum still gathers statistics.
  * One connection does it all, leaving the other core to the reporter's first questions.
  */
-async function speedUp({ datasetId, names }: ImportJob, db: Connections) {
+async function speedUp({ datasetId, names, dataset }: ImportJob, db: Connections) {
   await db.rows.query(`
     CREATE INDEX IF NOT EXISTS ${names.rows}_row_no ON ${names.rows} (row_no);
+    ${dataset.raggedRows ? `CREATE INDEX IF NOT EXISTS ${names.rows}_ragged ON ${names.rows} (row_no) WHERE cell_count IS NOT NULL;` : ''}
     CREATE INDEX IF NOT EXISTS ${names.digits}_column_row ON ${names.digits} (column_pos, row_no);
     CREATE INDEX IF NOT EXISTS ${names.digits}_column_value ON ${names.digits} (column_pos, value);
     CREATE INDEX IF NOT EXISTS ${names.cube}_cells ON ${names.cube} (column_pos, group_pos, pair_pos);

@@ -1,9 +1,10 @@
+import type { RaggedRow } from './copy-encoder'
 import type { EncodedImport } from './row-encoder'
 
 /** From the import to its encoding thread. Rows travel as their cells joined by NUL, which no cell holds (readers.ts). */
 export type ToEncoder
   = | { type: 'header', cells: string[] }
-    | { type: 'rows', packed: string, count: number }
+    | { type: 'rows', packed: string, count: number, ragged: [number, RaggedRow][] }
     | { type: 'finish' }
 
 /** From the encoding thread: one 'bytes' per 'rows', one 'done' for 'finish', or 'failed' once. */

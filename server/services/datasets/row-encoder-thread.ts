@@ -7,9 +7,10 @@ import { parentPort, workerData } from 'node:worker_threads'
 import { RowEncoder } from './row-encoder'
 import { UnreadableFile } from './sniff'
 import type { FromEncoder, ToEncoder } from './row-encoder-messages'
+import type { ColumnReadings } from '#shared/types/dataset'
 
 const port = parentPort!
-const { datasetId } = workerData as { datasetId: string }
+const { datasetId, readings } = workerData as { datasetId: string, readings: ColumnReadings }
 let encoder: RowEncoder | null = null
 // After a failure the import stops; rows still on their way are not worth an error each.
 let failed = false
@@ -21,14 +22,14 @@ function post(message: FromEncoder, buffers: Uint8Array[]) {
 
 function handle(message: ToEncoder) {
   if (message.type === 'header') {
-    encoder = new RowEncoder(datasetId, message.cells)
+    encoder = new RowEncoder(datasetId, message.cells, readings)
     return
   }
   if (message.type === 'rows') {
     const width = encoder!.width
     const cells = width ? message.packed.split('\0') : []
     if (cells.length !== message.count * width) throw new Error(`${message.count} rows of ${width} cells arrived as ${cells.length} cells.`)
-    encoder!.add(cells, message.count)
+    encoder!.add(cells, message.count, message.ragged)
     const { rows: rowBytes, digits } = encoder!.take()
     post({ type: 'bytes', rows: rowBytes, digits }, [...rowBytes, ...digits])
     return

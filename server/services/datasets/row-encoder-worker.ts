@@ -2,6 +2,8 @@ import { Worker } from 'node:worker_threads'
 import threadScript from 'thread-script:./row-encoder-thread'
 import type { EncodedImport } from './row-encoder'
 import type { FromEncoder, ToEncoder } from './row-encoder-messages'
+import type { ColumnReadings } from '#shared/types/dataset'
+import type { RaggedRow } from './copy-encoder'
 import { UnreadableFile } from './sniff'
 
 /** Enough for the digit counts (up to 8,000 cells of 9 KB) and the group codes of a wide file. */
@@ -23,8 +25,9 @@ export class RowEncoderWorker {
   private readonly waiting: { resolve: (message: FromEncoder) => void, reject: (error: Error) => void }[] = []
   private failure: Error | null = null
 
-  constructor(datasetId: string) {
-    this.worker = new Worker(threadScript, { eval: true, workerData: { datasetId }, resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB } })
+  /** `readings`: how the reporter told columns to be read (a re-read of a stored upload), by name. */
+  constructor(datasetId: string, readings: ColumnReadings = {}) {
+    this.worker = new Worker(threadScript, { eval: true, workerData: { datasetId, readings }, resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB } })
     this.worker.on('message', (message: FromEncoder) => {
       if (message.type === 'failed') this.fail(message.status ? new UnreadableFile(message.message, message.status) : new Error(message.message))
       else this.waiting.shift()?.resolve(message)
@@ -50,9 +53,9 @@ export class RowEncoderWorker {
     if (!this.failure) this.worker.postMessage({ type: 'header', cells } satisfies ToEncoder)
   }
 
-  /** `count` rows, their cells one after another, the header's width to a row. */
-  async encode(cells: readonly string[], count: number): Promise<Encoded> {
-    const reply = await this.send({ type: 'rows', packed: cells.join('\0'), count })
+  /** `count` rows, their cells one after another, the header's width to a row; `ragged`: rows of another width, by place in the batch. */
+  async encode(cells: readonly string[], count: number, ragged: [number, RaggedRow][] = []): Promise<Encoded> {
+    const reply = await this.send({ type: 'rows', packed: cells.join('\0'), count, ragged })
     if (reply.type !== 'bytes') throw new Error(`The encoding thread answered rows with "${reply.type}".`)
     return { rows: buffers(reply.rows), digits: buffers(reply.digits) }
   }

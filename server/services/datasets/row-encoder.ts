@@ -1,10 +1,11 @@
 import { RULES, detectNumberStyle, recordOf, readNumber } from '#shared/digits'
 import type { ColumnProfile as SuitabilityProfile, NumberStyle } from '#shared/digits'
 import { dayText, detectDateOrder, readDate } from '#shared/dates/read-date'
-import type { DateReadingDTO, ValueLadder } from '#shared/types/dataset'
+import type { ColumnReadings, DateReadingDTO, ValueLadder } from '#shared/types/dataset'
 import { ColumnProfile, clip } from './column-profile'
 import type { ColumnKind } from './column-profile'
 import { CopyEncoder, uuidBytes, writeDigits, writeGroupValue, writeRow } from './copy-encoder'
+import type { RaggedRow } from './copy-encoder'
 import { DigitCubeCounter, choosePairs } from './digit-cube'
 import { FrequentValues } from './frequent-values'
 import type { Leader } from './frequent-values'
@@ -30,11 +31,23 @@ function headerNames(raw: string[]): string[] {
   })
 }
 
-/** A column is tested as numbers when most of its sampled non-blank cells read as numbers. */
-function planColumns(names: string[], sample: string[][]) {
+const NUMBER_KINDS: ReadonlySet<ColumnKind> = new Set(['amount', 'count'])
+const TEXT_KINDS: ReadonlySet<ColumnKind> = new Set(['date', 'text'])
+
+/**
+ * A column is tested as numbers when most of its sampled non-blank cells read as numbers, unless the
+ * reporter said how to read it (`readings`, by column name): an amount or count is read as numbers,
+ * a date or text as text, and a decimal mark, negatives or currency told make it numbers too.
+ */
+function planColumns(names: string[], sample: string[][], readings: ColumnReadings) {
   return names.map((name, position) => {
+    const reading = readings[name] ?? {}
     const cells = sample.map(row => row[position] ?? '')
-    const style: NumberStyle = { decimalMark: detectNumberStyle(cells).decimalMark }
+    const style: NumberStyle = {
+      decimalMark: reading.decimalMark ?? detectNumberStyle(cells).decimalMark,
+      ...(reading.negatives ? { negatives: reading.negatives } : {}),
+      ...(reading.currency ? { currency: reading.currency } : {}),
+    }
     let filled = 0
     let numbers = 0
     for (const cell of cells) {
@@ -43,8 +56,11 @@ function planColumns(names: string[], sample: string[][]) {
       filled++
       if (status === 'number' || status === 'zero') numbers++
     }
-    const numeric = filled > 0 && numbers >= 0.6 * filled
-    return { style, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null) }
+    const detected = filled > 0 && numbers >= 0.6 * filled
+    // A decimal mark, a way of writing negatives or a currency, told, says the column holds numbers.
+    const toldNumbers = Boolean(reading.decimalMark || reading.negatives || reading.currency)
+    const numeric = reading.kind ? NUMBER_KINDS.has(reading.kind) || (!TEXT_KINDS.has(reading.kind) && (toldNumbers || detected)) : toldNumbers || detected
+    return { style, dateOrder: reading.dateOrder ?? null, profile: new ColumnProfile(name, numeric, numeric ? style.decimalMark : null, reading.kind ?? null, numeric && toldNumbers) }
   })
 }
 
@@ -115,8 +131,12 @@ export class RowEncoder {
   private frequent: ((readonly [FrequentValues, FrequentValues]) | null)[] = []
   private sample: string[][] = []
   private rowNo = 0
+  /** Rows added so far, written or waiting in the sample. */
+  private added = 0
+  /** Ragged rows not yet written, by row number. */
+  private readonly ragged = new Map<number, RaggedRow>()
 
-  constructor(datasetId: string, rawHeader: string[]) {
+  constructor(datasetId: string, rawHeader: string[], private readonly readings: ColumnReadings = {}) {
     if (rawHeader.length > MAX_COLUMNS) throw new UnreadableFile(`The header has ${rawHeader.length} columns; Mantissa reads at most ${MAX_COLUMNS}. Remove the columns the story does not need and upload again.`)
     this.dataset = uuidBytes(datasetId)
     this.header = headerNames(rawHeader)
@@ -127,8 +147,13 @@ export class RowEncoder {
     return this.header.length
   }
 
-  /** `count` rows in file order, their cells one after another, `width` to a row (JSON records without keys have none). */
-  add(cells: readonly string[], count: number) {
+  /**
+   * `count` rows in file order, their cells one after another, `width` to a row (JSON records without
+   * keys have none); `ragged` gives, for rows of another width, their place in this batch and what they had.
+   */
+  add(cells: readonly string[], count: number, ragged: readonly (readonly [number, RaggedRow])[] = []) {
+    for (const [at, row] of ragged) this.ragged.set(this.added + at + 1, row)
+    this.added += count
     const width = this.width
     for (let row = 0, from = 0; row < count; row++, from += width) {
       if (this.plan) this.write(cells, from)
@@ -172,7 +197,8 @@ export class RowEncoder {
   private readDates(position: number): { days: (number | null)[], reading: DateReadingDTO } | null {
     const codes = this.groupCodes!
     if (!codes.isCoded(position)) return null
-    const { order, settled } = detectDateOrder([...codes.valuesOf(position)].map(([value]) => value))
+    const told = this.plan![position]!.dateOrder
+    const { order, settled } = told ? { order: told, settled: true } : detectDateOrder([...codes.valuesOf(position)].map(([value]) => value))
     const days: (number | null)[] = []
     let read = 0
     let unread = 0
@@ -228,7 +254,7 @@ export class RowEncoder {
 
   /** Once the sample is read: how each column is read, the text columns' codes, and the digit counts. */
   private startCounting() {
-    const plan = planColumns(this.header, this.sample)
+    const plan = planColumns(this.header, this.sample, this.readings)
     const numbers = plan.flatMap(({ profile }, position) => (profile.numeric ? [position] : []))
     const texts = plan.flatMap(({ profile }, position) => (profile.numeric ? [] : [position]))
     this.plan = plan
@@ -250,7 +276,9 @@ export class RowEncoder {
     const plan = this.plan!
     const width = plan.length
     const rowNo = ++this.rowNo
-    writeRow(this.rows, rowNo, cells, from, width)
+    const ragged = this.ragged.get(rowNo)
+    if (ragged) this.ragged.delete(rowNo)
+    writeRow(this.rows, rowNo, cells, from, width, ragged)
     const codes = this.groupCodes!.codesOf(cells, from)
     for (let c = 0; c < width; c++) {
       const column = plan[c]!

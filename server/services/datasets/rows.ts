@@ -29,10 +29,13 @@ export async function previewRows(dataset: Dataset, page: number, sort?: string,
     }
     else order = `r.cells[${column.position + 1}] ${dir}, r.row_no`
   }
-  const items = await rawSelect<RowDTO>(
-    `SELECT r.row_no AS "rowNo", r.cells FROM dataset_rows r ${join} WHERE r.dataset_id = :datasetId ORDER BY ${order} LIMIT ${PAGE_SIZE} OFFSET :offset`,
+  const found = await rawSelect<RowDTO & { cellCount: number | null, extra: string[] | null }>(
+    `SELECT r.row_no AS "rowNo", r.cells, r.cell_count AS "cellCount", r.extra_cells AS extra FROM dataset_rows r ${join}
+     WHERE r.dataset_id = :datasetId ORDER BY ${order} LIMIT ${PAGE_SIZE} OFFSET :offset`,
     { datasetId: dataset.id, offset: (page - 1) * PAGE_SIZE },
   )
+  // A ragged row says how many cells it had, and shows those past the header.
+  const items = found.map(({ cellCount, extra, ...row }): RowDTO => (cellCount === null ? row : { ...row, cellCount, extra: extra ?? [] }))
   return { page, pageSize: PAGE_SIZE, total: dataset.rowCount ?? 0, items }
 }
 

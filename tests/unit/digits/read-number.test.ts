@@ -73,6 +73,27 @@ describe('reading numbers from text', () => {
     expect(read('-(12)')).toBe('unreadable')
   })
 
+  it('reads only the way of writing negatives a reporter told, leaving the others unreadable', () => {
+    // docs/product-rules.md ("Reading a column again"): leading minus, trailing minus or parentheses.
+    const only = (negatives: 'leading-minus' | 'trailing-minus' | 'parentheses') => ({ decimalMark: '.' as const, negatives })
+    expect(['-12', '12-', '(12)', '12', '+12'].map(cell => read(cell, only('leading-minus')))).toEqual(['-12e1', 'unreadable', 'unreadable', '12e1', '12e1'])
+    expect(['-12', '12-', '(12)', '1,200.50-'].map(cell => read(cell, only('trailing-minus')))).toEqual(['unreadable', '-12e1', 'unreadable', '-12005e3'])
+    expect(['-12', '12-', '(12)', '(1,200.50)', '€(12)'].map(cell => read(cell, only('parentheses')))).toEqual(['unreadable', 'unreadable', '-12e1', '-12005e3', '-12e1'])
+  })
+
+  it('strips a currency mark a reporter named, at either end and inside a sign, whatever its case', () => {
+    const shillings = { decimalMark: '.' as const, currency: 'KSh' }
+    expect(read('KSh 1,200', shillings)).toBe('12e3')
+    expect(read('1,200 ksh', shillings)).toBe('12e3')
+    expect(read('-KSh 40.5', shillings)).toBe('-405e1')
+    expect(read('(KSh 40.5)', shillings)).toBe('-405e1')
+    // Unnamed, the mark is no currency Mantissa knows, so the cell is unreadable.
+    expect(read('KSh 1,200')).toBe('unreadable')
+    // Read with a decimal comma, the cells: 93,19 is 93.19 and 1.337,69 is 1337.69.
+    expect(read('93,19', COMMA_STYLE)).toBe('9319e1')
+    expect(read('1.337,69', COMMA_STYLE)).toBe('133769e3')
+  })
+
   it('reads percent signs as the figure printed, exponents and surrounding spaces', () => {
     expect(read('12%')).toBe('12e1')
     expect(read('%12')).toBe('12e1')
