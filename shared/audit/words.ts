@@ -37,6 +37,7 @@ export const AUDIT_WORDS: Record<string, string> = {
   'dataset.archived': 'archived a dataset',
   'dataset.deleted': 'deleted a dataset',
   'dataset.restored': 'brought back an archived dataset',
+  'dataset.reread': 'read a dataset’s columns another way, as a new reading of the same file',
   'thread.resolved': 'resolved a conversation',
   'thread.reopened': 'reopened a conversation',
 }

@@ -10,7 +10,7 @@ import { placeLabels } from '../history/places'
 import { datasetTitles } from '../history/versions'
 
 const NEWSROOM_ACTIONS = ['member.role-changed', 'member.removed', 'member.joined', 'member.invited', 'member.invitation-revoked']
-const DATASET_ACTIONS = ['dataset.imported', 'dataset.archived', 'dataset.deleted']
+const DATASET_ACTIONS = ['dataset.imported', 'dataset.archived', 'dataset.restored', 'dataset.reread', 'dataset.deleted']
 
 export type AuditQuery = z.output<typeof auditQuerySchema>
 
