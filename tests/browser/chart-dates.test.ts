@@ -78,7 +78,11 @@ describe('the date range under a chart', () => {
     for (const path of [`/p/${dated.token}`, `/embed/${dated.token}/${dated.index}`]) {
       const page = await openPublic(path)
       expect(await subtitleOf(page), path).toBe(DATED_SUBTITLE)
-      if (path.startsWith('/p/')) expect(wordsOfSvg(await downloaded(page, 'Chart as SVG'))).toContain(DATED_SUBTITLE)
+      if (path.startsWith('/p/')) {
+        expect(wordsOfSvg(await downloaded(page, 'Chart as SVG'))).toContain(DATED_SUBTITLE)
+        // The methodology's list of datasets states the range beside the file's fingerprint.
+        await expect(page.locator('section[aria-label="Methodology"] p', { hasText: 'Invented quay payments, dated' }).last().textContent()).resolves.toContain(DATED_PAYMENTS_RANGE.replace('dataset dated', 'dated'))
+      }
       await page.context().close()
     }
   })
@@ -91,6 +95,7 @@ describe('the date range under a chart', () => {
     for (const path of [`/p/${undated.token}`, `/embed/${undated.token}/${undated.index}`]) {
       const page = await openPublic(path)
       expect(await subtitleOf(page), path).toBe(UNDATED_SUBTITLE)
+      if (path.startsWith('/p/')) await expect(page.locator('section[aria-label="Methodology"] p', { hasText: 'Invented harbour payments' }).last().textContent()).resolves.not.toMatch(/dated/)
       await page.context().close()
     }
   })

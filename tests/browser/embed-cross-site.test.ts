@@ -105,6 +105,8 @@ describe('a published chart inside another site’s page', () => {
       await expect.poll(fitted, { timeout: 10_000 }).toBe(true)
       await inside.getByRole('link', { name: chart.title }).scrollIntoViewIfNeeded()
       await expect(inside.getByRole('link', { name: chart.title }).isVisible()).resolves.toBe(true)
+      // Nothing of the embed is scrolled out of sight inside the frame: its title shows at the frame's top.
+      expect(await frame.evaluate(() => window.scrollY)).toBe(0)
       await screenshot(page, `embed-elsewhere-${column}`)
 
       // The app started inside the frame (a browser that refuses a third-party frame its storage once stopped it) and nothing was blocked.
