@@ -9,6 +9,20 @@ export default withNuxt({
     'vue/multiline-html-element-content-newline': 'off',
   },
 }, {
+  // The engine is plain TypeScript: its modules import one another and two pure maths packages
+  // (jstat; stdlib's regularized incomplete beta, for tails jstat cannot give), nothing else
+  // (no Vue, Nitro, database or Node built-ins), so that it runs the same in the page, the server and a thread.
+  files: ['shared/digits/**'],
+  rules: {
+    'no-restricted-imports': ['error', { patterns: [{ regex: '^(?!\\./|jstat$|@stdlib/math-base-special-betainc$)', message: 'The digit engine imports only its own modules (./…), jstat and @stdlib/math-base-special-betainc.' }] }],
+  },
+}, {
+  // Everything else reaches the engine through its index, which is its one public surface.
+  ignores: ['shared/digits/**'],
+  rules: {
+    'no-restricted-imports': ['error', { patterns: [{ regex: '(^|/)digits/', message: 'Import the digit engine from \'#shared/digits\' (its index).' }] }],
+  },
+}, {
   // Test clients read replies of many shapes; typing each one adds nothing to what the assertions check.
   files: ['tests/**'],
   rules: { '@typescript-eslint/no-explicit-any': 'off' },

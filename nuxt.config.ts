@@ -80,13 +80,14 @@ export default defineNuxtConfig({
       include: ['../tests/components/**/*'],
     },
     sharedTsConfig: { compilerOptions: { noUnusedLocals: true } },
-    // Browser tests run in Node but hand functions to the page, so they see both Node's and the DOM's types.
+    // Browser tests run in Node but hand functions to the page, so they see both Node's and the DOM's
+    // types; their helpers reach server code (the newsroom script), so the server's auto-imports too.
     nodeTsConfig: {
       compilerOptions: {
         noUnusedLocals: true, lib: ['ESNext', 'DOM', 'DOM.Iterable'], types: ['node'],
-        paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'] },
+        paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'], '#server': ['../server'], '#server/*': ['../server/*'] },
       },
-      include: ['../tests/vitest.config.ts', '../tests/browser/**/*', '../tests/support/browser.ts'],
+      include: ['../tests/vitest.config.ts', '../tests/browser/**/*', '../tests/support/browser.ts', './types/nitro.d.ts', '../shared/**/*.d.ts'],
     },
   },
   telemetry: false,

@@ -2,21 +2,15 @@
  * Digit extraction speed: reads 1M numeric strings into digit records, as an import does.
  * Run: npx tsx bench/digits.bench.ts. Figures are printed for the notes, never asserted.
  */
-import { toDigitRecord } from '../shared/digits/digit-record'
-import { runDigitTest } from '../shared/digits/run-digit-test'
+import { toDigitRecord, runDigitTest } from '../shared/digits'
+import { seededRandom } from '../server/services/demo/seeded-random'
 
 const COUNT = 1_000_000
 const ROUNDS = 3
 
-/** Deterministic amounts spread over six orders of magnitude (mulberry32). */
+/** Deterministic amounts spread over six orders of magnitude. */
 function amounts(count: number, seed: number): number[] {
-  let state = seed
-  const next = () => {
-    state = (state + 0x6D2B79F5) | 0
-    let t = Math.imul(state ^ (state >>> 15), 1 | state)
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
+  const next = seededRandom(seed)
   return Array.from({ length: count }, () => Math.round(10 ** (next() * 6) * 100) / 100)
 }
 

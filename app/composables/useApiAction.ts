@@ -10,7 +10,8 @@ export function useApiAction() {
   const fields = ref<Record<string, string>>({})
   const busy = ref(false)
 
-  async function run(action: () => Promise<void>) {
+  /** `onError` sees the failure too, for a form that reads more of the reply than its messages. */
+  async function run(action: () => Promise<void>, { onError }: { onError?: (error: unknown) => void } = {}) {
     error.value = ''
     fields.value = {}
     busy.value = true
@@ -19,20 +20,21 @@ export function useApiAction() {
     }
     catch (e) {
       ;({ message: error.value, fields: fields.value } = describeApiError(e))
+      onError?.(e)
     }
     finally {
       busy.value = false
     }
   }
 
-  async function submit<S extends ZodType>(schema: S, values: unknown, action: (data: output<S>) => Promise<void>) {
+  async function submit<S extends ZodType>(schema: S, values: unknown, action: (data: output<S>) => Promise<void>, options: { onError?: (error: unknown) => void } = {}) {
     const parsed = schema.safeParse(values)
     if (!parsed.success) {
       error.value = ''
       fields.value = Object.fromEntries(parsed.error.issues.map(i => [i.path.join('.'), i.message]))
       return
     }
-    await run(() => action(parsed.data))
+    await run(() => action(parsed.data), options)
   }
 
   return { error, fields, busy, run, submit }

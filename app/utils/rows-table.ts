@@ -1,7 +1,6 @@
 import { BitSet, table as columnTable } from 'arquero'
 import type { ColumnTable } from 'arquero'
-import { readNumber } from '#shared/digits/read-number'
-import { decimalText } from '#shared/digits/digit-record'
+import { readNumber, decimalText } from '#shared/digits'
 import { inertText } from '#shared/export/csv'
 import type { ColumnDTO, RowDTO } from '#shared/types/dataset'
 

@@ -1,4 +1,4 @@
-import { loadMe } from '../services/sign-in'
+import { loadMe } from '#server/services/sign-in'
 
 export default defineEventHandler(async (event) => {
   const { user, session } = await requireSession(event)

@@ -1,36 +1,22 @@
 // Creates a newsroom and an admin invitation on a running database, for the first admin of
 // a fresh installation: `npm run newsroom:create -- "Newsroom name" admin@example.org`.
-import { createHash, randomBytes } from 'node:crypto'
-import pg from 'pg'
+import { QueryTypes } from 'sequelize'
+import { storeInvitation } from '../services/invitations'
+import { openDb } from '../utils/db'
 
 export async function createNewsroomWithAdminInvitation(databaseUrl: string, name: string, email: string) {
-  const client = new pg.Client({ connectionString: databaseUrl })
-  await client.connect()
-  try {
-    await client.query('BEGIN')
-    const token = randomBytes(32).toString('base64url')
-    const tokenHash = createHash('sha256').update(token).digest('hex')
-    const { rows: [newsroom] } = await client.query('INSERT INTO newsrooms (name) VALUES ($1) RETURNING id', [name])
+  const { sequelize, models } = openDb(databaseUrl)
+  return sequelize.transaction(async (transaction) => {
+    const newsroom = await models.Newsroom.create({ name }, { transaction })
     // An invitation needs an inviter: a system account that can never sign in (its hash matches no password).
-    const { rows: [system] } = await client.query(
+    const [system] = await sequelize.query<{ id: string }>(
       `INSERT INTO users (email, name, password_hash) VALUES ('system@mantissa.invalid', 'Mantissa setup', '!')
        ON CONFLICT (email) DO UPDATE SET name = EXCLUDED.name RETURNING id`,
+      { type: QueryTypes.SELECT, transaction },
     )
-    await client.query(
-      `INSERT INTO invitations (newsroom_id, email, role, token_hash, invited_by, expires_at)
-       VALUES ($1, $2, 'admin', $3, $4, now() + interval '7 days')`,
-      [newsroom.id, email.trim().toLowerCase(), tokenHash, system.id],
-    )
-    await client.query('COMMIT')
-    return { newsroomId: newsroom.id as string, token }
-  }
-  catch (error) {
-    await client.query('ROLLBACK')
-    throw error
-  }
-  finally {
-    await client.end()
-  }
+    const { token } = await storeInvitation({ newsroomId: newsroom.id, email: email.trim().toLowerCase(), role: 'admin', invitedBy: system!.id }, transaction)
+    return { newsroomId: newsroom.id, token }
+  })
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
@@ -41,5 +27,6 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     process.exit(2)
   }
   const { token } = await createNewsroomWithAdminInvitation(url, name, email)
+  await openDb(url).sequelize.close()
   console.log(`Newsroom "${name}" created. The first admin joins at: ${process.env.NUXT_PUBLIC_URL ?? 'http://localhost:3000'}/join/${token}`)
 }

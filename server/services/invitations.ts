@@ -1,11 +1,41 @@
 import { Op } from 'sequelize'
+import type { Transaction } from 'sequelize'
 import type { Role } from '#shared/auth/roles'
 import { ROLE_LABELS } from '#shared/auth/roles'
 import type { InvitationDTO, InvitationPeekDTO, UserDTO } from '#shared/types/dto'
+// Imported, not auto-imported: `npm run newsroom:create` stores its invitation here too.
+import { recordAudit } from '../utils/audit'
+import { useDb } from '../utils/db'
 import type { Actor } from '../utils/permissions'
 import { confirmPassword } from './sign-in'
+import { createToken, hashToken } from '../utils/tokens'
 
 const VALID_DAYS = 7
+
+/**
+ * Stores an invitation, replacing any pending one for the same address, with its audit event;
+ * returns it with the token its link carries (only the hash is kept).
+ */
+export async function storeInvitation(invite: { newsroomId: string, email: string, role: Role, invitedBy: string }, transaction: Transaction) {
+  const { sequelize, models } = useDb()
+  const token = createToken()
+  const expiresAt = new Date(Date.now() + VALID_DAYS * 24 * 3600 * 1000)
+  // A newer invitation replaces any pending one for the same address; two sent at the same moment
+  // queue on this lock, so exactly one stays pending (the index invitations_one_pending holds it).
+  await sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:key))', { replacements: { key: `invitation:${invite.newsroomId}:${invite.email}` }, transaction })
+  await models.Invitation.update({ revokedAt: new Date() }, {
+    where: { newsroomId: invite.newsroomId, email: invite.email, acceptedAt: null, revokedAt: null }, transaction,
+  })
+  const invitation = await models.Invitation.create({
+    newsroomId: invite.newsroomId, email: invite.email, role: invite.role, tokenHash: hashToken(token),
+    invitedBy: invite.invitedBy, expiresAt, acceptedAt: null, revokedAt: null,
+  }, { transaction })
+  await recordAudit({
+    newsroomId: invite.newsroomId, actorId: invite.invitedBy, action: 'member.invited',
+    subjectType: 'invitation', subjectId: invitation.id, detail: { email: invite.email, role: invite.role },
+  }, transaction)
+  return { invitation, token }
+}
 
 /** Creates an invitation and e-mails its link; only the token's hash is stored. */
 export async function createInvitation(actor: Actor, email: string, role: Role): Promise<InvitationDTO> {
@@ -16,25 +46,8 @@ export async function createInvitation(actor: Actor, email: string, role: Role):
   })
   if (existing) throw fail(409, [{ path: 'email', message: 'This person is already a member.' }])
 
-  const token = createToken()
-  const expiresAt = new Date(Date.now() + VALID_DAYS * 24 * 3600 * 1000)
-  const invitation = await sequelize.transaction(async (transaction) => {
-    // A newer invitation replaces any pending one for the same address; two sent at the same moment
-    // queue on this lock, so exactly one stays pending (the index invitations_one_pending holds it).
-    await sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:key))', { replacements: { key: `invitation:${actor.newsroomId}:${email}` }, transaction })
-    await models.Invitation.update({ revokedAt: new Date() }, {
-      where: { newsroomId: actor.newsroomId, email, acceptedAt: null, revokedAt: null }, transaction,
-    })
-    const created = await models.Invitation.create({
-      newsroomId: actor.newsroomId, email, role, tokenHash: hashToken(token),
-      invitedBy: actor.userId, expiresAt, acceptedAt: null, revokedAt: null,
-    }, { transaction })
-    await recordAudit({
-      newsroomId: actor.newsroomId, actorId: actor.userId, action: 'member.invited',
-      subjectType: 'invitation', subjectId: created.id, detail: { email, role },
-    }, transaction)
-    return created
-  })
+  const { invitation, token } = await sequelize.transaction(transaction =>
+    storeInvitation({ newsroomId: actor.newsroomId, email, role, invitedBy: actor.userId }, transaction))
 
   const newsroom = await models.Newsroom.findByPk(actor.newsroomId)
   const link = `${useRuntimeConfig().publicUrl}/join/${token}`
@@ -44,7 +57,7 @@ export async function createInvitation(actor: Actor, email: string, role: Role):
     text: [
       `${actor.name} has invited you to join ${newsroom?.name} on Mantissa as ${ROLE_LABELS[role].toLowerCase()}.`,
       '',
-      `Open this link to choose your name and password (it works once, until ${expiresAt.toUTCString()}):`,
+      `Open this link to choose your name and password (it works once, until ${invitation.expiresAt.toUTCString()}):`,
       link,
       '',
       'If you did not expect this, ignore this message.',

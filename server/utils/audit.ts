@@ -1,4 +1,6 @@
 import type { Transaction } from 'sequelize'
+// Imported, not auto-imported: the command-line scripts record events too.
+import { useDb } from './db'
 
 export interface AuditEntry {
   newsroomId: string

@@ -15,8 +15,15 @@ let db: Db | undefined
  * tracer misses Sequelize's dynamic require of it.
  */
 export function useDb(): Db {
+  return db ?? openDb(useRuntimeConfig().databaseUrl)
+}
+
+/**
+ * Opens the process's handle on `url` outside the app (the command-line scripts, the tests'
+ * helpers), so that the services they call reach the same database through `useDb`.
+ */
+export function openDb(url: string): Db {
   if (db) return db
-  const url = useRuntimeConfig().databaseUrl
   if (!url) throw new Error('NUXT_DATABASE_URL is not set')
   const sequelize = connect(url)
   models.setupModels(sequelize)

@@ -1,7 +1,7 @@
 import type { Role } from './roles'
 
 /**
- * Who may do what, in one table (DESIGN.md, "Who does what").
+ * Who may do what, in one table (docs/product-rules.md, "Who does what").
  * 'any' = on every record of the newsroom; 'own' = only on records the member created.
  * The server decides with this table; pages use it only to hide buttons.
  */
@@ -24,14 +24,12 @@ const TABLE = {
   'claim.remove': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'claim.verify': { 'admin': 'any', 'data-editor': false, 'fact-checker': 'any', 'reporter': false },
   'lock.lift': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
-  'comment.create': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'audit.read': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'investigation.publish': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'newsroom.configure': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },
 } as const satisfies Record<string, Record<Role, Scope>>
 
 export type Action = keyof typeof TABLE
-export const ACTIONS = Object.keys(TABLE) as Action[]
 
 /** True when `role` may do `action`; `isOwner` matters only for actions scoped to one's own records. */
 export function can(role: Role, action: Action, isOwner = false): boolean {

@@ -1,4 +1,4 @@
-import type { TestResult } from '../digits/types'
+import type { TestResult } from '../digits'
 import { PALETTE } from './palette'
 import { TEST_LABELS } from './labels'
 import { legendItems } from './legend'

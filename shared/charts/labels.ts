@@ -1,4 +1,4 @@
-import type { Conformity, Reading, TestName } from '../digits/types'
+import type { Conformity, Reading, TestName } from '../digits'
 
 export const TEST_LABELS: Record<TestName, string> = {
   'first-digit': 'First digit',

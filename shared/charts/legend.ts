@@ -1,4 +1,4 @@
-import type { TestName, TestResult } from '../digits/types'
+import type { TestName, TestResult } from '../digits'
 
 export type LegendMark = 'observed' | 'stem' | 'range' | 'expected' | 'outside'
 

@@ -1,4 +1,4 @@
-import { P_FLOOR } from '../digits/p-floor'
+import { P_FLOOR } from '../digits'
 
 /**
  * A p- or q-value as every surface prints it: two significant figures, an exponent below 0.001,

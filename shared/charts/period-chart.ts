@@ -1,5 +1,5 @@
 import type { Period } from '../dates/read-date'
-import type { GroupResult } from '../digits/types'
+import type { GroupResult } from '../digits'
 import { PALETTE } from './palette'
 import { CHART_CONFIG } from './digit-chart'
 

@@ -1,5 +1,5 @@
-import { MAD_RANGES_FROM } from '../digits/mad'
-import type { DistributionTest, TestResult } from '../digits/types'
+import { MAD_RANGES_FROM } from '../digits'
+import type { DistributionTest, TestResult } from '../digits'
 import { CONFORMITY_LABELS, referenceOf, TEST_LABELS } from './labels'
 import { chartData } from './digit-chart'
 import { formatP } from './p-value'
@@ -89,7 +89,12 @@ export function summarize(result: TestResult): string {
       const few = result.mad?.reading === 'too-few' ? ' Too few values to read: with so few amounts, single large ones dominate the shares.' : ''
       return `Of ${count(result.n)} amounts of ${column}, the leading pair with the largest share of the total is ${top.key}, with ${percent(top.share)}, where each pair would hold ${percent(1 / 90)} if the amounts followed the law; MAD ${result.mad?.value.toFixed(4) ?? '—'}. This test has no chance range: read the rows behind the largest pairs.${few}`
     }
-    default: {
+    // Every test is named, so that a new one is a type error here until it has its sentence.
+    case 'first-digit':
+    case 'second-digit':
+    case 'first-two-digits':
+    case 'first-three-digits':
+    case 'last-two-digits': {
       const decimals = result.test === 'first-two-digits' || result.test === 'first-three-digits' ? 5 : 4
       const mad = result.mad ? `MAD ${result.mad.value.toFixed(decimals)}, ` : ''
       return `${TEST_LABELS[result.test]} of ${count(result.n)} values of ${column}: ${mad}${readingPhrase(result as TestResult & { test: DistributionTest })}. ${outsideSentence(result, referenceOf(result.test))}`

@@ -33,6 +33,11 @@ export const DISTRIBUTIONS: Record<DistributionTest, DistributionDefinition> = {
   'last-two-digits': { field: 'lastTwo', keys: range(0, 99, 2), shares: lastTwoShares(), arc: false, ks: false },
 }
 
+/** One entry per distribution test, made by `make`: spread into a `Record<TestName, …>` beside the other tests. */
+export function byDistribution<T>(make: (test: DistributionTest) => T): Record<DistributionTest, T> {
+  return Object.fromEntries(Object.keys(DISTRIBUTIONS).map(test => [test, make(test as DistributionTest)])) as Record<DistributionTest, T>
+}
+
 /** Bin text for a key as SQL returns it: last two digits keep their leading zero ("05"). */
 export function keyText(test: DistributionTest, key: number | string): string {
   return test === 'last-two-digits' ? String(key).padStart(2, '0') : String(key)

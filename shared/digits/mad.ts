@@ -3,7 +3,7 @@ import type { Conformity, DistributionTest, Mad, Reading } from './types'
 
 /**
  * Upper ends of close, acceptable and marginally acceptable conformity (Nigrini 2012, "Benford's
- * Law", Wiley, Table 7.1; from memory, as listed in the team's CHECKS.md). Tests without published
+ * Law", Wiley, Table 7.1; from memory, as listed in docs/check-values.md). Tests without published
  * ranges have none.
  */
 export const MAD_RANGES: Partial<Record<DistributionTest, readonly [number, number, number]>> = {

@@ -11,6 +11,7 @@ import { runRoundNumbersTest } from './round-numbers'
 import { runSummationTest } from './summation'
 import { checkSuitability, MINIMUM_VALUES } from './suitability'
 import { runThresholdTest } from './threshold'
+import { isGroupable } from './types'
 import type {
   ColumnProfile, DigitRecord, DistributionTest, GroupableTest, NumberStyle, SignFilter, TestCountsMap, TestName, TestResult,
   ThresholdOptions,
@@ -81,8 +82,6 @@ const HANDLERS: { [T in TestName]: TestHandler<TestCountsMap[T]> } = {
   },
 }
 
-const GROUPABLE = new Set<TestName>(['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'] satisfies GroupableTest[])
-
 function evaluate<T extends TestName>(test: T, input: TestInput<T>, sign: SignFilter, options: Options, style: NumberStyle) {
   const handler = HANDLERS[test] as TestHandler<TestCountsMap[T]>
   if ('values' in input) {
@@ -114,7 +113,7 @@ export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): 
     caution: CAUTION,
   }
   if (request.groups) {
-    if (!GROUPABLE.has(test)) throw new RangeError(`The ${test} test does not rank groups`)
+    if (!isGroupable(test)) throw new RangeError(`The ${test} test does not rank groups`)
     const minSize = request.groups.minSize ?? MINIMUM_VALUES[test]!.stop
     // Ranges would be two binomial quantiles per bin of every group (most of a grouped test's time), unread by the ranking.
     const ranking = { ...options, binRanges: false }

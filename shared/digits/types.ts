@@ -21,7 +21,13 @@ export type TestName = typeof TEST_NAMES[number]
 export type DistributionTest = 'first-digit' | 'second-digit' | 'first-two-digits' | 'first-three-digits' | 'last-two-digits'
 
 /** The tests that can rank groups: they have a MAD (and, except summation, a chi-square p). */
-export type GroupableTest = DistributionTest | 'summation'
+export const GROUPABLE_TESTS = ['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'] as const satisfies readonly TestName[]
+
+export type GroupableTest = typeof GROUPABLE_TESTS[number]
+
+export function isGroupable(test: TestName): test is GroupableTest {
+  return (GROUPABLE_TESTS as readonly TestName[]).includes(test)
+}
 
 export type SignFilter = 'positive' | 'negative'
 

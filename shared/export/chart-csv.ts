@@ -1,4 +1,4 @@
-import type { TestResult } from '../digits/types'
+import type { TestResult } from '../digits'
 import type { AnalysisSettings } from '../types/investigation'
 import { chartData } from '../charts/digit-chart'
 import { describeFilter } from '../charts/filters'

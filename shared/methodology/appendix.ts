@@ -1,6 +1,6 @@
-import { MAD_RANGES, MAD_RANGES_FROM } from '../digits/mad'
+import { MAD_RANGES, MAD_RANGES_FROM } from '../digits'
+import type { DistributionTest, TestResult } from '../digits'
 import { describeFilters, describeGrouping } from '../charts/filters'
-import type { DistributionTest, TestResult } from '../digits/types'
 import { OUTSIDE_RANGE_RULES, READING_LABELS, TEST_DESCRIPTIONS, TEST_LABELS } from '../charts/labels'
 import { formatP } from '../charts/p-value'
 import type { AnalysisSettings } from '../types/investigation'

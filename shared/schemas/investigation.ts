@@ -1,5 +1,5 @@
 import { z } from './zod'
-import { TEST_NAMES } from '../digits/types'
+import { TEST_NAMES } from '../digits'
 import { filterSchema, periodSchema } from './dataset'
 import { oneLine } from './text'
 

@@ -1,4 +1,4 @@
-import type { TestName, TestResult } from '../digits/types'
+import type { TestName, TestResult } from '../digits'
 import type { DatasetFilter } from '../schemas/dataset'
 import type { Period } from '../dates/read-date'
 

@@ -1,4 +1,4 @@
-import type { TestResult } from '../digits/types'
+import type { TestResult } from '../digits'
 import type { AnalysisSettings, ProseContent, Stamp } from './investigation'
 
 /** A dataset as the public page describes it: enough to identify the exact file used. */

@@ -4,7 +4,7 @@ import { powerSeries, runDigitTest } from '#shared/digits'
 import AnalysisResult from '~/components/analysis/AnalysisResult.vue'
 import AnalysisStatistics from '~/components/analysis/AnalysisStatistics.vue'
 
-// 2^0 … 2^99: MAD 0.003879 and chi-square 0.2210 (../shared/CHECKS.md, exact integer arithmetic).
+// 2^0 … 2^99: MAD 0.003879 and chi-square 0.2210 (docs/check-values.md, exact integer arithmetic).
 const powers = runDigitTest({ test: 'first-digit', input: { values: powerSeries(2n, 100) }, column: 'amount' })
 
 describe('the analysis result', () => {

@@ -6,7 +6,7 @@ import { blockOf, expectStatus, postClaim, proseDoc, saveBlock, uploadPayments, 
 import type { Story } from '../support/stories'
 import type { Client } from '../support/api'
 
-// DESIGN.md: "Every lock, unlock, review, publish, revoke, role change and dataset import is written
+// docs/product-rules.md ("Audit trail"), after the team's rule: "Every lock, unlock, review, publish, revoke, role change and dataset import is written
 // to an append-only audit trail with who, when and what." The issue adds: every change a reader of
 // the trail would ask about, and a trail that shows its newest events however long it grows.
 

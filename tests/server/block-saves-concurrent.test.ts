@@ -7,7 +7,7 @@ import { AFTER_CLAIM, BEFORE_CLAIM, CLAIM_TEXT, blockOf, expectStatus, postClaim
 import type { Story } from '../support/stories'
 
 // Issue 8: "ten saves of the same block at once → one per version wins, the rest get 409, nothing
-// lost". DESIGN.md: a save names the version it started from; a stale one gets 409 with the current
+// lost". docs/product-rules.md: a save names the version it started from; a stale one gets 409 with the current
 // block, in the error shape { statusCode, statusMessage, data }.
 
 const CLIENTS = 10
@@ -121,7 +121,7 @@ describe('a save racing a fact-checker\'s verification', () => {
       ])
       // The fact-checker read `version`: a save that landed first means they read the old text.
       expect([[200, 409], [423, 200]], JSON.stringify([save.body, verify.body])).toContainEqual([save.status, verify.status])
-      // DESIGN.md: a locked claim's text cannot change, so what the claim quotes is what the text says.
+      // docs/product-rules.md: a locked claim's text cannot change, so what the claim quotes is what the text says.
       const now = await readStory(newsroom.reporter, story)
       const claim = now.claims.find((c: { id: string }) => c.id === story.claimId)
       const block = now.blocks.find((b: { id: string }) => b.id === story.proseBlockId)

@@ -8,8 +8,8 @@ import {
 } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// DESIGN.md: "A locked claim's text and a locked analysis block's settings cannot change. Any save
-// that would change them is refused with 423 and a message saying who locked it and when."
+// docs/product-rules.md ("Locks"): a save that would change a verified claim's text, or the settings of an
+// analysis block it cites, is refused with 423, and the reply says who locked it and when.
 
 let newsroom: TestNewsroom
 let datasetId: string

@@ -4,7 +4,7 @@ import type { Desk, RoleCase } from '../support/roles'
 import { blockOf, CLAIM_TEXT, expectStatus, postClaim } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// Who may do what: DESIGN.md "Who does what" and the role table in shared/auth/permissions.ts.
+// Who may do what: docs/product-rules.md "Who does what" and the role table in shared/auth/permissions.ts.
 const MARKERS = ['admin', 'data-editor', 'owner'] as const
 const CHECKERS = ['admin', 'fact-checker'] as const
 const LOCK_LIFTERS = ['admin', 'data-editor'] as const

@@ -8,7 +8,7 @@ beforeAll(async () => {
   newsroom = await createTestNewsroom('Number styles desk')
 })
 
-// Three columns write the same five amounts three ways (DESIGN.md "The analysis": 1,234.50 and
+// Three columns write the same five amounts three ways (docs/product-rules.md "The analysis": 1,234.50 and
 // 1.234,50 and 1 234,50; parentheses and a trailing minus for negatives), separated by semicolons.
 const BYTES = readFileSync(new URL('../fixtures/datasets/decimal-comma.csv', import.meta.url))
 

@@ -34,7 +34,7 @@ async function datasetsOf(newsroomId: string): Promise<number> {
   return (await sql(`SELECT count(*)::int AS n FROM datasets WHERE newsroom_id = $1`, [newsroomId])).rows[0].n
 }
 
-// The role table (shared/auth/permissions.ts, after DESIGN.md "Who does what"): a fact-checker reads
+// The role table (shared/auth/permissions.ts, after docs/product-rules.md "Who does what"): a fact-checker reads
 // everything and uploads nothing; another newsroom's ids answer 404; no session answers 401.
 describe('dataset permissions', () => {
   it('lets a fact-checker read every route and refuses the upload with 403', async () => {

@@ -12,8 +12,8 @@ import { proseDoc } from '../support/stories'
 
 // Issue 8: "PostgreSQL stopped abruptly during an import → the dataset is marked failed, no partial
 // rows are visible, and after a restart the same upload succeeds; the app restarted during editing →
-// every acknowledged save is there." DESIGN.md (Scale): "a restart resumes or fails it cleanly —
-// never a half-done dataset". These tests crash a PostgreSQL and an app of their own (fault-stack.ts).
+// every acknowledged save is there." docs/product-rules.md ("Scale"): a restart resumes an import or fails it
+// cleanly, never a half-imported dataset. These tests crash a PostgreSQL and an app of their own (fault-stack.ts).
 
 // upload.ts imports files over 8 MB as a job; this one is big enough to still be reading when caught.
 const QUEUED_BYTES = 24 * 1024 * 1024

@@ -2,7 +2,7 @@ import { readFile, mkdtemp, rm } from 'node:fs/promises'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { TEST_NAMES } from '../../shared/digits/types'
+import { TEST_NAMES } from '#shared/digits'
 import type { ColumnDTO } from '../../shared/types/dataset'
 import type { Client, Reply } from '../support/api'
 import { sql } from '../support/database'
@@ -82,7 +82,7 @@ function send(client: Client, newsroomId: string, item: UploadCase, body: Upload
   return upload(client, item.fileName, body, item.fields, query)
 }
 
-/** DESIGN.md, "The API that scripts use": errors are { statusCode, statusMessage, data } with a 4xx. */
+/** docs/product-rules.md, "The API that scripts use": errors are { statusCode, statusMessage, data } with a 4xx. */
 function expectClearRefusal(reply: Reply, expected: { status: number, path?: string, message?: RegExp }) {
   expect(reply.status, JSON.stringify(reply.body).slice(0, 500)).toBe(expected.status)
   expect(reply.body).toMatchObject({ statusCode: expected.status, statusMessage: expect.any(String) })

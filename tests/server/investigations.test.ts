@@ -70,7 +70,7 @@ describe('investigations and blocks', () => {
 
   it('runs an analysis block, then answers the same result from the cache', async () => {
     const { newsroom, investigation } = await newInvestigation()
-    // 2^0 … 2^99: first-digit counts 30,17,13,10,7,7,6,5,5 (../shared/CHECKS.md, exact integer arithmetic).
+    // 2^0 … 2^99: first-digit counts 30,17,13,10,7,7,6,5,5 (docs/check-values.md, exact integer arithmetic).
     const csv = `amount\n${Array.from({ length: 100 }, (_, i) => (2n ** BigInt(i)).toString()).join('\n')}\n`
     const datasetId = await uploadCsv(newsroom.reporter, newsroom.id, csv, 'Powers of two')
     const block = await newsroom.reporter.post(`/api/investigations/${investigation.id}/blocks`, {

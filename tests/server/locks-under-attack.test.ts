@@ -5,7 +5,7 @@ import { blockOf, expectStatus, proseDoc, readStory, saveBlock, uploadPayments, 
 import type { Story } from '../support/stories'
 import type { Reply } from '../support/api'
 
-// DESIGN.md: "A locked claim's text and a locked analysis block's settings cannot change. Any save
+// docs/product-rules.md ("Locks"), after the team's rule: "A locked claim's text and a locked analysis block's settings cannot change. Any save
 // that would change them is refused with 423 and a message saying who locked it and when." The
 // public page draws only text nodes (PublicationProse.vue), so the passage is what those draw from
 // the claim's first to its last marked character.

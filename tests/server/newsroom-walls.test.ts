@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { ROLES } from '#shared/auth/roles'
 import { createTestNewsroom } from '../support/newsroom'
 
-// DESIGN.md: a member sees only the newsroom(s) they belong to; another newsroom's ids answer 404.
+// docs/product-rules.md: a member sees only the newsroom(s) they belong to; another newsroom's ids answer 404.
 describe('newsroom walls', () => {
   it('answers 404 to every role of another newsroom', async () => {
     const mine = await createTestNewsroom('Mine')

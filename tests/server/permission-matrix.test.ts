@@ -11,7 +11,7 @@ import type { Actor, Cell, MatrixDesk, Row } from '../support/permission-matrix'
 import { apiRoutes } from '../support/route-files'
 import { proseDoc } from '../support/stories'
 
-// Who may do what, from DESIGN.md ("Who does what" and the rules the server enforces), written
+// Who may do what, from docs/product-rules.md ("Who does what" and the rules the server enforces), written
 // out here rather than read from shared/auth/permissions.ts, so that the test checks the table
 // instead of repeating it. A refused member gets 403, another newsroom's member 404, no session 401.
 /** Every member reads everything in the newsroom (the fact-checker "reads everything"). */
@@ -145,7 +145,7 @@ const ROWS: Row[] = [
   {
     route: 'GET /api/public/[token]',
     expected: everyone(200),
-    why: 'DESIGN.md: a public reader opens a published investigation through its link, without an account. The link is the key, so a session (of this newsroom or another) neither helps nor hinders.',
+    why: 'docs/product-rules.md: a public reader opens a published investigation through its link, without an account. The link is the key, so a session (of this newsroom or another) neither helps nor hinders.',
     send: (client, _t, desk) => client.get(`/api/public/${desk.publicToken}`),
   },
   {
@@ -264,7 +264,7 @@ const ROWS: Row[] = [
   {
     route: 'POST /api/datasets/[id]/archive',
     expected: allowOnly(WRITERS, 200),
-    why: 'DESIGN.md does not name it: a reporter puts away what they uploaded, a data editor anyone\'s (all a reporter does, newsroom-wide); a fact-checker only reads.',
+    why: 'docs/product-rules.md does not name it: a reporter puts away what they uploaded, a data editor anyone\'s (all a reporter does, newsroom-wide); a fact-checker only reads.',
     fresh: true,
     target: freshDataset,
     send: (client, dataset) => client.post(`/api/datasets/${dataset.id}/archive`),
@@ -449,7 +449,7 @@ const ROWS: Row[] = [
   },
 ]
 
-describe('permission matrix: every API route × every caller (DESIGN.md "Who does what")', () => {
+describe('permission matrix: every API route × every caller (docs/product-rules.md "Who does what")', () => {
   let desk: MatrixDesk
   const results: [string, Cell[]][] = []
 

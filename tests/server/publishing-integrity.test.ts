@@ -122,7 +122,7 @@ describe('share links', () => {
     await approveAndVerify(newsroom, story)
     const published = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, {})
     const token = tokenOf(published.body.url)
-    // RFC 2104 HMAC-SHA256 through Node's crypto, the derivation the server promises (DESIGN.md "Share link").
+    // RFC 2104 HMAC-SHA256 through Node's crypto, the derivation the server promises (docs/product-rules.md, "Rules the server enforces": share links).
     expect(token).toBe(createHmac('sha256', SECRET).update(`mantissa share link ${published.body.link.id}`).digest('base64url'))
     const row = await sql('SELECT * FROM share_links WHERE id = $1', [published.body.link.id])
     expect(row.rows[0].token_hash).toBe(createHash('sha256').update(token).digest('hex'))

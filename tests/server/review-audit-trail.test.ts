@@ -5,7 +5,7 @@ import type { TestNewsroom } from '../support/newsroom'
 import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// DESIGN.md: every lock, unlock and review is written to an append-only audit trail with who, when and what.
+// docs/product-rules.md: every lock, unlock and review is written to an append-only audit trail with who, when and what.
 
 const WORKFLOW = ['review.requested', 'block.approved', 'block.sent-back', 'claim.marked', 'claim.disputed', 'claim.verified', 'lock.lifted']
 

@@ -3,7 +3,7 @@ import { checkCell, openDesk, roleCells } from '../support/roles'
 import type { Desk, RoleCase } from '../support/roles'
 import { readStory } from '../support/stories'
 
-// Who may do what: DESIGN.md "Who does what" and the role table in shared/auth/permissions.ts.
+// Who may do what: docs/product-rules.md "Who does what" and the role table in shared/auth/permissions.ts.
 const EDITORS = ['admin', 'data-editor', 'owner'] as const
 const REVIEWERS = ['admin', 'data-editor'] as const
 const MEMBERS = ['admin', 'data-editor', 'fact-checker', 'owner', 'other-reporter'] as const

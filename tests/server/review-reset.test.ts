@@ -4,7 +4,7 @@ import type { TestNewsroom } from '../support/newsroom'
 import { blockOf, expectStatus, proseDoc, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// DESIGN.md: "Changing an approved analysis block's settings sends its approval back to 'unreviewed'."
+// docs/product-rules.md ("Approval follows the method"): an approved analysis block whose settings change goes back to "unreviewed".
 
 let newsroom: TestNewsroom
 let datasetId: string

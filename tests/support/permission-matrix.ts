@@ -187,7 +187,7 @@ export function uploadProbe(client: Client, desk: MatrixDesk): Promise<Reply> {
 export interface Row<T = any> {
   route: string
   expected: Expected
-  /** Why, where DESIGN.md is silent or the answer is not a plain role question. */
+  /** Why, where docs/product-rules.md is silent or the answer is not a plain role question. */
   why?: string
   fresh?: boolean
   target?: (desk: MatrixDesk) => Promise<T>

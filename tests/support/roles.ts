@@ -63,7 +63,7 @@ export interface RoleCase {
 }
 
 /**
- * How a refused caller is answered (DESIGN.md, rules the server enforces): another newsroom's
+ * How a refused caller is answered (docs/product-rules.md, rules the server enforces): another newsroom's
  * things answer 404 as if missing, no session 401, a member whose role does not allow it 403.
  * A public-link visitor holds no session, so is answered as anonymous.
  */
@@ -73,7 +73,7 @@ export function refusalFor(who: Who | 'visitor'): 401 | 403 | 404 {
   return 403
 }
 
-/** DESIGN.md "Who does what": allowed roles succeed, everyone else gets their refusal. */
+/** docs/product-rules.md "Who does what": allowed roles succeed, everyone else gets their refusal. */
 export function expectedStatus(who: Who, row: RoleCase): number {
   return row.allowed.includes(who) ? row.success : refusalFor(who)
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { can } from '#shared/auth/permissions'
 
-// Expected values transcribed from ../shared/DESIGN.md, "Who does what".
+// Expected values transcribed from docs/product-rules.md, "Who does what".
 describe('the role table', () => {
   it('lets only admins manage members', () => {
     expect(can('admin', 'member.invite')).toBe(true)

@@ -1,6 +1,6 @@
 import { loginSchema } from '#shared/schemas/auth'
-import { openSession } from '../../services/account/sessions'
-import { signIn } from '../../services/sign-in'
+import { openSession } from '#server/services/account/sessions'
+import { signIn } from '#server/services/sign-in'
 
 export default defineEventHandler(async (event) => {
   const { email, password, code } = await readInput(event, loginSchema)

@@ -1,5 +1,5 @@
-import { recordAccountEvent } from '../../services/account/audit'
-import { endSessionsOf } from '../../services/account/sessions'
+import { recordAccountEvent } from '#server/services/account/audit'
+import { endSessionsOf } from '#server/services/account/sessions'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

@@ -1,4 +1,4 @@
-import { endCurrentSession } from '../../services/account/sessions'
+import { endCurrentSession } from '#server/services/account/sessions'
 
 export default defineEventHandler(async (event) => {
   await endCurrentSession(event)

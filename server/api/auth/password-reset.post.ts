@@ -1,5 +1,5 @@
 import { passwordResetRequestSchema } from '#shared/schemas/auth'
-import { requestPasswordReset } from '../../services/account/passwords'
+import { requestPasswordReset } from '#server/services/account/passwords'
 
 export default defineEventHandler(async (event) => {
   const { email } = await readInput(event, passwordResetRequestSchema)

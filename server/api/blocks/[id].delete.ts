@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findBlock, removeBlock } from '../../services/investigations/blocks'
+import { findBlock, removeBlock } from '#server/services/investigations/blocks'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

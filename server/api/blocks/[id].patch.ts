@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { blockUpdateSchema } from '#shared/schemas/investigation'
-import { findBlock, updateBlock } from '../../services/investigations/blocks'
+import { findBlock, updateBlock } from '#server/services/investigations/blocks'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { claimRemoveSchema } from '#shared/schemas/investigation'
-import { findClaim } from '../../services/investigations/claims'
-import { removeClaim } from '../../services/investigations/claim-removal'
+import { findClaim } from '#server/services/investigations/claims'
+import { removeClaim } from '#server/services/investigations/claim-removal'
 
 // An open claim is unmarked by whoever may mark claims there; a disputed one needs a data editor.
 export default defineEventHandler(async (event) => {

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { claimUpdateSchema } from '#shared/schemas/investigation'
-import { findClaim, updateClaimSupport } from '../../services/investigations/claims'
+import { findClaim, updateClaimSupport } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

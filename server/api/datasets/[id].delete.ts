@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { deleteDataset, findDataset } from '../../services/datasets/catalog'
+import { deleteDataset, findDataset } from '#server/services/datasets/catalog'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

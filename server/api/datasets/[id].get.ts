@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { describeDataset, findDataset } from '../../services/datasets/catalog'
+import { describeDataset, findDataset } from '#server/services/datasets/catalog'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { listDatasets } from '../../services/datasets/catalog'
+import { listDatasets } from '#server/services/datasets/catalog'
 
 const querySchema = z.object({ newsroomId: z.string().uuid(), q: z.string().trim().max(200).optional() })
 

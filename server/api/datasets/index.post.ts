@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { uploadDataset } from '../../services/datasets/upload'
+import { uploadDataset } from '#server/services/datasets/upload'
 
 const querySchema = z.object({ newsroomId: z.string().uuid().optional() })
 

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { describeInvestigation, findInvestigation } from '../../services/investigations/catalog'
+import { describeInvestigation, findInvestigation } from '#server/services/investigations/catalog'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { investigationUpdateSchema } from '#shared/schemas/investigation'
-import { findInvestigation, updateInvestigation } from '../../services/investigations/catalog'
+import { findInvestigation, updateInvestigation } from '#server/services/investigations/catalog'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { listInvestigations } from '../../services/investigations/catalog'
+import { listInvestigations } from '#server/services/investigations/catalog'
 
 const querySchema = z.object({ newsroomId: z.string().uuid() })
 

@@ -1,5 +1,5 @@
 import { investigationCreateSchema } from '#shared/schemas/investigation'
-import { createInvestigation } from '../../services/investigations/catalog'
+import { createInvestigation } from '#server/services/investigations/catalog'
 
 export default defineEventHandler(async (event) => {
   const { newsroomId, title } = await readInput(event, investigationCreateSchema)

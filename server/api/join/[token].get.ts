@@ -1,5 +1,5 @@
 import { tokenParamsSchema } from '#shared/schemas/auth'
-import { peekInvitation } from '../../services/invitations'
+import { peekInvitation } from '#server/services/invitations'
 
 export default defineEventHandler(async (event) => {
   const { token } = readParams(event, tokenParamsSchema)

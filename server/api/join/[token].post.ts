@@ -1,6 +1,6 @@
 import { invitationAcceptSchema, tokenParamsSchema } from '#shared/schemas/auth'
-import { openSession } from '../../services/account/sessions'
-import { acceptInvitation } from '../../services/invitations'
+import { openSession } from '#server/services/account/sessions'
+import { acceptInvitation } from '#server/services/invitations'
 
 export default defineEventHandler(async (event) => {
   const { token } = readParams(event, tokenParamsSchema)

@@ -1,5 +1,5 @@
 import { passwordChangeSchema } from '#shared/schemas/auth'
-import { changePassword } from '../../services/account/passwords'
+import { changePassword } from '#server/services/account/passwords'
 
 export default defineEventHandler(async (event) => {
   const signedIn = await requireSession(event)

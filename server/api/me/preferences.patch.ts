@@ -1,5 +1,5 @@
 import { preferencesSchema } from '#shared/schemas/investigation'
-import { updatePreferences } from '../../services/sign-in'
+import { updatePreferences } from '#server/services/sign-in'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findMembership, removeMember } from '../../services/members'
+import { findMembership, removeMember } from '#server/services/members'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

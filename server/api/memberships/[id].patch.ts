@@ -1,5 +1,5 @@
 import { idParamsSchema, roleChangeSchema } from '#shared/schemas/auth'
-import { changeRole, findMembership } from '../../services/members'
+import { changeRole, findMembership } from '#server/services/members'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

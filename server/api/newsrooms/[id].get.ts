@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { describeNewsroom } from '../../services/members'
+import { describeNewsroom } from '#server/services/members'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

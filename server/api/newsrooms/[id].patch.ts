@@ -1,5 +1,5 @@
 import { idParamsSchema, newsroomSettingsSchema } from '#shared/schemas/auth'
-import { updateNewsroomSettings } from '../../services/members'
+import { updateNewsroomSettings } from '#server/services/members'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { tokenParamsSchema } from '#shared/schemas/auth'
-import { publicSnapshot } from '../../services/publishing/public-view'
+import { publicSnapshot } from '#server/services/publishing/public-view'
 
 // The only route a public reader reaches: it reads a frozen snapshot and nothing else.
 export default defineEventHandler(async (event) => {

@@ -1,6 +1,5 @@
 import type { DigitRecord, ReadNumber } from '#shared/digits'
-
-export const STATUS_CODES = { blank: 0, unreadable: 1, zero: 2, number: 3 } as const
+import { STATUS_CODES } from './digit-columns'
 
 const CHUNK_BYTES = 1 << 20
 const SIGNATURE = Buffer.from('PGCOPY\n\xff\r\n\0', 'latin1')

@@ -3,7 +3,6 @@ import { dayOfIso, periodOf } from '#shared/dates/read-date'
 import type { Period } from '#shared/dates/read-date'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
-import type { SignFilter } from '#shared/digits'
 
 /** A text or date filter on a coded column, turned into the codes it keeps (or, negated, drops). */
 export interface CodeFilter {
@@ -235,8 +234,4 @@ export function selectRows<T extends object>(
  */
 export async function rawSelect<T extends object>(sql: string, replacements: { datasetId: string } & Record<string, unknown>): Promise<T[]> {
   return (await datasetReader(replacements.datasetId)).query<T>(sql, { replacements, type: QueryTypes.SELECT })
-}
-
-export function signCode(sign: SignFilter) {
-  return sign === 'positive' ? 1 : -1
 }

@@ -1,5 +1,5 @@
 import { assertFewGroups } from './group-cap'
-import { DISTRIBUTIONS, MINIMUM_VALUES, RULES, compareDecimal, runDigitTest, thresholdBand, decimalToText, toDecimal } from '#shared/digits'
+import { byDistribution, DISTRIBUTIONS, isGroupable, MINIMUM_VALUES, RULES, compareDecimal, runDigitTest, thresholdBand, decimalToText, toDecimal } from '#shared/digits'
 import type {
   ColumnProfile as CountedProfile, DistributionCounts, DuplicateCounts, RoundCounts, SignFilter, StatusCounts,
   SummationCounts, TestCountsMap, TestName, TestResult, ThresholdCounts, DistributionTest,
@@ -9,12 +9,9 @@ import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
 import { cubeFactSlices, cubeKeyIndex, cubeSlices, countsFromCube, profileFromCells } from './digit-cube'
-import { buildDigitQuery, codeCondition, columnByName, decodeGroups, groupNames, rawSelect, selectRows, signCode } from './digit-query'
+import { FIELD_COLUMNS, numbersOfSign as ofSign, signCode, STATUS_CODES, statusCountOf } from './digit-columns'
+import { buildDigitQuery, codeCondition, columnByName, decodeGroups, groupNames, rawSelect, selectRows } from './digit-query'
 import type { CodeFilter, DigitQuery } from './digit-query'
-
-const SNAKE: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
-const STATUS_NAMES = ['blank', 'unreadable', 'zero'] as const
-const NUMBER = 3
 
 type Grouped<T> = Map<string | null, T>
 
@@ -33,17 +30,14 @@ async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Groupe
   const byGroup: Grouped<StatusCounts> = new Map()
   for (const row of rows) {
     const status = bucketOf(byGroup, row.grp ?? null, emptyStatus)
-    if (row.status === NUMBER) status[row.sign > 0 ? 'positive' : 'negative'] += row.count
-    else status[STATUS_NAMES[row.status]!] += row.count
+    status[statusCountOf(row.status, row.sign)] += row.count
   }
   return byGroup
 }
 
-const ofSign = (sign: SignFilter) => `d.status = ${NUMBER} AND d.sign = ${signCode(sign)}`
-
 /** Status counts and digit counts in one scan: GROUP BY [group,] status, sign, digit field. */
 async function statusAndDistribution(test: DistributionTest, query: DigitQuery, sign: SignFilter, grouped: boolean): Promise<Grouped<DistributionCounts>> {
-  const field = `d.${SNAKE[DISTRIBUTIONS[test].field]}`
+  const field = `d.${FIELD_COLUMNS[DISTRIBUTIONS[test].field]}`
   const rows = await selectRows<{ grp?: string, status: number, sign: number, key: number | null, count: number, cos: number | null, sin: number | null }>(query, {
     select: `d.status, d.sign, ${field} AS key, count(*)::int AS count, sum(cos(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS cos, sum(sin(2 * pi() * d.mantissa)) FILTER (WHERE ${field} IS NOT NULL) AS sin`,
     groupBy: `d.status, d.sign, ${field}`, grouped,
@@ -52,12 +46,8 @@ async function statusAndDistribution(test: DistributionTest, query: DigitQuery, 
   const byGroup: Grouped<DistributionCounts & { arc: { cos: number, sin: number } }> = new Map()
   for (const row of rows) {
     const entry = bucketOf(byGroup, row.grp ?? null, () => ({ status: emptyStatus(), keys: [], arc: { cos: 0, sin: 0 } }))
-    if (row.status !== NUMBER) {
-      entry.status[STATUS_NAMES[row.status]!] += row.count
-      continue
-    }
-    entry.status[row.sign > 0 ? 'positive' : 'negative'] += row.count
-    if (row.sign !== wanted) continue
+    entry.status[statusCountOf(row.status, row.sign)] += row.count
+    if (row.status !== STATUS_CODES.number || row.sign !== wanted) continue
     entry.keys.push({ key: row.key, count: row.count })
     entry.arc.cos += Number(row.cos ?? 0)
     entry.arc.sin += Number(row.sin ?? 0)
@@ -131,7 +121,7 @@ export function storedColumn(datasetId: string, position: number) {
  * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
  * for a whole column, counted here when filters narrow the rows.
  */
-async function profileOf(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean, fromCells?: CellProfile): Promise<CountedProfile | null> {
+async function suitabilityProfile(stored: Awaited<ReturnType<typeof storedColumn>>, query: DigitQuery, sign: SignFilter, filtered: boolean, fromCells?: CellProfile): Promise<CountedProfile | null> {
   if (!filtered && stored?.profiles) return stored.profiles[sign]
   const wholeTop = stored?.profiles?.[sign]?.topValue
   if (!fromCells) return profileCounts(query, sign, wholeTop)
@@ -270,18 +260,23 @@ async function profileCounts(query: DigitQuery, sign: SignFilter, wholeTop?: num
   return { ...profile, atMin: ends[0]?.atMin ?? 0, atMax: ends[0]?.atMax ?? 0, topValue: top[0]?.top ?? 0 }
 }
 
-const GROUPABLE = new Set<TestName>(['first-digit', 'second-digit', 'first-two-digits', 'first-three-digits', 'last-two-digits', 'summation'])
+type CountsQuery = (query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number) => Promise<Grouped<object>>
 
 /** Why a test ranks no groups, in the words the settings form and the API give. */
 export const UNGROUPED_REASON = 'Repeated amounts, round amounts and the threshold test are not ranked by group: '
   + 'they have no expected distribution to measure each group against. Filter the rows to one group instead.'
 
-async function testCounts(test: TestName, query: DigitQuery, sign: SignFilter, grouped: boolean, threshold?: number): Promise<Grouped<object>> {
-  if (test === 'summation') return summationCounts(query, sign, grouped)
-  if (test === 'duplicates') return new Map([[null, await duplicateCounts(query, sign)]])
-  if (test === 'round-numbers') return new Map([[null, await roundCounts(query, sign)]])
-  if (test === 'threshold') return new Map([[null, await thresholdCounts(query, sign, threshold!)]])
-  return statusAndDistribution(test, query, sign, grouped)
+/** A test that ranks no groups: one set of counts for the whole selection. */
+const ungrouped = (count: (query: DigitQuery, sign: SignFilter, threshold?: number) => Promise<object>): CountsQuery =>
+  async (query, sign, _grouped, threshold) => new Map([[null, await count(query, sign, threshold)]])
+
+/** The SQL behind each test's counts: a new test is a type error here until it has its own. */
+const TEST_COUNTS: Record<TestName, CountsQuery> = {
+  ...byDistribution(test => (query, sign, grouped) => statusAndDistribution(test, query, sign, grouped)),
+  'summation': summationCounts,
+  'duplicates': ungrouped(duplicateCounts),
+  'round-numbers': ungrouped(roundCounts),
+  'threshold': ungrouped((query, sign, threshold) => thresholdCounts(query, sign, threshold!)),
 }
 
 /**
@@ -295,7 +290,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   const columns = await datasetColumns(dataset.id)
   const tested = columnByName(columns, body.column, 'column')
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers. Choose an amount or count column.` }])
-  if (body.groupBy && !GROUPABLE.has(body.test)) throw fail(400, [{ path: 'groupBy', message: UNGROUPED_REASON }])
+  if (body.groupBy && !isGroupable(body.test)) throw fail(400, [{ path: 'groupBy', message: UNGROUPED_REASON }])
   const sign = body.sign ?? 'positive'
   const filtered = Boolean(body.filters?.length)
   const [whole, grouping, stored] = await Promise.all([
@@ -312,21 +307,21 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
     const test = body.test as DistributionTest
     const fromCube = await cubeDistribution(test, dataset.id, stored, tested.position, grouping ?? whole, sign)
-    profile = profileOf(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
+    profile = suitabilityProfile(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
     const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
     counts = grouping ? mergeGroups(scanned.values()) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {
-    profile = profileOf(stored, whole, sign, filtered)
+    profile = suitabilityProfile(stored, whole, sign, filtered)
     const repeats = body.test === 'duplicates' && !filtered ? stored?.repeats?.[sign] : null
     const [status, byTest] = await Promise.all([
       statusCounts(whole, false),
-      repeats ? new Map([[null, repeats]]) : testCounts(body.test, whole, sign, false, body.threshold),
+      repeats ? new Map([[null, repeats]]) : TEST_COUNTS[body.test](whole, sign, false, body.threshold),
     ])
     counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]
     if (grouping) {
-      const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), testCounts(body.test, grouping, sign, true)])
+      const [byStatus, byCounts] = await Promise.all([statusCounts(grouping, true), TEST_COUNTS[body.test](grouping, sign, true)])
       groupCounts = await decodeGroups(grouping, new Map([...byStatus].map(([key, s]) => [key, { status: s, ...(byCounts.get(key) ?? { keys: [] }) }])))
     }
   }

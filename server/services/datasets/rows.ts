@@ -1,16 +1,15 @@
-import { DISTRIBUTIONS, decimalToText, thresholdBand } from '#shared/digits'
+import { byDistribution, DISTRIBUTIONS, decimalToText, thresholdBand } from '#shared/digits'
 import type { DistributionTest, TestName } from '#shared/digits'
 import type { Period } from '#shared/dates/read-date'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { PageDTO, RowDTO } from '#shared/types/dataset'
 import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
-import { buildDigitQuery, columnByName, groupReplacements, rawSelect, signCode } from './digit-query'
+import { FIELD_COLUMNS, numbersOfSign } from './digit-columns'
+import { buildDigitQuery, columnByName, groupReplacements, rawSelect } from './digit-query'
 import { cubeBinCount } from './digit-tests'
 
 export const PAGE_SIZE = 50
-
-const FIELDS: Record<string, string> = { firstDigit: 'first_digit', secondDigit: 'second_digit', firstTwo: 'first_two', firstThree: 'first_three', lastTwo: 'last_two' }
 
 function readyOrConflict(dataset: Dataset) {
   if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
@@ -51,25 +50,42 @@ export interface DrillDown {
   group?: string
 }
 
-/** The condition that picks a bin's values; keys are validated here, never written into SQL. */
-function binCondition(test: TestName, key: string, threshold?: number): { sql: string, values: Record<string, unknown> } {
-  const bad = () => fail(400, [{ path: 'key', message: `"${key}" is not a bin of the ${test} test.` }])
-  if (test === 'duplicates') {
-    if (!/^-?\d+(\.\d+)?$/.test(key)) throw bad()
-    return { sql: 'd.value = CAST(:key AS numeric)', values: { key } }
-  }
-  if (test === 'round-numbers') {
-    if (!/^0{1,3}$/.test(key)) throw bad()
-    return { sql: `d.integer_digits >= 2 AND d.fraction_digits = 0 AND d.trailing_zeros >= ${key.length}`, values: {} }
-  }
-  if (test === 'threshold') {
-    if (!threshold || !/^\d+(\.\d+)?$/.test(key)) throw bad()
-    const width = decimalToText(thresholdBand({ limit: threshold }).width)
-    return { sql: 'abs(d.value) >= CAST(:key AS numeric) AND abs(d.value) < CAST(:key AS numeric) + CAST(:width AS numeric)', values: { key, width } }
-  }
-  const definition = DISTRIBUTIONS[test === 'summation' ? 'first-two-digits' : test as DistributionTest]
-  if (!definition.keys.includes(key)) throw bad()
-  return { sql: `d.${FIELDS[definition.field]} = :key`, values: { key: Number(key) } }
+interface BinRule {
+  /** The distribution whose keys are the test's bins: the import counted them, so a total needs no scan. */
+  distribution?: DistributionTest
+  /** The condition that picks a bin's values, or null when `key` is no bin of the test. */
+  condition: (key: string, threshold?: number) => { sql: string, values: Record<string, unknown> } | null
+}
+
+const distributionBins = (distribution: DistributionTest): BinRule => ({
+  distribution,
+  condition: (key) => {
+    const definition = DISTRIBUTIONS[distribution]
+    return definition.keys.includes(key) ? { sql: `d.${FIELD_COLUMNS[definition.field]} = :key`, values: { key: Number(key) } } : null
+  },
+})
+
+/** How each test's bins pick rows; keys are validated here, never written into SQL. A new test is a type error until it has its rule. */
+const BINS: Record<TestName, BinRule> = {
+  ...byDistribution(distributionBins),
+  'summation': distributionBins('first-two-digits'),
+  'duplicates': { condition: key => /^-?\d+(\.\d+)?$/.test(key) ? { sql: 'd.value = CAST(:key AS numeric)', values: { key } } : null },
+  'round-numbers': {
+    condition: key => /^0{1,3}$/.test(key) ? { sql: `d.integer_digits >= 2 AND d.fraction_digits = 0 AND d.trailing_zeros >= ${key.length}`, values: {} } : null,
+  },
+  'threshold': {
+    condition: (key, threshold) => {
+      if (!threshold || !/^\d+(\.\d+)?$/.test(key)) return null
+      const width = decimalToText(thresholdBand({ limit: threshold }).width)
+      return { sql: 'abs(d.value) >= CAST(:key AS numeric) AND abs(d.value) < CAST(:key AS numeric) + CAST(:width AS numeric)', values: { key, width } }
+    },
+  },
+}
+
+function binCondition(test: TestName, key: string, threshold?: number) {
+  const condition = BINS[test].condition(key, threshold)
+  if (!condition) throw fail(400, [{ path: 'key', message: `"${key}" is not a bin of the ${test} test.` }])
+  return condition
 }
 
 /** The rows behind one bin of a test (and one group), a page at a time. */
@@ -80,7 +96,7 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   if (!tested.numeric) throw fail(400, [{ path: 'column', message: `"${tested.name}" does not hold numbers.` }])
   const query = await buildDigitQuery(dataset.id, columns, tested, request.filters, request.groupBy, request.period)
   const bin = binCondition(request.test, request.key, request.threshold)
-  let where = `${query.where} AND d.status = 3 AND d.sign = ${signCode(request.sign ?? 'positive')} AND ${bin.sql}`
+  let where = `${query.where} AND ${numbersOfSign(request.sign ?? 'positive')} AND ${bin.sql}`
   const pageSize = request.pageSize ?? PAGE_SIZE
   const replacements: typeof query.replacements = { ...query.replacements, ...bin.values, offset: (request.page - 1) * pageSize, limit: pageSize }
   if (query.groupEquals && request.group !== undefined) {
@@ -89,7 +105,7 @@ export async function binRows(dataset: Dataset, request: DrillDown): Promise<Pag
   }
   // The bin's row numbers first, then only that page's rows: joining every record to its row
   // before choosing the page costs a lookup per record. Unfiltered, the import's counts give the total.
-  const distribution = request.test === 'summation' ? 'first-two-digits' : request.test in DISTRIBUTIONS ? request.test as DistributionTest : null
+  const distribution = BINS[request.test].distribution
   const groupColumn = request.groupBy && request.group !== undefined && !request.period ? columnByName(columns, request.groupBy, 'groupBy') : null
   const [items, counted] = await Promise.all([
     rawSelect<RowDTO>(`SELECT r.row_no AS "rowNo", r.cells

@@ -1,6 +1,6 @@
 /**
  * A small seeded generator (mulberry32), so invented data is the same on every machine: the demo
- * ledger and the benchmarks' ledgers (bench/support.mjs, run through tsx) draw from it.
+ * ledger, the tests' ledger fixture and the benchmarks' data (run through tsx) all draw from it.
  */
 export function seededRandom(seed: number): () => number {
   let state = seed >>> 0

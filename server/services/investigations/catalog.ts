@@ -4,8 +4,6 @@ import type { Block, Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { attachedClaims } from './prose-claims'
 
-interface Named { name: string }
-
 function summary(investigation: Investigation, names: Map<string, string>): InvestigationSummaryDTO {
   return {
     id: investigation.id, title: investigation.title, status: investigation.status,
@@ -19,7 +17,7 @@ export async function userNames(ids: (string | null | undefined)[]): Promise<Map
   const wanted = [...new Set(ids.filter((id): id is string => Boolean(id)))]
   if (!wanted.length) return new Map()
   const users = await useDb().models.User.findAll({ where: { id: wanted }, attributes: ['id', 'name'] })
-  return new Map(users.map(u => [u.id, (u as unknown as Named).name]))
+  return new Map(users.map(u => [u.id, u.name]))
 }
 
 /** Who did something and when, or null when it was not done. */

@@ -1,6 +1,5 @@
 import { timingSafeEqual } from 'node:crypto'
 import type { PublishedSnapshot } from '#shared/types/publication'
-import { hashToken } from './publish'
 
 /**
  * The snapshot behind a public token: 404 for a token no link ever had, 410 for a link withdrawn

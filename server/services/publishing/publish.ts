@@ -1,4 +1,4 @@
-import { createHash, randomUUID } from 'node:crypto'
+import { randomUUID } from 'node:crypto'
 import { Op } from 'sequelize'
 import { can } from '#shared/auth/permissions'
 import { summarize } from '#shared/charts/summary'
@@ -15,10 +15,6 @@ import { liveBlocks, stamp, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
 import { datasetColumns } from '../datasets/catalog'
 import { attachedClaims, filterClaimMarks } from '../investigations/prose-claims'
-
-export function hashToken(token: string) {
-  return createHash('sha256').update(token).digest('hex')
-}
 
 /** The investigation's live blocks and the claims still attached to their words: what every check reads. */
 interface CheckState {

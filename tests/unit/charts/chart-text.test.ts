@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { powerSeries, runDigitTest } from '../../../shared/digits'
 import { chartText, periodOf, sourceLine } from '../../../shared/charts/chart-text'
 
-// 2^0 … 2^99: 100 values (../shared/CHECKS.md); the words below are Mantissa's own.
+// 2^0 … 2^99: 100 values (docs/check-values.md); the words below are Mantissa's own.
 const powers = runDigitTest({ test: 'last-two-digits', input: { values: powerSeries(2n, 100) }, column: 'amount' })
 const source = { title: 'Harbour grants', sourceNote: 'Sent by the port authority', sha256: 'f'.repeat(64), obtainedOn: '2026-03-01' }
 

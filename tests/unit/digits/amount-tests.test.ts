@@ -1,8 +1,6 @@
 import jStat from 'jstat'
 import { describe, expect, it } from 'vitest'
-import { toDecimal } from '../../../shared/digits/decimal'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import { thresholdBand, thresholdBucket } from '../../../shared/digits/threshold'
+import { toDecimal, runDigitTest, thresholdBand, thresholdBucket } from '#shared/digits'
 import { jsonColumn } from './open-data'
 
 /** x = 10^(1 + 3i/count) to the cent: log-uniform over three decades, so every first-two bucket holds about 1/90 of the sum. */
@@ -22,7 +20,7 @@ describe('summation', () => {
     expect(planted.mad!.value).toBeGreaterThan(smooth.mad!.value)
   })
 
-  it('sums amounts exactly and expects 1/90 of the total per bucket (CHECKS.md)', () => {
+  it('sums amounts exactly and expects 1/90 of the total per bucket (docs/check-values.md)', () => {
     const values = ['0.10', '0.20', '12.10', '12.20', '12.30', '-12.40', '99.99', '1e20', '5']
     const result = runDigitTest({ test: 'summation', input: { values } })
     const bin = (key: string) => result.bins.find(b => b.key === key)!

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { toDigitRecord } from '../../../shared/digits/digit-record'
-import { COMMA_STYLE } from '../../../shared/digits/read-number'
+import { toDigitRecord, COMMA_STYLE } from '#shared/digits'
 
 describe('the digit record of one cell', () => {
   it('holds every digit field of an ordinary amount', () => {
@@ -26,7 +25,7 @@ describe('the digit record of one cell', () => {
   })
 
   it('gets 1000 right where log10 does not', () => {
-    // CHECKS.md: Math.log(1000)/Math.LN10 = 2.9999999999999996, which a log-based reader turns into digit "10".
+    // docs/check-values.md: Math.log(1000)/Math.LN10 = 2.9999999999999996, which a log-based reader turns into digit "10".
     expect(toDigitRecord(1000)).toMatchObject({ firstDigit: 1, secondDigit: 0, firstTwo: 10, firstThree: 100, integerDigits: 4, trailingZeros: 3, lastTwo: 0, mantissa: 0 })
   })
 

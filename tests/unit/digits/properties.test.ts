@@ -1,7 +1,6 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
+import { integerPowerSeries, powerSeries, runDigitTest } from '#shared/digits'
 
 /** value × (mantissa · 10^-places), exactly, as decimal text (BigInt, independent of the engine). */
 function scale(value: string, mantissa: bigint, places: number): string {
@@ -13,7 +12,7 @@ const firstDigit = (values: readonly string[]) => runDigitTest({ test: 'first-di
 
 // fast-check runs each property dozens of times over thousands of values: seconds on a busy machine.
 describe('properties', { timeout: 60_000 }, () => {
-  // 2^n, n = 0..999 conforms closely (CHECKS.md worked case: MAD 0.000678).
+  // 2^n, n = 0..999 conforms closely (docs/check-values.md worked case: MAD 0.000678).
   const conforming = powerSeries(2, 1000)
 
   it('scaling a conforming sample by a constant keeps it conforming (scale invariance; Hill 1995)', () => {
@@ -25,7 +24,7 @@ describe('properties', { timeout: 60_000 }, () => {
     }), { numRuns: 40 })
   })
 
-  it('the integers 1..N do not conform (CHECKS.md, a common classroom fact)', () => {
+  it('the integers 1..N do not conform (docs/check-values.md, a common classroom fact)', () => {
     fc.assert(fc.property(fc.integer({ min: 200, max: 30000 }), (n) => {
       // Below 5,000 values the reading says "deviates" (chi-square p < 0.01); from 5,000 on, the published range.
       expect(firstDigit(integerPowerSeries(1, n)).mad!.reading).toBe(n < 5000 ? 'deviates' : 'nonconforming')

@@ -1,8 +1,6 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { decimalText } from '../../../shared/digits/digit-record'
-import { detectNumberStyle } from '../../../shared/digits/number-style'
-import { COMMA_STYLE, DOT_STYLE, readNumber } from '../../../shared/digits/read-number'
+import { decimalText, detectNumberStyle, COMMA_STYLE, DOT_STYLE, readNumber } from '#shared/digits'
 
 function read(cell: string | number, style = DOT_STYLE) {
   const r = readNumber(cell, style)
@@ -10,17 +8,17 @@ function read(cell: string | number, style = DOT_STYLE) {
 }
 
 describe('reading numbers from text', () => {
-  it('avoids the floating-point traps listed in CHECKS.md', () => {
-    // CHECKS.md: Math.log(1000)/Math.LN10 = 2.9999999999999996 gives a "first digit" of 10.
+  it('avoids the floating-point traps listed in docs/check-values.md', () => {
+    // docs/check-values.md: Math.log(1000)/Math.LN10 = 2.9999999999999996 gives a "first digit" of 10.
     expect(Math.log(1000) / Math.LN10).toBe(2.9999999999999996)
     expect(read('1000')).toBe('1e3')
     expect(read(1000)).toBe('1e3')
-    // CHECKS.md: String(1e21) = "1e+21", String(1e-7) = "1e-7".
+    // docs/check-values.md: String(1e21) = "1e+21", String(1e-7) = "1e-7".
     expect(read(1e21)).toBe('1e21')
     expect(read(1e-7)).toBe('1e-7')
-    // CHECKS.md: 5e-324 (the smallest double) gives Infinity through division.
+    // docs/check-values.md: 5e-324 (the smallest double) gives Infinity through division.
     expect(read(5e-324)).toBe('5e-324')
-    // DESIGN.md: 0.1 + 0.2 must not go wrong; the double's shortest text is 0.30000000000000004.
+    // docs/product-rules.md: 0.1 + 0.2 must not go wrong; the double's shortest text is 0.30000000000000004.
     expect(read(0.1 + 0.2)).toBe('30000000000000004e-1')
     expect(read('0.3')).toBe('3e-1')
   })

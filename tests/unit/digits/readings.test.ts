@@ -1,9 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { DISTRIBUTIONS } from '../../../shared/digits/distribution-tests'
-import { MAD_RANGES, MAD_RANGES_FROM, meanAbsoluteDeviation } from '../../../shared/digits/mad'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import { MINIMUM_VALUES } from '../../../shared/digits/suitability'
-import type { DistributionTest, GroupResult, Reading } from '../../../shared/digits/types'
+import { DISTRIBUTIONS, MAD_RANGES, MAD_RANGES_FROM, meanAbsoluteDeviation, runDigitTest, MINIMUM_VALUES } from '#shared/digits'
+import type { DistributionTest, GroupResult, Reading } from '#shared/digits'
 import { jsonColumn } from './open-data'
 import { asCounts, logUniform, sampleCounts, seeded } from './simulate'
 
@@ -174,7 +171,7 @@ describe('readings on open data (vega-datasets 3.2.1, movies.json)', () => {
       const { groups } = runDigitTest({ test, input: { values: rows }, groups: { items } })
       expect(groups!.length).toBeGreaterThan(5)
       for (const group of groups!) expectAgreesWithQ(group)
-      // The whole column conforms (CHECKS.md), and so no genre stands out in the first-digit test.
+      // The whole column conforms (docs/check-values.md), and so no genre stands out in the first-digit test.
       if (test === 'first-digit') expect(groups!.filter(g => SAYS_DEVIATES.has(g.reading))).toEqual([])
     }
   })

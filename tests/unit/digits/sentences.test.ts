@@ -1,9 +1,8 @@
 import jStat from 'jstat'
 import { describe, expect, it } from 'vitest'
 import { summarize } from '../../../shared/charts/summary'
-import { DISTRIBUTIONS } from '../../../shared/digits/distribution-tests'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import type { DistributionTest } from '../../../shared/digits/types'
+import { DISTRIBUTIONS, runDigitTest } from '#shared/digits'
+import type { DistributionTest } from '#shared/digits'
 import { jsonColumn } from './open-data'
 import { asCounts, logUniform, sampleCounts, seeded } from './simulate'
 

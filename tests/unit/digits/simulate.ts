@@ -1,4 +1,4 @@
-import type { DistributionCounts } from '../../../shared/digits/types'
+import type { DistributionCounts } from '#shared/digits'
 
 /** The demo's seeded generator (mulberry32): every simulated sample is the same on every run and machine. */
 export { seededRandom as seeded } from '../../../server/services/demo/seeded-random'

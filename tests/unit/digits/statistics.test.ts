@@ -1,16 +1,9 @@
 import jStat from 'jstat'
 import { describe, expect, it } from 'vitest'
-import { binomialRange, binZ } from '../../../shared/digits/bin-statistics'
-import { chiSquare } from '../../../shared/digits/chi-square'
-import { DISTRIBUTIONS } from '../../../shared/digits/distribution-tests'
-import { leadingShares, roundShare, secondDigitShares } from '../../../shared/digits/expected-shares'
-import { conformityOf, expectedMad, MAD_RANGES } from '../../../shared/digits/mad'
-import { mantissaArc } from '../../../shared/digits/mantissa-arc'
-import { integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import type { DistributionTest } from '../../../shared/digits/types'
+import { binomialRange, binZ, chiSquare, DISTRIBUTIONS, leadingShares, roundShare, secondDigitShares, conformityOf, expectedMad, MAD_RANGES, mantissaArc, integerPowerSeries, powerSeries, runDigitTest } from '#shared/digits'
+import type { DistributionTest } from '#shared/digits'
 
-describe('expected shares (CHECKS.md; Benford 1938, Hill 1995)', () => {
+describe('expected shares (docs/check-values.md; Benford 1938, Hill 1995)', () => {
   it('first digit', () => {
     const published = [0.30103, 0.17609, 0.12494, 0.09691, 0.07918, 0.06695, 0.05799, 0.05115, 0.04576]
     leadingShares(1, 9).forEach((share, i) => expect(share).toBeCloseTo(published[i]!, 5))
@@ -58,7 +51,7 @@ describe('expected shares (CHECKS.md; Benford 1938, Hill 1995)', () => {
   })
 })
 
-describe('MAD conformity (ranges from memory: Nigrini 2012, Table 7.1, via CHECKS.md)', () => {
+describe('MAD conformity (ranges from memory: Nigrini 2012, Table 7.1, via docs/check-values.md)', () => {
   it.each(Object.entries(MAD_RANGES) as Array<[DistributionTest, readonly [number, number, number]]>)('%s: each range includes its upper end', (test, [close, acceptable, marginal]) => {
     expect(conformityOf(test, 0)).toBe('close')
     expect(conformityOf(test, close)).toBe('close')
@@ -86,7 +79,7 @@ describe('MAD conformity (ranges from memory: Nigrini 2012, Table 7.1, via CHECK
   })
 })
 
-describe('expected and excess MAD (CHECKS.md; Barney & Schulzke 2016)', () => {
+describe('expected and excess MAD (docs/check-values.md; Barney & Schulzke 2016)', () => {
   it('is about 0.2348/√N for the first digit and 0.0793/√N for the first two', () => {
     for (const n of [100, 1000, 3147, 100000]) {
       expect(expectedMad(n, DISTRIBUTIONS['first-digit'].shares) * Math.sqrt(n)).toBeCloseTo(0.2348, 4)
@@ -105,7 +98,7 @@ describe('expected and excess MAD (CHECKS.md; Barney & Schulzke 2016)', () => {
   })
 })
 
-describe('Z with continuity correction (Fleiss 1981 as Nigrini uses it; CHECKS.md)', () => {
+describe('Z with continuity correction (Fleiss 1981 as Nigrini uses it; docs/check-values.md)', () => {
   it('leaves out the 1/(2N) term when it is not smaller than |p̂ − p|', () => {
     // Hand calculation: |0.30 − 0.30103| = 0.00103 < 1/200, so Z = 0.00103 / sqrt(0.30103·0.69897/100) = 0.022454.
     expect(binZ(30, 100, Math.log10(2))).toBeCloseTo(-0.022454, 6)
@@ -180,7 +173,7 @@ describe('chi-square p-values at printed critical values (printed statistical ta
   })
 })
 
-describe('mantissa arc (Rayleigh; Jammalamadaka & SenGupta 2001, via CHECKS.md)', () => {
+describe('mantissa arc (Rayleigh; Jammalamadaka & SenGupta 2001, via docs/check-values.md)', () => {
   it('matches L² computed with Math.log10 on small exact integers', () => {
     // Independent: 2^n for n < 50 and 1..999 are exact doubles, so log10 is accurate here.
     for (const values of [powerSeries(2, 50, 1), integerPowerSeries(1, 999)]) {

@@ -1,10 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { countDistribution, recordsOf } from '../../../shared/digits/count-records'
-import { benjaminiHochberg } from '../../../shared/digits/false-discovery'
-import { fibonacciSeries, integerPowerSeries, powerSeries } from '../../../shared/digits/reference-series'
-import { runDigitTest } from '../../../shared/digits/run-digit-test'
-import { checkSuitability, MINIMUM_VALUES } from '../../../shared/digits/suitability'
-import type { ColumnProfile } from '../../../shared/digits/types'
+import { countDistribution, recordsOf, benjaminiHochberg, fibonacciSeries, integerPowerSeries, powerSeries, runDigitTest, checkSuitability, MINIMUM_VALUES } from '#shared/digits'
+import type { ColumnProfile } from '#shared/digits'
 
 const codes = (profile: Partial<ColumnProfile>, n = 5000) => checkSuitability({ test: 'first-digit', n, profile: { ...healthy, ...profile } })
   .map(f => `${f.code}:${f.severity}`)
@@ -13,7 +9,7 @@ const healthy: ColumnProfile = { n: 5000, min: '0.5', max: '250000', atMin: 1, a
 
 describe('suitability', () => {
   it('derives each test\'s minimum from Cochran\'s rule: no bin under 1 expected, at most a fifth under 5 (Cochran 1954)', () => {
-    // Shares from CHECKS.md. First digit: one bin of nine may expect under 5, so the second rarest, P(8) = 0.05115, sets it.
+    // Shares from docs/check-values.md. First digit: one bin of nine may expect under 5, so the second rarest, P(8) = 0.05115, sets it.
     expect(MINIMUM_VALUES['first-digit']).toMatchObject({ warning: Math.ceil(5 / 0.05115), stop: Math.ceil(1 / 0.04576), rarest: '"9"' })
     // Second digit: two of ten may; the third rarest is P(D2 = 7) = 0.09035.
     expect(MINIMUM_VALUES['second-digit']!.warning).toBe(Math.ceil(5 / 0.09035))
@@ -34,7 +30,7 @@ describe('suitability', () => {
   })
 
   it('sizes the round-numbers test by its rarest bin at the column\'s precision, not by multiples of 100', () => {
-    // Whole amounts of four and more digits: multiples of 1,000 are about 1 in 1,000 (the law; CHECKS.md round shares).
+    // Whole amounts of four and more digits: multiples of 1,000 are about 1 in 1,000 (the law; docs/check-values.md round shares).
     const whole = Array.from({ length: 3000 }, (_, i) => String(Math.round(10 ** (3 + (3 * i) / 3000))))
     const few = runDigitTest({ test: 'round-numbers', input: { values: whole } }).suitability.find(f => f.code === 'too-few-values')!
     expect(few.message).toContain('multiples of 1,000')

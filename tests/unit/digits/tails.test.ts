@@ -1,9 +1,7 @@
 import jStat from 'jstat'
 import { describe, expect, it } from 'vitest'
 import { formatP, formatPValue } from '../../../shared/charts/p-value'
-import { chiSquare } from '../../../shared/digits/chi-square'
-import { binomialAtMost, chiSquareUpper, P_FLOOR, studentUpper } from '../../../shared/digits/tails'
-import { t95 } from '../../../shared/digits/threshold-model'
+import { chiSquare, binomialAtMost, chiSquareUpper, P_FLOOR, studentUpper, t95 } from '#shared/digits'
 
 /** |a/b − 1|: the relative error the issue asks to keep under 1e-6. */
 const relative = (a: number, b: number) => Math.abs(a / b - 1)
@@ -53,7 +51,7 @@ function oddDfUpperLog(statistic: number, df: number): number {
 
 describe('chi-square upper tail', () => {
   it.each([
-    // Printed statistical tables (upper 5% and 1% points), as listed in the team's CHECKS.md.
+    // Printed statistical tables (upper 5% and 1% points), as listed in docs/check-values.md.
     [8, 15.507, 0.05], [8, 20.090, 0.01], [9, 16.919, 0.05], [9, 21.666, 0.01], [89, 112.022, 0.05], [89, 122.942, 0.01],
     [99, 123.225, 0.05], [99, 134.642, 0.01], [899, 969.865, 0.05], [899, 1000.575, 0.01],
   ])('df %i at the printed point %f gives %f', (df, statistic, p) => {

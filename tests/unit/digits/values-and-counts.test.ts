@@ -1,9 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { toDigitRecord } from '../../../shared/digits/digit-record'
-import { DISTRIBUTIONS } from '../../../shared/digits/distribution-tests'
-import { runDigitTest, type TestInput } from '../../../shared/digits/run-digit-test'
-import { thresholdBand } from '../../../shared/digits/threshold'
-import type { ColumnProfile, DigitRecord, DistributionTest, StatusCounts, TestName } from '../../../shared/digits/types'
+import { toDigitRecord, DISTRIBUTIONS, runDigitTest, thresholdBand } from '#shared/digits'
+import type { TestInput, ColumnProfile, DigitRecord, DistributionTest, StatusCounts, TestName } from '#shared/digits'
 import { jsonColumn } from './open-data'
 
 /*

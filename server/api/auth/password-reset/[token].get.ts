@@ -1,5 +1,5 @@
 import { tokenParamsSchema } from '#shared/schemas/auth'
-import { peekPasswordReset } from '../../../services/account/passwords'
+import { peekPasswordReset } from '#server/services/account/passwords'
 
 export default defineEventHandler(async (event) => {
   const { token } = readParams(event, tokenParamsSchema)

@@ -1,5 +1,5 @@
 import { passwordResetSchema, tokenParamsSchema } from '#shared/schemas/auth'
-import { completePasswordReset } from '../../../services/account/passwords'
+import { completePasswordReset } from '#server/services/account/passwords'
 
 export default defineEventHandler(async (event) => {
   const { token } = readParams(event, tokenParamsSchema)

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findBlock } from '../../../services/investigations/blocks'
-import { cachedAnalysis } from '../../../services/investigations/analysis'
+import { findBlock } from '#server/services/investigations/blocks'
+import { cachedAnalysis } from '#server/services/investigations/analysis'
 
 // The stored result of the block's current settings (null when not run yet); never computes.
 export default defineEventHandler(async (event) => {

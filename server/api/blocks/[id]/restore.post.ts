@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findBlock, restoreBlock } from '../../../services/investigations/blocks'
+import { findBlock, restoreBlock } from '#server/services/investigations/blocks'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { reviewDecisionSchema } from '#shared/schemas/investigation'
-import { findBlock } from '../../../services/investigations/blocks'
-import { decideReview } from '../../../services/investigations/review'
+import { findBlock } from '#server/services/investigations/blocks'
+import { decideReview } from '#server/services/investigations/review'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findBlock } from '../../../services/investigations/blocks'
-import { runAnalysis } from '../../../services/investigations/analysis'
+import { findBlock } from '#server/services/investigations/blocks'
+import { runAnalysis } from '#server/services/investigations/analysis'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

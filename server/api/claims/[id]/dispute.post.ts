@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { disputeSchema } from '#shared/schemas/investigation'
-import { disputeClaim, findClaim } from '../../../services/investigations/claims'
+import { disputeClaim, findClaim } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { unlockSchema } from '#shared/schemas/investigation'
-import { findClaim, unlockClaim } from '../../../services/investigations/claims'
+import { findClaim, unlockClaim } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

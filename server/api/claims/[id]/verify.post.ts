@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { verifySchema } from '#shared/schemas/investigation'
-import { findClaim, verifyClaim } from '../../../services/investigations/claims'
+import { findClaim, verifyClaim } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

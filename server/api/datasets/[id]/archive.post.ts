@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { archiveDataset, findDataset } from '../../../services/datasets/catalog'
+import { archiveDataset, findDataset } from '#server/services/datasets/catalog'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

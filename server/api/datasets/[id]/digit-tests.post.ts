@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { digitTestRequestSchema } from '#shared/schemas/dataset'
-import { findDataset } from '../../../services/datasets/catalog'
-import { runDatasetTest } from '../../../services/datasets/digit-tests'
+import { findDataset } from '#server/services/datasets/catalog'
+import { runDatasetTest } from '#server/services/datasets/digit-tests'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

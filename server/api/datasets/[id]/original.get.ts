@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findDataset, originalBytes } from '../../../services/datasets/catalog'
+import { findDataset, originalBytes } from '#server/services/datasets/catalog'
 
 // The bytes as uploaded, checked against their SHA-256 first; saved under the original file name.
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findDataset, restoreDataset } from '../../../services/datasets/catalog'
+import { findDataset, restoreDataset } from '#server/services/datasets/catalog'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

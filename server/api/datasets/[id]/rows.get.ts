@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { drillDownQuerySchema } from '#shared/schemas/dataset'
-import { findDataset } from '../../../services/datasets/catalog'
-import { binRows } from '../../../services/datasets/rows'
+import { findDataset } from '#server/services/datasets/catalog'
+import { binRows } from '#server/services/datasets/rows'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

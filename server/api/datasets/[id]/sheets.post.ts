@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { sheetImportSchema } from '#shared/schemas/dataset'
-import { findDataset } from '../../../services/datasets/catalog'
-import { importSheet } from '../../../services/datasets/sheets'
+import { findDataset } from '#server/services/datasets/catalog'
+import { importSheet } from '#server/services/datasets/sheets'
 
 // { sheet, title? }: another sheet of this workbook as a new dataset → 201 or 202 { id, status }.
 export default defineEventHandler(async (event) => {

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { auditQuerySchema } from '#shared/schemas/investigation'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { auditTrail } from '../../../services/investigations/audit-trail'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { auditTrail } from '#server/services/investigations/audit-trail'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { claimCreateSchema } from '#shared/schemas/investigation'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { createClaim } from '../../../services/investigations/claims'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { createClaim } from '#server/services/investigations/claims'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { blockOrderSchema } from '#shared/schemas/investigation'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { reorderBlocks } from '../../../services/investigations/blocks'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { reorderBlocks } from '#server/services/investigations/blocks'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

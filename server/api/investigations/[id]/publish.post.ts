@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { publishSchema } from '#shared/schemas/investigation'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { publish } from '../../../services/publishing/publish'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { publish } from '#server/services/publishing/publish'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

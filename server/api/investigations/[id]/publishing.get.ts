@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { publishingPanel } from '../../../services/publishing/publish'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { publishingPanel } from '#server/services/publishing/publish'
 
 // The publishing panel: what still blocks a clean publication, who did each check, and the links
 // made so far (with their addresses for members who may publish).

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { requestReview } from '../../../services/investigations/review'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { requestReview } from '#server/services/investigations/review'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { recordAccountEvent } from '../../../services/account/audit'
-import { endOwnSession } from '../../../services/account/sessions'
+import { recordAccountEvent } from '#server/services/account/audit'
+import { endOwnSession } from '#server/services/account/sessions'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

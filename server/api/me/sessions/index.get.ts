@@ -1,4 +1,4 @@
-import { listSessions } from '../../../services/account/sessions'
+import { listSessions } from '#server/services/account/sessions'
 
 export default defineEventHandler(async (event) => {
   const { user, session } = await requireSession(event)

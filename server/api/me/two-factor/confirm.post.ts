@@ -1,5 +1,5 @@
 import { codeSchema } from '#shared/schemas/auth'
-import { confirmTwoFactor } from '../../../services/account/two-factor'
+import { confirmTwoFactor } from '#server/services/account/two-factor'
 
 export default defineEventHandler(async (event) => {
   const signedIn = await requireSession(event)

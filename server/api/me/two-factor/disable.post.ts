@@ -1,6 +1,6 @@
 import { passwordConfirmSchema } from '#shared/schemas/auth'
-import { disableTwoFactor } from '../../../services/account/two-factor'
-import { confirmPassword } from '../../../services/sign-in'
+import { disableTwoFactor } from '#server/services/account/two-factor'
+import { confirmPassword } from '#server/services/sign-in'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

@@ -1,5 +1,5 @@
 import { codeSchema } from '#shared/schemas/auth'
-import { regenerateRecoveryCodes } from '../../../services/account/two-factor'
+import { regenerateRecoveryCodes } from '#server/services/account/two-factor'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

@@ -1,4 +1,4 @@
-import { startTwoFactorSetup } from '../../../services/account/two-factor'
+import { startTwoFactorSetup } from '#server/services/account/two-factor'
 
 export default defineEventHandler(async (event) => {
   const user = await requireSignedIn(event)

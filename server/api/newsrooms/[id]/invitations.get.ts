@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { listPendingInvitations } from '../../../services/invitations'
+import { listPendingInvitations } from '#server/services/invitations'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

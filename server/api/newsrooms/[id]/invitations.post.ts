@@ -1,5 +1,5 @@
 import { idParamsSchema, invitationCreateSchema } from '#shared/schemas/auth'
-import { createInvitation } from '../../../services/invitations'
+import { createInvitation } from '#server/services/invitations'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { listMembers } from '../../../services/members'
+import { listMembers } from '#server/services/members'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

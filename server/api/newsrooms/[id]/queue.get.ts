@@ -1,7 +1,7 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { can } from '#shared/auth/permissions'
-import { reviewQueue } from '../../../services/investigations/review'
-import { factCheckQueue } from '../../../services/investigations/claims'
+import { reviewQueue } from '#server/services/investigations/review'
+import { factCheckQueue } from '#server/services/investigations/claims'
 
 // What waits for the member: methods to review (data editors) and claims to check (fact-checkers).
 export default defineEventHandler(async (event) => {

@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
-import { findInvestigation } from '../../../services/investigations/catalog'
-import { findShareLink, revokeShareLink } from '../../../services/publishing/publish'
+import { findInvestigation } from '#server/services/investigations/catalog'
+import { findShareLink, revokeShareLink } from '#server/services/publishing/publish'
 
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { revokeInvitation } from '../../../../services/invitations'
+import { revokeInvitation } from '#server/services/invitations'
 
 const paramsSchema = z.object({ id: z.string().uuid(), invitationId: z.string().uuid() })
 
