@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process'
-import { mkdirSync, readdirSync, readFileSync } from 'node:fs'
+import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -193,6 +193,8 @@ async function printed(page: Page, name: string) {
   const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [pdf], { encoding: 'utf8' }))![1])
   const texts = Array.from({ length: pages }, (_, i) => execFileSync('pdftotext', ['-f', String(i + 1), '-l', String(i + 1), '-layout', pdf, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' '))
   const folder = join(artifacts, `${name}-pages`)
+  // A fresh folder: an earlier print with fewer than ten pages left page-1.png … beside page-01.png ….
+  rmSync(folder, { recursive: true, force: true })
   mkdirSync(folder, { recursive: true })
   execFileSync('pdftoppm', ['-png', '-r', '60', pdf, join(folder, 'page')])
   return { pages, texts, images: readdirSync(folder).filter(f => f.endsWith('.png')) }
