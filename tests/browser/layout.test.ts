@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { baseUrl, signedIn } from '../support/api'
 import demo from '../../server/services/demo/people.json'
+import { PLANTED_VENDOR } from '../../server/services/demo/payments'
 import { artifacts, launchBrowser, screenshot, waitForApp } from '../support/browser'
 import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
@@ -226,6 +227,8 @@ describe('printing (Chromium’s PDF, read back with poppler)', () => {
         expect(together, `“${figure.title}” (${figure.subtitle}) prints on one page with its summary`).toBe(true)
       }
       expect(texts.join(' ')).not.toMatch(/Chart as PNG|Embed this chart|Run again/)
+      // The ranked groups keep their names on paper (on screen the draft's names are buttons, which print leaves out).
+      expect(texts.join(' ')).toContain(PLANTED_VENDOR)
       await context.close()
     }, 90_000)
   }
