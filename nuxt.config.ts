@@ -66,7 +66,16 @@ export default defineNuxtConfig({
     },
   },
   vite: {
-    build: { target: 'es2022' },
+    build: {
+      target: 'es2022',
+      rollupOptions: {
+        // The page imports the engine's index for its light parts (test names, ranges, the number
+        // reader); stdlib's CommonJS modules behind the tails would otherwise stay in the bundle for
+        // their "side effects", and one of them probes for generators with eval, which the CSP refuses.
+        // They have none: dropping them where nothing calls them changes nothing that runs.
+        treeshake: { moduleSideEffects: id => !id.includes('/node_modules/@stdlib/') },
+      },
+    },
     esbuild: { target: 'es2022' },
     optimizeDeps: {
       include: ['@tiptap/vue-3', '@tiptap/starter-kit', '@tiptap/pm/state', '@tiptap/pm/view', 'vega-embed', 'vega-lite', 'vega', 'vega-interpreter', 'arquero', 'papaparse', 'zod'],

@@ -45,7 +45,7 @@ export async function watchCspViolations(page: Page): Promise<() => Promise<stri
   })
   await page.addInitScript(() => {
     const seen: string[] = ((window as { cspViolations?: string[] }).cspViolations = [])
-    document.addEventListener('securitypolicyviolation', event => seen.push(`${event.effectiveDirective} blocked ${event.blockedURI || 'inline'}`))
+    document.addEventListener('securitypolicyviolation', event => seen.push(`${event.effectiveDirective} blocked ${event.blockedURI || 'inline'} at ${event.sourceFile}:${event.lineNumber}:${event.columnNumber}`))
   })
   return async () => [...lines, ...await page.evaluate(() => (window as { cspViolations?: string[] }).cspViolations ?? [])]
 }
