@@ -10,6 +10,8 @@ export interface ClaimMarkOptions {
   statusOf: () => Map<string, ClaimStatus>
   /** Told which locked claim an edit tried to change, so the editor can say so where the caret is. */
   onRefused: (claimId: string) => void
+  /** The claim a link points at, drawn highlighted. */
+  targetOf: () => string | null
 }
 
 function claimTextIn(doc: ProseNode, claimId: string): string {
@@ -29,7 +31,7 @@ export const ClaimMark = Mark.create<ClaimMarkOptions>({
   inclusive: false,
   excludes: '',
   addOptions() {
-    return { statusOf: () => new Map(), onRefused: () => {} }
+    return { statusOf: () => new Map(), onRefused: () => {}, targetOf: () => null }
   },
   addAttributes() {
     return {
@@ -47,7 +49,7 @@ export const ClaimMark = Mark.create<ClaimMarkOptions>({
     return ['span', mergeAttributes(HTMLAttributes, { class: 'claim' }), 0]
   },
   addProseMirrorPlugins() {
-    const { statusOf, onRefused } = this.options
+    const { statusOf, onRefused, targetOf } = this.options
     return [new Plugin({
       key: new PluginKey('claim-lock'),
       filterTransaction(transaction, state) {
@@ -63,10 +65,11 @@ export const ClaimMark = Mark.create<ClaimMarkOptions>({
       props: {
         decorations(state) {
           const statuses = statusOf()
+          const target = targetOf()
           const decorations: Decoration[] = []
           state.doc.descendants((node, position) => {
             const mark = node.isText ? node.marks.find(m => m.type.name === 'claim') : undefined
-            if (mark) decorations.push(Decoration.inline(position, position + node.nodeSize, { class: `claim-${statuses.get(mark.attrs.claimId) ?? 'open'}` }))
+            if (mark) decorations.push(Decoration.inline(position, position + node.nodeSize, { class: `claim-${statuses.get(mark.attrs.claimId) ?? 'open'}${mark.attrs.claimId === target ? ' claim-target' : ''}` }))
           })
           return DecorationSet.create(state.doc, decorations)
         },

@@ -7,6 +7,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare name: string
   declare passwordHash: string
   declare notifyByEmail: CreationOptional<boolean>
+  declare emailMentions: CreationOptional<boolean>
   declare totpSecret: CreationOptional<string | null>
   declare totpPendingSecret: CreationOptional<string | null>
   declare totpLastStep: CreationOptional<string | null>
@@ -19,6 +20,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
       name: { type: DataTypes.TEXT, allowNull: false },
       passwordHash: { type: DataTypes.TEXT, allowNull: false },
       notifyByEmail: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+      emailMentions: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       totpSecret: { type: DataTypes.TEXT, allowNull: true },
       totpPendingSecret: { type: DataTypes.TEXT, allowNull: true },
       // BIGINT comes back as a string from pg.

@@ -16,12 +16,15 @@ import { ShareLink } from './ShareLink'
 import { Session } from './Session'
 import { PasswordReset } from './PasswordReset'
 import { RecoveryCode } from './RecoveryCode'
+import { Thread } from './Thread'
+import { ThreadMessage } from './ThreadMessage'
+import { Notification } from './Notification'
 
-export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode }
+export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode, Thread, ThreadMessage, Notification }
 
 /** Registers every model on `sequelize` and wires their associations. */
 export function setupModels(sequelize: Sequelize) {
-  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode]) model.setup(sequelize)
+  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode, Thread, ThreadMessage, Notification]) model.setup(sequelize)
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })

@@ -127,11 +127,13 @@ export async function loadMe(userId: string, sessionSecondFactor: boolean): Prom
     user: { id: user.id, name: user.name, email: user.email },
     memberships,
     notifyByEmail: user.notifyByEmail,
+    emailMentions: user.emailMentions,
     twoFactor: { enabled: !!user.totpSecret, thisSession: sessionSecondFactor, recoveryCodesLeft },
   }
 }
 
-export async function updatePreferences(userId: string, preferences: { notifyByEmail: boolean }) {
+export async function updatePreferences(userId: string, preferences: { notifyByEmail?: boolean, emailMentions?: boolean }) {
   await useDb().models.User.update(preferences, { where: { id: userId } })
-  return preferences
+  const user = await useDb().models.User.findByPk(userId, { attributes: ['notifyByEmail', 'emailMentions'] })
+  return { notifyByEmail: Boolean(user?.notifyByEmail), emailMentions: Boolean(user?.emailMentions) }
 }

@@ -24,6 +24,8 @@ const TABLE = {
   'claim.remove': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'claim.verify': { 'admin': 'any', 'data-editor': false, 'fact-checker': 'any', 'reporter': false },
   'lock.lift': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
+  // Every member who reads an investigation writes in its conversations (docs/product-rules.md).
+  'conversation.write': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'audit.read': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': 'any', 'reporter': 'any' },
   'investigation.publish': { 'admin': 'any', 'data-editor': 'any', 'fact-checker': false, 'reporter': false },
   'newsroom.configure': { 'admin': 'any', 'data-editor': false, 'fact-checker': false, 'reporter': false },

@@ -81,7 +81,9 @@ export const verifySchema = z.object({
 export const claimRemoveSchema = z.object({ reason: note.min(1).optional() })
 export const disputeSchema = z.object({ note: note.min(1, 'Say what is wrong or missing') })
 export const unlockSchema = z.object({ reason: note.min(1, 'Give the reason for lifting the lock; the audit trail keeps it') })
-export const preferencesSchema = z.object({ notifyByEmail: z.boolean() })
+/** The account's e-mail settings; a request names one or both. */
+export const preferencesSchema = z.object({ notifyByEmail: z.boolean().optional(), emailMentions: z.boolean().optional() })
+  .refine(v => v.notifyByEmail !== undefined || v.emailMentions !== undefined, { path: ['notifyByEmail'], message: 'Name a setting to change' })
 
 export const publishSchema = z.object({
   reason: note.optional(),

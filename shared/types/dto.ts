@@ -18,6 +18,8 @@ export interface MeDTO {
   user: UserDTO
   memberships: MembershipDTO[]
   notifyByEmail: boolean
+  /** A mention in a conversation is e-mailed too (on unless turned off). */
+  emailMentions: boolean
   /** Two-factor sign-in: on for the account, used by this session, recovery codes left. */
   twoFactor: { enabled: boolean, thisSession: boolean, recoveryCodesLeft: number }
 }

@@ -98,6 +98,8 @@ export interface QueueItemDTO {
   label: string
   status: ReviewStatus | ClaimStatus
   note: string | null
+  /** Where in the investigation it is: subjectAnchor() of the review or the claim. */
+  anchor: string
 }
 
 export interface InvestigationDTO extends InvestigationSummaryDTO {

@@ -78,6 +78,7 @@ function mainPages() {
     { name: 'dataset', who: demoPerson('data-editor'), path: `/datasets/${demoDatasetId}` },
     { name: 'members', who: demoPerson('admin'), path: `/newsrooms/${demoNewsroomId}/members` },
     { name: 'account', who: demoPerson('reporter'), path: '/account' },
+    { name: 'notifications', who: demoPerson('reporter'), path: '/notifications' },
     { name: 'published page', who: null, path: publishedPath },
     { name: 'chart embed', who: null, path: `${publishedPath.replace('/p/', '/embed/')}/${embedIndex}` },
   ]

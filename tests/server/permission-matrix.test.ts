@@ -5,7 +5,7 @@ import { PASSWORD } from '../support/newsroom'
 import {
   allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation, freshWorkbook,
   freshInvitation, freshMarkedPassage, freshMember, freshProseBlock, freshRemovedBlock, freshShareLink,
-  freshVerifiedClaim, MATRIX_CLAIM, matrixTable, openMatrixDesk, runRow, uploadProbe,
+  freshThread, freshVerifiedClaim, MATRIX_CLAIM, matrixTable, openMatrixDesk, runRow, uploadProbe,
 } from '../support/permission-matrix'
 import type { Actor, Cell, MatrixDesk, Row } from '../support/permission-matrix'
 import { apiRoutes } from '../support/route-files'
@@ -121,6 +121,18 @@ const ROWS: Row[] = [
     expected: anyAccount(200),
     why: 'Each account sets its own e-mail preference; the value sent is the default, so nothing changes for later tests.',
     send: client => client.patch('/api/me/preferences', { notifyByEmail: true }),
+  },
+  {
+    route: 'GET /api/me/notifications',
+    expected: anyAccount(200),
+    why: 'Each account reads its own notifications (only of newsrooms it belongs to: conversation.test.ts).',
+    send: client => client.get('/api/me/notifications'),
+  },
+  {
+    route: 'POST /api/me/notifications/read',
+    expected: anyAccount(200),
+    why: 'Each account marks its own notifications read; ids of anyone else\'s change nothing (conversation.test.ts).',
+    send: client => client.post('/api/me/notifications/read', { all: true }),
   },
 
   // Open routes
@@ -320,6 +332,41 @@ const ROWS: Row[] = [
     expected: allowOnly(MEMBERS, 200),
     why: 'The trail belongs to the investigation, which every member reads.',
     send: (client, _t, desk) => client.get(`/api/investigations/${desk.story.id}/audit`),
+  },
+  {
+    route: 'GET /api/investigations/[id]/threads',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'Conversations belong to the investigation, which every member reads.',
+    send: (client, _t, desk) => client.get(`/api/investigations/${desk.story.id}/threads`),
+  },
+  {
+    route: 'POST /api/investigations/[id]/threads',
+    expected: allowOnly(MEMBERS, 201),
+    why: 'docs/product-rules.md ("Conversations and notifications"): every member who reads an investigation may write in its conversations.',
+    send: (client, _t, desk) => client.post(`/api/investigations/${desk.story.id}/threads`, { subjectType: 'block', subjectId: desk.story.proseBlockId, parts: [{ type: 'text', text: 'The matrix asks about this paragraph.' }] }),
+  },
+  {
+    route: 'POST /api/threads/[id]/messages',
+    expected: allowOnly(MEMBERS, 201),
+    why: 'A reply is a message: whoever may start a conversation may answer in it.',
+    target: freshThread,
+    send: (client, thread) => client.post(`/api/threads/${thread.id}/messages`, { parts: [{ type: 'text', text: 'The matrix replies.' }] }),
+  },
+  {
+    route: 'POST /api/threads/[id]/resolve',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'Anyone in the conversation may close it; the audit trail keeps who did (conversation.test.ts).',
+    fresh: true,
+    target: freshThread,
+    send: (client, thread) => client.post(`/api/threads/${thread.id}/resolve`),
+  },
+  {
+    route: 'POST /api/threads/[id]/reopen',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'As resolving: anyone in the conversation may open it again.',
+    fresh: true,
+    target: desk => freshThread(desk, true),
+    send: (client, thread) => client.post(`/api/threads/${thread.id}/reopen`),
   },
   {
     route: 'POST /api/investigations/[id]/blocks',

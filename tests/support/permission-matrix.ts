@@ -130,6 +130,15 @@ export async function freshVerifiedClaim(desk: MatrixDesk) {
   return claim
 }
 
+/** A conversation the owner started on a new block of the story; resolved by them when asked. */
+export async function freshThread(desk: MatrixDesk, resolved = false) {
+  const block = await freshProseBlock(desk)
+  const reply = await desk.as.owner.post(`/api/investigations/${desk.story.id}/threads`, { subjectType: 'block', subjectId: block.id, parts: [{ type: 'text', text: 'The matrix starts a conversation.' }] })
+  expectStatus(reply, 201)
+  if (resolved) expectStatus(await desk.as.owner.post(`/api/threads/${reply.body.id}/resolve`), 200)
+  return { id: reply.body.id as string }
+}
+
 /** A new draft investigation of the owner: one empty paragraph. */
 export async function freshInvestigation(desk: MatrixDesk) {
   const reply = await desk.as.owner.post('/api/investigations', { newsroomId: desk.newsroom.id, title: `Matrix draft ${randomUUID().slice(0, 6)}` })

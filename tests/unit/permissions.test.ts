@@ -33,4 +33,8 @@ describe('the role table', () => {
     expect(can('data-editor', 'investigation.edit', false)).toBe(true)
     expect(can('reporter', 'claim.verify')).toBe(false)
   })
+
+  it('lets every member write in an investigation\'s conversations (docs/product-rules.md, "Conversations and notifications")', () => {
+    for (const role of ['admin', 'data-editor', 'fact-checker', 'reporter'] as const) expect(can(role, 'conversation.write')).toBe(true)
+  })
 })

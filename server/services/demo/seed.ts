@@ -7,6 +7,7 @@ import { DEMO_CLAIMS, DEMO_FOLLOW_UP, DEMO_STORY } from './story'
 import { decideReview, requestReview } from '../investigations/review'
 import { createClaim, disputeClaim, findClaim, verifyClaim } from '../investigations/claims'
 import { publish } from '../publishing/publish'
+import { replyToThread } from '../conversation/threads'
 import type { Actor } from '../../utils/permissions'
 import type { Block } from '../../models'
 
@@ -79,6 +80,15 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   await verifyClaim(checker, verified, { quote: verified.quote })
   const { claim: disputed } = await findClaim(DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
+  // The reporter answers the dispute in its conversation and asks the data editor in, so the demo shows one.
+  const dispute = await models.Thread.findOne({ where: { subjectType: 'claim', subjectId: disputed.id } })
+  if (dispute) {
+    await replyToThread(reporter, investigation, dispute, [
+      { type: 'text', text: 'Fair: I will say it stands out in the digit test and nothing more. ' },
+      { type: 'mention', userId: people.editorId },
+      { type: 'text', text: ' could you look at the ranking\'s method before I reword it?' },
+    ])
+  }
   const published = await publish(editor, investigation, {
     reason: 'Demo newsroom: published with checks still open, to show the public page.',
     disputed: { claimIds: [DEMO_CLAIMS.disputed.id], reason: 'Demo newsroom: the disputed passage is published to show that the public page does not mark it as verified.' },

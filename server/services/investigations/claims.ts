@@ -6,6 +6,10 @@ import type { Actor } from '../../utils/permissions'
 import { claimDTO, findInvestigation, liveBlocks, userNames } from './catalog'
 import { assertFourEyes } from './four-eyes'
 import { attachedClaims, claimText } from './prose-claims'
+import { investigationPath, subjectAnchor } from '#shared/conversation/anchor'
+import type { NotificationKind } from '#shared/types/conversation'
+import { recordNotifications } from '../conversation/notifications'
+import { noteInThread } from '../conversation/threads'
 
 /** The claim behind an id with its investigation, for the permission check; 404 when missing. */
 export async function findClaim(id: string): Promise<{ claim: Claim, investigation: Investigation }> {
@@ -48,6 +52,14 @@ export async function createClaim(actor: Actor, investigation: Investigation, in
     return created
   })
   return describeClaim(claim)
+}
+
+/** In-app notices of a decision on a claim, in the decision's transaction, linked to the passage. */
+function noticeOfDecision(actor: Actor, claim: Claim, kind: NotificationKind, recipients: (string | null)[], excerpt: string, transaction: Transaction, threadId?: string) {
+  return recordNotifications(recipients, {
+    kind, newsroomId: actor.newsroomId, investigationId: claim.investigationId, actorId: actor.userId,
+    anchor: subjectAnchor('claim', claim.id), threadId, excerpt,
+  }, transaction)
 }
 
 /** A claim whose words were deleted is out of every list; a late request about it gets 409. */
@@ -115,6 +127,8 @@ export async function verifyClaim(actor: Actor, claim: Claim, read: ReadVersion)
       where: { id: { [Op.in]: current.supportingBlockIds }, lockedAt: null }, transaction,
     })
     await audit(actor, current, 'claim.verified', { lockedBlockIds: current.supportingBlockIds, blockVersion: block.version }, transaction)
+    const investigation = await models.Investigation.findByPk(current.investigationId, { attributes: ['createdBy'], transaction })
+    await noticeOfDecision(actor, current, 'verified', [current.createdBy, investigation?.createdBy ?? null], quote, transaction)
     return current
   })
   return describeClaim(verified)
@@ -127,12 +141,16 @@ export async function disputeClaim(actor: Actor, claim: Claim, investigation: In
     if (current.status === 'verified') throw fail(423, { message: 'This claim is verified and locked. A data editor must lift the lock before it can be disputed.' })
     await current.update({ status: 'disputed', note, decidedBy: actor.userId, decidedAt: new Date() }, { transaction })
     await audit(actor, current, 'claim.disputed', { note }, transaction)
+    // The note starts (or carries on) the claim's conversation, where the reporter can answer it.
+    const told = [current.createdBy, investigation.createdBy]
+    const threadId = await noteInThread(actor, investigation, { type: 'claim', id: current.id, blockId: current.blockId }, note, 'disputed', told, transaction)
+    await noticeOfDecision(actor, current, 'disputed', told, note, transaction, threadId)
     return current
   })
   await notifyUsers([claim.createdBy, investigation.createdBy], {
     subject: `Claim disputed: ${investigation.title}`,
     lines: [`${actor.name} disputed a claim in “${investigation.title}”:`, `“${claim.quote}”`, `Their note: ${note}`],
-    path: `/investigations/${investigation.id}`,
+    path: investigationPath(investigation.id, subjectAnchor('claim', claim.id)),
   }, actor.userId)
   return describeClaim(disputed)
 }
@@ -151,12 +169,13 @@ export async function unlockClaim(actor: Actor, claim: Claim, investigation: Inv
     const release = current.supportingBlockIds.filter(id => !stillCited.has(id))
     if (release.length) await models.Block.update({ lockedBy: null, lockedAt: null }, { where: { id: { [Op.in]: release } }, transaction })
     await audit(actor, current, 'lock.lifted', { reason, unlockedBlockIds: release }, transaction)
+    await noticeOfDecision(actor, current, 'lock-lifted', [current.createdBy, investigation.createdBy, verifier], reason, transaction)
     return current
   })
   await notifyUsers([claim.createdBy, investigation.createdBy, verifier], {
     subject: `Lock lifted: ${investigation.title}`,
     lines: [`${actor.name} lifted the lock on a verified claim in “${investigation.title}”:`, `“${claim.quote}”`, `Reason: ${reason}`, 'It needs fact-checking again.'],
-    path: `/investigations/${investigation.id}`,
+    path: investigationPath(investigation.id, subjectAnchor('claim', claim.id)),
   }, actor.userId)
   return describeClaim(lifted)
 }
@@ -179,5 +198,6 @@ export async function factCheckQueue(newsroomId: string): Promise<QueueItemDTO[]
     label: quote,
     status: claim.status,
     note: claim.note ?? null,
+    anchor: subjectAnchor('claim', claim.id),
   }))
 }

@@ -6,6 +6,9 @@ import type { Actor } from '../../utils/permissions'
 import { lockBlockForChange } from './blocks'
 import { describeBlock, describeInvestigation } from './catalog'
 import { assertFourEyes } from './four-eyes'
+import { investigationPath, subjectAnchor } from '#shared/conversation/anchor'
+import { recordNotifications } from '../conversation/notifications'
+import { noteInThread } from '../conversation/threads'
 
 /** The reporter asks the desk to review the method of every analysis block. */
 export async function requestReview(actor: Actor, investigation: Investigation) {
@@ -13,6 +16,14 @@ export async function requestReview(actor: Actor, investigation: Investigation) 
   await sequelize.transaction(async (transaction) => {
     await investigation.update({ status: 'in-review', updatedBy: actor.userId }, { transaction })
     await recordAudit({ newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId, action: 'review.requested', subjectType: 'investigation', subjectId: investigation.id }, transaction)
+    // The notice lands on the first method still waiting for review.
+    const waiting = await useDb().models.Block.findOne({
+      where: { investigationId: investigation.id, kind: 'analysis', deletedAt: null, reviewStatus: { [Op.ne]: 'approved' } }, order: [['position', 'ASC']], attributes: ['id'], transaction,
+    })
+    await recordNotifications(await membersWithRoles(actor.newsroomId, ['data-editor', 'admin']), {
+      kind: 'review-requested', newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
+      anchor: waiting ? subjectAnchor('review', waiting.id) : '',
+    }, transaction)
   })
   await notifyUsers(await membersWithRoles(actor.newsroomId, ['data-editor', 'admin']), {
     subject: `Review requested: ${investigation.title}`,
@@ -46,6 +57,14 @@ export async function decideReview(actor: Actor, block: Block, investigation: In
       action: decision === 'approved' ? 'block.approved' : 'block.sent-back', subjectType: 'block', subjectId: block.id,
       detail: { note: note ?? null, settings: current.settings },
     }, transaction)
+    if (decision === 'sent-back') {
+      // The note starts (or carries on) the review's conversation, where the reporter can answer it.
+      const threadId = await noteInThread(actor, investigation, { type: 'review', id: current.id, blockId: current.id }, note!, 'sent-back', [investigation.createdBy], transaction)
+      await recordNotifications([investigation.createdBy], {
+        kind: 'sent-back', newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
+        anchor: subjectAnchor('review', current.id), threadId, excerpt: note,
+      }, transaction)
+    }
     return { stale: false, block: current }
   })
   if (outcome.stale) {
@@ -56,7 +75,7 @@ export async function decideReview(actor: Actor, block: Block, investigation: In
     await notifyUsers([investigation.createdBy], {
       subject: `Method sent back: ${investigation.title}`,
       lines: [`${actor.name} sent back an analysis block (${decided.settings?.test ? TEST_LABELS[decided.settings.test] : 'analysis'}) in “${investigation.title}”.`, `Their note: ${note}`],
-      path: `/investigations/${investigation.id}`,
+      path: investigationPath(investigation.id, subjectAnchor('review', decided.id)),
     }, actor.userId)
   }
   return describeBlock(decided)
@@ -79,5 +98,6 @@ export async function reviewQueue(newsroomId: string): Promise<QueueItemDTO[]> {
     label: `${block.settings?.test ? TEST_LABELS[block.settings.test] : 'Analysis'}${block.settings?.column ? ` of “${block.settings.column}”` : ''}`,
     status: block.reviewStatus,
     note: block.reviewNote ?? null,
+    anchor: subjectAnchor('review', block.id),
   }))
 }

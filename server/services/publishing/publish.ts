@@ -15,6 +15,7 @@ import { liveBlocks, stamp, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
 import { datasetColumns } from '../datasets/catalog'
 import { attachedClaims, filterClaimMarks } from '../investigations/prose-claims'
+import { recordNotifications } from '../conversation/notifications'
 
 /** The investigation's live blocks and the claims still attached to their words: what every check reads. */
 interface CheckState {
@@ -187,6 +188,9 @@ export async function publish(actor: Actor, investigation: Investigation, option
     if (followUpConfirmed) {
       await recordAudit({ ...entry, action: 'publication.follow-up-confirmed', subjectType: 'publication', subjectId: publication.id }, transaction)
     }
+    await recordNotifications(await membersWithRoles(actor.newsroomId, ['admin', 'data-editor', 'fact-checker', 'reporter']), {
+      ...entry, kind: 'published', excerpt: general.length ? options.reason : '',
+    }, transaction)
     return { link, publication }
   })
   const open = general.length + disputed.length
