@@ -1,22 +1,27 @@
-// Load benchmark (issue 8): 50 connections for 60 s on loopback against the analysis and read
-// routes of a 1M-row dataset, on a fresh Mantissa with its own PostgreSQL. Prints throughput,
-// latency percentiles and errors per route mix; never asserts.
+// Load benchmark (issues 8 and 16): 50 connections for 60 s on loopback against the analysis routes
+// (unfiltered, and the filtered questions of an investigation) and the read routes of a 1M-row
+// dataset, on a fresh Mantissa with its own PostgreSQL. Prints throughput, latency percentiles and
+// errors per route mix; never asserts.
 //
 //   npx tsx bench/load.bench.mjs                 # 1,000,000 rows, 50 connections, 60 s
 //   npx tsx bench/load.bench.mjs 100000 50 20    # rows, connections, seconds
+//   npx tsx bench/load.bench.mjs 1000000 50 60 filtered   # only the mixes whose name holds "filtered"
 import { rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
-import { memoryOf, signIn, startBench, uploadAndWait, writeLedger } from './support.mjs'
+import { memoryOf, signIn, startBench, uploadAndWait, waitForAfterImport, writeLedger } from './support.mjs'
 
-const [rows = 1_000_000, connections = 50, seconds = 60] = process.argv.slice(2).map(Number)
+const [rows = 1_000_000, connections = 50, seconds = 60] = process.argv.slice(2, 5).map(Number)
+// A fourth argument runs only the mixes whose name holds it ("filtered").
+const only = process.argv[5]
 const file = join(tmpdir(), `mantissa-load-${rows}.csv`)
 await writeLedger(file, rows)
 const bench = await startBench()
 try {
   const { cookie, request } = await signIn(bench.url)
   const { dataset } = await uploadAndWait(bench.url, cookie, file, `Load ledger ${rows}`)
+  await waitForAfterImport(bench.database, dataset.id)
   rmSync(file, { force: true })
   const me = await request('GET', '/api/me')
   const story = await request('POST', '/api/investigations', { newsroomId: me.memberships[0].newsroomId, title: 'Load test' })
@@ -35,6 +40,16 @@ try {
       json({ column: 'amount', test: 'last-two-digits' }),
       { method: 'POST', path: `/api/blocks/${block.id}/run` },
     ],
+    // The questions of an investigation: one department, a floor, a period, one vendor's repeats.
+    'filtered questions': [
+      json({ column: 'amount', test: 'first-two-digits', filters: [{ column: 'amount', op: 'between', min: 100 }] }),
+      json({ column: 'amount', test: 'first-two-digits', groupBy: 'vendor', filters: [{ column: 'amount', op: 'between', min: 150, max: 20000 }] }),
+      json({ column: 'amount', test: 'first-digit', groupBy: 'vendor', filters: [{ column: 'department', op: 'equals', value: 'Dept 3' }] }),
+      json({ column: 'amount', test: 'first-two-digits', filters: [{ column: 'paid_on', op: 'dates', from: '2025-03-01', to: '2025-06-30' }] }),
+      json({ column: 'amount', test: 'second-digit', groupBy: 'paid_on', period: 'month' }),
+      json({ column: 'amount', test: 'duplicates', filters: [{ column: 'department', op: 'equals', value: 'Dept 5' }] }),
+      json({ column: 'amount', test: 'first-two-digits', groupBy: 'vendor', filters: [{ column: 'amount', op: 'between', min: 1000 }, { column: 'department', op: 'equals', value: 'Dept 2' }] }),
+    ],
     'read: story, dataset, rows': [
       { method: 'GET', path: `/api/investigations/${story.id}` },
       { method: 'GET', path: `/api/blocks/${block.id}/analysis` },
@@ -43,7 +58,7 @@ try {
       { method: 'GET', path: `/api/datasets/${dataset.id}/preview?page=3` },
     ],
   }
-  for (const [name, requests] of Object.entries(mix)) {
+  for (const [name, requests] of Object.entries(mix).filter(([name]) => !only || name.includes(only))) {
     const before = memoryOf(bench.server.pid)
     const result = await autocannon({ url: bench.url, connections, duration: seconds, headers: { cookie }, requests })
     const after = memoryOf(bench.server.pid)

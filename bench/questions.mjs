@@ -35,6 +35,17 @@ export const QUESTIONS = [
     groupBy: 'vendor',
     filters: [{ column: 'department', op: 'one-of', values: ['Dept 2', 'Dept 5'] }, { column: 'amount', op: 'between', min: 100 }, { column: 'paid_on', op: 'dates', from: '2024-07-01' }],
   }, `department IN ('Dept 2', 'Dept 5') AND amount >= 100 AND paid_on >= DATE '2024-07-01'`, 'vendor'),
+  ft('amount 100 to 5,000 (number range)', { filters: [{ column: 'amount', op: 'between', min: 100, max: 5000 }] }, 'amount BETWEEN 100 AND 5000'),
+  ft('amount 99.995 to 12,345.67 (ends between cents)', { filters: [{ column: 'amount', op: 'between', min: 99.995, max: 12345.67 }] }, 'amount BETWEEN 99.995 AND 12345.67'),
+  ft('amount ≥ 100, by department', { groupBy: 'department', filters: [{ column: 'amount', op: 'between', min: 100 }] }, 'amount >= 100', 'department'),
+  ft('amount ≥ 1,000, department = one value, by vendor', { groupBy: 'vendor', filters: [{ column: 'amount', op: 'between', min: 1000 }, { column: 'department', op: 'equals', value: 'Dept 3' }] }, `amount >= 1000 AND department = 'Dept 3'`, 'vendor'),
+  {
+    label: 'repeated amounts, vendor = one value',
+    body: { column: 'amount', test: 'duplicates', filters: [{ column: 'vendor', op: 'equals', value: 'Vendor 17' }] },
+    sql: `WITH g AS (SELECT amount, count(*) AS c FROM digits WHERE vendor = 'Vendor 17' GROUP BY amount)
+          SELECT (SELECT count(*) FROM g), (SELECT count(*) FROM g WHERE c > 1), (SELECT sum(c) FROM g WHERE c > 1),
+                 (SELECT list(amount ORDER BY c DESC, amount) FROM (SELECT * FROM g WHERE c > 1 ORDER BY c DESC, amount LIMIT 50))`,
+  },
   {
     label: 'repeated amounts, department = one value',
     body: { column: 'amount', test: 'duplicates', filters: [{ column: 'department', op: 'equals', value: 'Dept 3' }] },

@@ -5,6 +5,7 @@ import { createReadStream, createWriteStream, readFileSync, statSync } from 'nod
 import { Readable } from 'node:stream'
 import { once } from 'node:events'
 import { join } from 'node:path'
+import pg from 'pg'
 import { ensurePostgres } from '../server/cli/postgres.mjs'
 import { buildIfStale, migrate, root, waitForServer } from '../server/cli/prepare.mjs'
 import { seededRandom } from '../server/services/demo/seeded-random.ts'
@@ -43,9 +44,14 @@ export function memoryOf(pid) {
 
 export const median = list => [...list].sort((a, b) => a - b)[Math.floor(list.length / 2)]
 
-/** A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. */
-export async function startBench(port = 3601) {
-  const database = ensurePostgres({ name: 'bench', port: 54369, database: 'mantissa_bench', throwaway: true })
+/**
+ * A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. Its
+ * ports (app, PostgreSQL, mail sink) are MANTISSA_BENCH_PORT, MANTISSA_BENCH_PG_PORT and
+ * MANTISSA_BENCH_MAIL_PORT, 3601, 54369 and 2765 unless set, so checkouts can bench side by side
+ * (a cluster keeps the port it was made with: remove .data/pg-bench after changing it).
+ */
+export async function startBench(port = Number(process.env.MANTISSA_BENCH_PORT ?? 3601)) {
+  const database = ensurePostgres({ name: 'bench', port: Number(process.env.MANTISSA_BENCH_PG_PORT ?? 54369), database: 'mantissa_bench', throwaway: true })
   database.recreate()
   migrate(database.url, database.appUrl)
   buildIfStale()
@@ -57,7 +63,7 @@ export async function startBench(port = 3601) {
     env: {
       ...process.env, PORT: String(port), NITRO_HOST: '127.0.0.1', NUXT_DATABASE_URL: database.appUrl,
       NUXT_SESSION_PASSWORD: 'bench-only-session-password-of-32-characters', NUXT_DEMO_SEED: 'true',
-      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: '2765', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
+      NUXT_MAIL_SINK_ENABLED: 'true', NUXT_MAIL_SINK_PORT: process.env.MANTISSA_BENCH_MAIL_PORT ?? '2765', NUXT_UPLOAD_LIMIT_BYTES: String(4 * 1024 ** 3),
       NUXT_STORAGE_BASE: join(root, '.data', 'bench-files'),
     },
   })
@@ -66,6 +72,7 @@ export async function startBench(port = 3601) {
   return {
     url,
     server,
+    database,
     async stop() {
       // The app first, so that no request still running sees its database go away.
       const exited = once(server, 'exit')
@@ -73,6 +80,28 @@ export async function startBench(port = 3601) {
       await exited
       database.stop()
     },
+  }
+}
+
+/**
+ * Waits until the work an import does after "ready" is done (indexes, planner statistics, repeated
+ * values whole and per text value): until then answers are right but some are slower. Returns when.
+ */
+export async function waitForAfterImport(database, datasetId, seconds = 600) {
+  const client = new pg.Client({ connectionString: database.appUrl })
+  await client.connect()
+  try {
+    for (const until = Date.now() + seconds * 1000; Date.now() < until;) {
+      const { rows: [done] } = await client.query(
+        // A number column's whole repeats are kept last (import.ts, countRepeats).
+        'SELECT bool_and(repeats IS NOT NULL) AS done FROM dataset_columns WHERE dataset_id = $1 AND profiles IS NOT NULL', [datasetId])
+      if (done?.done) return performance.now()
+      await new Promise(r => setTimeout(r, 200))
+    }
+    throw new Error('the work after the import did not finish')
+  }
+  finally {
+    await client.end()
   }
 }
 

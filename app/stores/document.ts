@@ -150,28 +150,31 @@ export const useDocumentStore = defineStore('document', () => {
     else claims.value.push(claim)
   }
 
+  // A claim's id is unique within its investigation only, so every claim route names the investigation too.
+  const claimPath = (claimId: string, action = '') => `/api/claims/${claimId}${action}?investigationId=${investigation.value!.id}`
+
   function markClaim(blockId: string, claimId: string) {
     return act(blockId, post<ClaimDTO>(`/api/investigations/${investigation.value!.id}/claims`, { id: claimId, blockId, supportingBlockIds: [] }), putClaim)
   }
   function citeBlocks(claimId: string, supportingBlockIds: string[]) {
-    return act(claimId, () => send<ClaimDTO>(`/api/claims/${claimId}`, { method: 'PATCH', body: { supportingBlockIds } }), putClaim)
+    return act(claimId, () => send<ClaimDTO>(claimPath(claimId), { method: 'PATCH', body: { supportingBlockIds } }), putClaim)
   }
   // Verifying and lifting a lock also lock or free the analysis blocks the claim rests on: read the
   // document again. Verify names the text block's version on screen, so a passage changed since it
   // was read is not locked.
   const verify = (claimId: string) => {
     const blockId = claims.value.find(c => c.id === claimId)?.blockId
-    return act(claimId, post(`/api/claims/${claimId}/verify`, { version: blocks.value.find(b => b.id === blockId)?.version }))
+    return act(claimId, post(claimPath(claimId, '/verify'), { version: blocks.value.find(b => b.id === blockId)?.version }))
   }
-  const dispute = (claimId: string, note: string) => act(claimId, post<ClaimDTO>(`/api/claims/${claimId}/dispute`, { note }), putClaim)
-  const unlock = (claimId: string, reason: string) => act(claimId, post(`/api/claims/${claimId}/unlock`, { reason }))
+  const dispute = (claimId: string, note: string) => act(claimId, post<ClaimDTO>(claimPath(claimId, '/dispute'), { note }), putClaim)
+  const unlock = (claimId: string, reason: string) => act(claimId, post(claimPath(claimId, '/unlock'), { reason }))
   const review = (blockId: string, decision: 'approved' | 'sent-back', note?: string) =>
     act(`review:${blockId}`, post<BlockDTO>(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }), replace)
   /** Takes a claim off its passage (the words stay); its block's pending typing is saved first, so the server strips the mark from the latest text. */
   async function removeClaim(claimId: string, reason?: string) {
     const claim = claims.value.find(c => c.id === claimId)
     if (claim) await whenSaved(claim.blockId)
-    return act(claimId, () => send(`/api/claims/${claimId}`, { method: 'DELETE', body: { reason } }))
+    return act(claimId, () => send(claimPath(claimId), { method: 'DELETE', body: { reason } }))
   }
   const requestReview = () => act('review-request', post<InvestigationDTO>(`/api/investigations/${investigation.value!.id}/review-request`), applyLayout)
 

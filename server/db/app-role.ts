@@ -21,6 +21,8 @@ export async function grantAppRole(sequelize: Sequelize, appRole: string) {
     GRANT USAGE, SELECT, UPDATE ON ALL SEQUENCES IN SCHEMA public TO ${app};
     REVOKE ALL ON audit_events FROM ${app};
     GRANT SELECT, INSERT ON audit_events TO ${app};
+    -- Drawing the next id is all an insert needs; setval could rewind the trail's ids under old events.
+    REVOKE UPDATE ON SEQUENCE audit_events_id_seq FROM ${app};
     REVOKE ALL ON schema_migrations FROM ${app};
     GRANT SELECT ON schema_migrations TO ${app};
   `)

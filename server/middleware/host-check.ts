@@ -3,11 +3,12 @@ import type { H3Event } from 'h3'
 // A page on another site can point its own domain name at this server (DNS rebinding) and then
 // read and write it as if same-origin: the browser sends that name as Host. Only the configured
 // public address (NUXT_PUBLIC_URL), NUXT_ALLOWED_HOSTS and loopback names are answered.
-const LOOPBACK = new Set(['localhost', '127.0.0.1', '[::1]'])
+// The whole Host, with at most a port: "localhost:3000@rebound.example" is no loopback name.
+const LOOPBACK = /^(localhost|127\.0\.0\.1|\[::1\])(:\d{1,5})?$/
 
 export default defineEventHandler((event) => {
   const host = (getRequestHeader(event, 'host') ?? '').toLowerCase()
-  if (!allowedHosts(event).has(host) && !LOOPBACK.has(hostnameOf(host))) {
+  if (!allowedHosts(event).has(host) && !LOOPBACK.test(host)) {
     throw fail(421, { message: `Mantissa answers at its own address, not at ${host || 'an unnamed host'}.` })
   }
 })
@@ -26,9 +27,4 @@ function allowedHosts(event: H3Event): Set<string> {
     }
   }))
   return allowed
-}
-
-/** The name without its port ("localhost:3000" → "localhost", "[::1]:3000" → "[::1]"). */
-function hostnameOf(host: string): string {
-  return host.startsWith('[') ? host.slice(0, host.indexOf(']') + 1) : host.split(':')[0]!
 }

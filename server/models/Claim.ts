@@ -17,8 +17,9 @@ export class Claim extends Model<InferAttributes<Claim>, InferCreationAttributes
 
   static setup(sequelize: Sequelize) {
     Claim.init({
+      // The id the claim's mark carries in the text; it names the claim within its investigation only.
       id: { type: DataTypes.UUID, primaryKey: true },
-      investigationId: { type: DataTypes.UUID, allowNull: false },
+      investigationId: { type: DataTypes.UUID, allowNull: false, primaryKey: true },
       blockId: { type: DataTypes.UUID, allowNull: false },
       quote: { type: DataTypes.TEXT, allowNull: false },
       supportingBlockIds: { type: DataTypes.ARRAY(DataTypes.UUID), allowNull: false, defaultValue: [] },

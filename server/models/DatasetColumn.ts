@@ -1,7 +1,7 @@
 import { Model, DataTypes } from 'sequelize'
 import type { CreationOptional, InferAttributes, InferCreationAttributes, Sequelize } from 'sequelize'
 import type { ColumnProfile as SuitabilityProfile, DuplicateCounts } from '#shared/digits'
-import type { DateReadingDTO } from '#shared/types/dataset'
+import type { DateReadingDTO, ValueLadder } from '#shared/types/dataset'
 
 export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCreationAttributes<DatasetColumn>> {
   declare datasetId: string
@@ -24,6 +24,8 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
   declare cubeGroups: CreationOptional<number[] | null>
   /** Pairs of text column positions counted together (digit-cube.ts), one after the other; null: none. */
   declare cubePairs: CreationOptional<number[] | null>
+  /** A number column's value ladder, whose rungs the cube counts (value-ladder.ts); null: range filters scan. */
+  declare ladder: CreationOptional<ValueLadder | null>
   /** Per sign, the suitability facts of the whole column (null for text columns). */
   declare profiles: CreationOptional<Record<'positive' | 'negative', SuitabilityProfile | null> | null>
 
@@ -52,6 +54,7 @@ export class DatasetColumn extends Model<InferAttributes<DatasetColumn>, InferCr
       coded: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       cubeGroups: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
       cubePairs: { type: DataTypes.ARRAY(DataTypes.SMALLINT), allowNull: true },
+      ladder: { type: DataTypes.JSONB, allowNull: true },
       dates: { type: DataTypes.JSONB, allowNull: true },
       repeats: { type: DataTypes.JSONB, allowNull: true },
     }, { sequelize, tableName: 'dataset_columns', underscored: true, timestamps: false })

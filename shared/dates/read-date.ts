@@ -1,6 +1,6 @@
 /**
  * Reading calendar dates from the way people write them in ledgers: 2025-03-15 (with or without a
- * time), 2025/03/15, 15/03/2025, 03/15/2025, 15.03.2025, 15-03-25, 15 March 2025, 15-Mar-2025,
+ * time of day, in any of these forms), 2025/03/15, 15/03/2025, 03/15/2025, 15.03.2025, 15-03-25, 15 March 2025, 15-Mar-2025,
  * March 15, 2025. Whether 03/04/2025 is the 3rd of April or the 4th of March cannot be told from one
  * cell, so a column is read in one order, settled by its own values (a first part above 12 is a day).
  * A day is the number of days since 1970-01-01 (UTC), so that periods and ranges compare as integers.
@@ -51,10 +51,26 @@ export function dayOfIso(text: string): number | null {
   return match ? dayNumber(Number(match[1]), Number(match[2]), Number(match[3])) : null
 }
 
+const TIME = /^(.*\d)(?:T|\s+)\d{1,2}:\d{2}(?::\d{2}(?:[.,]\d+)?)?(?:\s*(?:Z|[+-]\d{2}(?::?\d{2})?))?$/i
+
+/**
+ * The date part of a date written with a time of day ("2026-03-31 14:05", "2026-03-31T14:05:09Z",
+ * "31/03/2026 09:30", "2026-03-31T23:30:00-05:00"), or null when the text has no time after a date.
+ * The day is the one written: an offset is not applied, as a ledger's dates are the payer's own.
+ */
+export function dayPart(text: string): string | null {
+  const match = TIME.exec(text.trim())
+  if (!match) return null
+  const date = match[1]!
+  return ISO.test(date) || NUMERIC.test(date) || DAY_MONTH_NAME.test(date) || MONTH_NAME_DAY.test(date) ? date : null
+}
+
 /** Whether a text is written like a date in one of the forms above (the column's kind). */
 export function looksLikeDate(text: string): boolean {
   const t = text.trim()
   if (ISO.test(t) || NUMERIC.test(t)) return true
+  const day = dayPart(t)
+  if (day !== null) return looksLikeDate(day)
   const named = DAY_MONTH_NAME.exec(t) ?? MONTH_NAME_DAY.exec(t)
   return Boolean(named && monthOf(/^\d/.test(named[1]!) ? named[2]! : named[1]!))
 }
@@ -82,7 +98,7 @@ export function detectDateOrder(texts: Iterable<string>): { order: DateOrder, se
 
 /** The day a text names, read with the column's order for all-numeric forms; null when it is no date. */
 export function readDate(text: string, order: DateOrder): number | null {
-  const t = text.trim()
+  const t = dayPart(text) ?? text.trim()
   let match = ISO.exec(t)
   if (match) return dayNumber(Number(match[1]), Number(match[2]), Number(match[3]))
   match = NUMERIC.exec(t)

@@ -33,7 +33,8 @@ export type DatasetUpload = z.output<typeof datasetUploadSchema>
 /** Another sheet of an imported workbook, read into a dataset of its own. */
 export const sheetImportSchema = z.object({
   sheet: z.string().min(1).max(31),
-  title: z.string().trim().min(1, 'Give the dataset a title').max(200).optional(),
+  // One line, as an uploaded dataset's title: it is a line of the published methodology.
+  title: z.string().transform(oneLine).pipe(z.string().min(1, 'Give the dataset a title').max(200)).optional(),
 })
 
 const filterColumn = z.string().min(1).max(200)

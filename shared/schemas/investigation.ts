@@ -16,11 +16,37 @@ export const investigationUpdateSchema = z.object({
   archived: z.boolean().optional(),
 }).refine(v => v.title === undefined || v.titleVersion !== undefined, { path: ['titleVersion'], message: 'Name the title version you renamed from' })
 
-/** Tiptap document JSON; its structure is checked when it is rendered, never trusted as HTML. */
+const isRecord = (value: unknown): value is Record<string, unknown> => Boolean(value) && typeof value === 'object' && !Array.isArray(value)
+
+/**
+ * Whether every node has the shape the public page draws from (PublicationProse.vue) and the lock
+ * check reads (prose-claims.ts): a string `type`, a string `text` on text nodes, children and marks
+ * as lists. Anything else would be drawn otherwise than it is checked (a number as text is shown,
+ * yet holds no words), or break the page. Walks without recursion; the body's depth is capped before.
+ */
+function wellFormedNodes(nodes: unknown[] | undefined): boolean {
+  const stack: unknown[] = []
+  for (const node of nodes ?? []) stack.push(node)
+  while (stack.length) {
+    const node = stack.pop()
+    if (!isRecord(node) || typeof node.type !== 'string') return false
+    if (node.type === 'text' && typeof node.text !== 'string') return false
+    if (node.attrs !== undefined && !isRecord(node.attrs)) return false
+    if (node.marks !== undefined && !(Array.isArray(node.marks) && node.marks.every(mark => isRecord(mark) && typeof mark.type === 'string' && (mark.attrs === undefined || isRecord(mark.attrs))))) return false
+    if (node.content !== undefined) {
+      if (!Array.isArray(node.content)) return false
+      for (const child of node.content) stack.push(child)
+    }
+  }
+  return true
+}
+
+/** Tiptap document JSON; its structure is checked here and when it is rendered, never trusted as HTML. */
 export const proseContentSchema = z.object({
   type: z.literal('doc'),
   content: z.array(z.unknown()).max(5000).optional(),
-}).refine(doc => JSON.stringify(doc).length <= 1_000_000, 'This block is too long: split it into several')
+}).refine(doc => wellFormedNodes(doc.content), 'This text is not in the editor\'s document form: every node needs a type, a text node its words as text, and children and marks come as lists')
+  .refine(doc => JSON.stringify(doc).length <= 1_000_000, 'This block is too long: split it into several')
 
 export const analysisSettingsSchema = z.object({
   datasetId: z.string().uuid().optional(),
@@ -66,6 +92,9 @@ export const claimCreateSchema = z.object({
   blockId: z.string().uuid(),
   supportingBlockIds: z.array(z.string().uuid()).max(50).default([]),
 })
+
+// A claim's id is unique within its investigation; a member who holds the same id in two of them names one.
+export const claimQuerySchema = z.object({ investigationId: z.string().uuid().optional() })
 
 export const claimUpdateSchema = z.object({
   supportingBlockIds: z.array(z.string().uuid()).max(50),

@@ -24,6 +24,13 @@ export interface ColumnDTO {
   dates: DateReadingDTO | null
 }
 
+/** What dataset_columns.ladder keeps of a number column's value ladder (server/services/datasets/value-ladder.ts): its bounds as exact decimal text, the coarse ladder's step, and the text columns counted by coarse rung. */
+export interface ValueLadder {
+  bounds: string[]
+  step: number
+  pairs: number[]
+}
+
 /** How an import read a date column: in which order all-numeric dates were taken, and how many rows gave a date. */
 export interface DateReadingDTO {
   order: 'ymd' | 'dmy' | 'mdy'
@@ -32,6 +39,8 @@ export interface DateReadingDTO {
   /** Rows whose cell reads as a date, and non-blank rows whose cell does not. */
   read: number
   unread: number
+  /** A column of timestamps: the rows whose time of day was set aside, each read as the day written (no offset applied). */
+  timed?: number
   first: string | null
   last: string | null
 }

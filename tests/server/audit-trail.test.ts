@@ -94,7 +94,7 @@ describe('what the trail records', () => {
     expect(version).toBeGreaterThan(1)
   })
 
-  it('records a claim\'s change of sources, a rename, archiving and a withdrawn invitation', async () => {
+  it('records the investigation\'s start, a claim\'s change of sources, a rename, archiving and a withdrawn invitation', async () => {
     const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
     expectStatus(await postClaim(newsroom.reporter, story), 201)
     expectStatus(await newsroom.reporter.patch(`/api/claims/${story.claimId}`, { supportingBlockIds: [] }), 200)
@@ -105,10 +105,24 @@ describe('what the trail records', () => {
     expectStatus(await newsroom.admin.delete(`/api/newsrooms/${newsroom.id}/invitations/${invitationId}`), 200)
 
     const events = await walk(story)
+    // The investigation's own events begin where it does.
+    expect(events.filter(e => e.subjectId === story.id).at(-1)).toMatchObject({ action: 'investigation.created', actor: newsroom.names.reporter, subjectId: story.id, detail: { title: story.title } })
     expect(events.find(e => e.action === 'claim.sources-changed')).toMatchObject({ actor: newsroom.names.reporter, subjectId: story.claimId, detail: { from: [story.analysisBlockId], to: [] } })
     expect(events.find(e => e.action === 'investigation.renamed')).toMatchObject({ detail: { from: story.title, to: 'Harbour works, renamed' } })
     expect(events.find(e => e.action === 'investigation.archived')).toMatchObject({ actor: newsroom.names.reporter })
     expect(events.find(e => e.action === 'member.invitation-revoked')).toMatchObject({ actor: newsroom.names.admin, subjectId: invitationId, detail: { role: 'reporter' } })
+  })
+})
+
+describe('one public link withdrawn ten times at once', () => {
+  it('is one withdrawal in the trail, as it is one in the record', async () => {
+    const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)
+    const published = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { reason: 'Checks still open: testing the trail.' })
+    expectStatus(published, 201)
+    const replies = await Promise.all(Array.from({ length: 10 }, () => newsroom['data-editor'].post(`/api/share-links/${published.body.link.id}/revoke`)))
+    expect(replies.map(r => r.status)).toEqual(Array(10).fill(200))
+    const withdrawals = (await walk(story)).filter(e => e.action === 'investigation.unpublished')
+    expect(withdrawals).toHaveLength(1)
   })
 })
 
@@ -124,6 +138,16 @@ describe('the app\'s database role', () => {
     await expect(attempt('DELETE FROM audit_events')).rejects.toThrow(/permission denied/)
     await expect(attempt('DROP TABLE audit_events')).rejects.toThrow(/must be owner/)
     await expect(attempt('DROP FUNCTION audit_events_refuse_change() CASCADE')).rejects.toThrow(/must be owner/)
+    // Nor replace what the trigger runs, add a rule that swallows writes, or rename the table away.
+    await expect(attempt('CREATE OR REPLACE FUNCTION audit_events_refuse_change() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN RETURN OLD; END $$')).rejects.toThrow(/must be owner/)
+    await expect(attempt('CREATE RULE keep_nothing AS ON INSERT TO audit_events DO INSTEAD NOTHING')).rejects.toThrow(/must be owner/)
+    await expect(attempt('ALTER TABLE audit_events RENAME TO audit_events_old')).rejects.toThrow(/must be owner/)
+    await expect(attempt('SET session_replication_role = replica')).rejects.toThrow(/permission denied/)
+    // Rewinding the ids would make new events collide with old ones (every change then fails) or
+    // sort among them; the app draws the next id and nothing else. (A sequence ignores ROLLBACK, so
+    // the attempt sets it to the id it has just drawn: harmless if it were ever allowed.)
+    await expect(attempt('SELECT setval(\'audit_events_id_seq\', nextval(\'audit_events_id_seq\'))')).rejects.toThrow(/permission denied/)
+    expect((await sql('SELECT has_sequence_privilege(\'audit_events_id_seq\', \'UPDATE\') AS rewinds')).rows[0]).toEqual({ rewinds: false })
     const role = await sql('SELECT current_user AS me, pg_has_role(current_user, relowner, \'USAGE\') AS owns FROM pg_class WHERE oid = \'audit_events\'::regclass')
     expect(role.rows[0]).toMatchObject({ owns: false })
   })

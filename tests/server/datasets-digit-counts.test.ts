@@ -5,6 +5,7 @@ import { DEPARTMENTS, leadingDigits, ledger, ledgerTable } from '../fixtures/dat
 import type { LedgerEntry } from '../fixtures/datasets/ledger'
 import { delimitedText, utf8 } from '../support/dataset-files'
 import { uploadReady } from '../support/datasets'
+import { sql } from '../support/database'
 import { createTestNewsroom, type TestNewsroom } from '../support/newsroom'
 
 // The server counts stored digit records with SQL GROUP BY; the engine, given the same cells,
@@ -18,6 +19,8 @@ interface Variant {
   keep: (e: LedgerEntry) => boolean
   /** The grouping the request names, and each entry's group as the fixture itself says. */
   groupBy?: { column: string, period?: 'year' | 'quarter' | 'month', of: (e: LedgerEntry) => string }
+  /** The sign of the values tested (positive unless named). */
+  sign?: 'positive' | 'negative'
 }
 
 const byVendor = { column: 'vendor', of: (e: LedgerEntry) => e.vendor }
@@ -28,6 +31,17 @@ const periodOf = (period: 'year' | 'quarter' | 'month') => (e: LedgerEntry) => {
   if (period === 'month') return e.paidDay.slice(0, 7)
   return `${e.paidDay.slice(0, 4)}-Q${Math.ceil(Number(e.paidDay.slice(5, 7)) / 3)}`
 }
+/** The amount's signed value in cents (0 for a zero cell), or null for blank and unreadable cells. */
+const signedCents = (e: LedgerEntry) => (e.meaning.kind === 'number' ? e.meaning.sign * e.meaning.cents : e.meaning.kind === 'zero' ? 0 : null)
+/** An amount range as the filter means it: both ends inclusive, either open; cents compared exactly. */
+const amountBetween = (min?: number, max?: number) => (e: LedgerEntry) => {
+  const cents = signedCents(e)
+  return cents !== null && (min === undefined || cents >= min * 100) && (max === undefined || cents <= max * 100)
+}
+/** Amounts that occur in the fixture, by rank among its positive values: range ends that fall exactly on values. */
+const POSITIVE_CENTS = ENTRIES.flatMap(e => (e.meaning.kind === 'number' && e.meaning.sign > 0 ? [e.meaning.cents] : [])).sort((a, b) => a - b)
+const [AT_LOW, AT_HIGH] = [POSITIVE_CENTS[400]! / 100, POSITIVE_CENTS[2100]! / 100]
+const byDepartment = { column: 'department', of: (e: LedgerEntry) => e.department }
 const paidBetween = (from: string, to: string) => (e: LedgerEntry) => e.paidDay !== null && e.paidDay >= from && e.paidDay <= to
 
 // The filters' meaning, written out here from the fixture rather than from the query builder.
@@ -36,6 +50,7 @@ const VARIANTS: Variant[] = [
   { label: 'department equals Parks', filters: [{ column: 'department', op: 'equals', value: 'Parks' }], keep: e => e.department === 'Parks' },
   { label: 'quantity between 50 and 300', filters: [{ column: 'quantity', op: 'between', min: 50, max: 300 }], keep: e => e.units !== null && e.units >= 50 && e.units <= 300 },
   { label: 'amount at least 100', filters: [{ column: 'amount', op: 'between', min: 100 }], keep: e => e.meaning.kind === 'number' && e.meaning.sign > 0 && e.meaning.cents >= 10_000 },
+  { label: 'vendor one of one (its repeated amounts kept at import)', filters: [{ column: 'vendor', op: 'one-of', values: ['Brindle & Pike'] }], keep: e => e.vendor === 'Brindle & Pike' },
   { label: 'vendor one of two', filters: [{ column: 'vendor', op: 'one-of', values: ['Corvid Haulage', ' Dunmore Signs'] }], keep: e => ['Corvid Haulage', 'Dunmore Signs'].includes(e.vendor) },
   { label: 'department not one of Parks', filters: [{ column: 'department', op: 'not-one-of', values: ['Parks'] }], keep: e => e.department !== 'Parks' },
   { label: 'paid in 2025', filters: [{ column: 'paid_on', op: 'dates', from: '2025-01-01', to: '2025-12-31' }], keep: paidBetween('2025-01-01', '2025-12-31') },
@@ -59,15 +74,31 @@ const VARIANTS: Variant[] = [
   { label: 'vendor none of one, grouped by vendor', filters: [{ column: 'vendor', op: 'not-one-of', values: ['Alderbank Works'] }], keep: e => e.vendor !== 'Alderbank Works', groupBy: byVendor },
   { label: 'grouped by month of paid_on', keep: () => true, groupBy: { column: 'paid_on', period: 'month', of: periodOf('month') } },
   { label: 'grouped by quarter of paid_on, vendor Alderbank Works', filters: [{ column: 'vendor', op: 'one-of', values: ['Alderbank Works'] }], keep: e => e.vendor === 'Alderbank Works', groupBy: { column: 'paid_on', period: 'quarter', of: periodOf('quarter') } },
+  // Ranges of the tested column: the value ladder adds up the rungs a range holds whole and counts the
+  // records of those it cuts through (server/services/datasets/value-ladder.ts); ends exact, inclusive.
+  { label: 'amount between 100 and 50,000', filters: [{ column: 'amount', op: 'between', min: 100, max: 50000 }], keep: amountBetween(100, 50000) },
+  { label: 'amount at least 99.995 (between two cents)', filters: [{ column: 'amount', op: 'between', min: 99.995 }], keep: amountBetween(99.995) },
+  { label: 'amount from one stored value to another, both kept', filters: [{ column: 'amount', op: 'between', min: AT_LOW, max: AT_HIGH }], keep: amountBetween(AT_LOW, AT_HIGH) },
+  { label: 'amount at most 25,000 (zeros and negatives inside)', filters: [{ column: 'amount', op: 'between', max: 25000 }], keep: amountBetween(undefined, 25000) },
+  { label: 'amount from -2,000 to 12,000 (across zero)', filters: [{ column: 'amount', op: 'between', min: -2000, max: 12000 }], keep: amountBetween(-2000, 12000) },
+  { label: 'amount from -50,000 to -20, negative values tested', sign: 'negative', filters: [{ column: 'amount', op: 'between', min: -50000, max: -20 }], keep: amountBetween(-50000, -20) },
+  { label: 'amount at most -1,000, negative values tested, grouped by department', sign: 'negative', filters: [{ column: 'amount', op: 'between', max: -1000 }], keep: amountBetween(undefined, -1000), groupBy: byDepartment },
+  { label: 'two ranges of amount at once (100 up, and up to 80,000)', filters: [{ column: 'amount', op: 'between', min: 100 }, { column: 'amount', op: 'between', max: 80000 }], keep: amountBetween(100, 80000) },
+  { label: 'amount at least 150, grouped by vendor', filters: [{ column: 'amount', op: 'between', min: 150 }], keep: amountBetween(150), groupBy: byVendor },
+  { label: 'amount from 150 to 20,000, grouped by vendor', filters: [{ column: 'amount', op: 'between', min: 150, max: 20000 }], keep: amountBetween(150, 20000), groupBy: byVendor },
+  { label: 'amount at least 100 and department Parks', filters: [{ column: 'amount', op: 'between', min: 100 }, { column: 'department', op: 'equals', value: 'Parks' }], keep: e => amountBetween(100)(e) && e.department === 'Parks' },
+  { label: 'amount up to 30,000, department not Parks, grouped by department', filters: [{ column: 'amount', op: 'between', max: 30000 }, { column: 'department', op: 'not-one-of', values: ['Parks'] }], keep: e => amountBetween(undefined, 30000)(e) && e.department !== 'Parks', groupBy: byDepartment },
+  { label: 'amount at least 1,000, grouped by month of paid_on', filters: [{ column: 'amount', op: 'between', min: 1000 }], keep: amountBetween(1000), groupBy: { column: 'paid_on', period: 'month', of: periodOf('month') } },
   { label: 'paid from March 2024 to June 2025, grouped by year of paid_on', filters: [{ column: 'paid_on', op: 'dates', from: '2024-03-01', to: '2025-06-30' }], keep: paidBetween('2024-03-01', '2025-06-30'), groupBy: { column: 'paid_on', period: 'year', of: periodOf('year') } },
 ]
 
-function engineResult(test: TestName, entries: LedgerEntry[], groupBy: Variant['groupBy']): TestResult {
+function engineResult(test: TestName, entries: LedgerEntry[], groupBy: Variant['groupBy'], sign: Variant['sign']): TestResult {
   const values = (list: LedgerEntry[]) => list.map(e => e.amount)
   const keys = groupBy ? [...new Set(entries.map(groupBy.of))] : []
   const result = runDigitTest({
     test,
     column: 'amount',
+    sign,
     input: { values: values(entries), style: DOT_STYLE },
     threshold: test === 'threshold' ? { limit: THRESHOLD } : undefined,
     // The server ranks groups down to each test's absolute minimum (server/services/datasets/digit-tests.ts).
@@ -108,7 +139,7 @@ beforeAll(async () => {
 
 async function serverResult(test: TestName, variant: Variant): Promise<TestResult> {
   const body = {
-    column: 'amount', test, filters: variant.filters,
+    column: 'amount', test, filters: variant.filters, sign: variant.sign,
     groupBy: variant.groupBy?.column, period: variant.groupBy?.period, threshold: test === 'threshold' ? THRESHOLD : undefined,
   }
   const reply = await newsroom.reporter.post(`/api/datasets/${datasetId}/digit-tests`, body)
@@ -131,7 +162,7 @@ describe('digit counts from SQL equal the engine\'s counts from the same cells',
       it(`${test}, ${variant.label}`, async () => {
         const server = await serverResult(test, variant)
         const kept = ENTRIES.filter(variant.keep)
-        const engine = engineResult(test, kept, variant.groupBy)
+        const engine = engineResult(test, kept, variant.groupBy, variant.sign)
         expect(server.n).toBe(engine.n)
         expect(server.n).toBeGreaterThan(0)
         for (const field of ['excluded', 'bins', 'chiSquare', 'mad', 'ks', 'duplicates', 'threshold', 'suitability', 'groups', 'groupsSkipped'] as const) {
@@ -160,6 +191,32 @@ describe('digit counts from SQL equal the engine\'s counts from the same cells',
     const kinds = (kind: string) => ENTRIES.filter(e => e.meaning.kind === kind).length
     const negatives = ENTRIES.filter(e => e.meaning.kind === 'number' && e.meaning.sign < 0).length
     expect(server.excluded).toMatchObject({ blank: kinds('blank'), unreadable: kinds('unreadable'), zero: kinds('zero'), negative: negatives })
+  })
+})
+
+describe('the value ladder an import counts', () => {
+  it('cuts the amounts into rungs whose cells hold every number and zero once, fine and by department', async () => {
+    const { rows: [column] } = await sql('SELECT ladder FROM dataset_columns WHERE dataset_id = $1 AND name = $2', [datasetId, 'amount'])
+    const bounds: string[] = column.ladder.bounds
+    expect(bounds.length).toBeGreaterThan(30)
+    // Ascending, as exact decimals (compared here in cents, from the fixture's own two decimals).
+    const cents = bounds.map(b => Math.round(Number(b) * 100))
+    expect(cents).toEqual([...cents].sort((a, b) => a - b))
+    expect(new Set(cents).size).toBe(cents.length)
+    const department = ledgerTable(ENTRIES).header.indexOf('department')
+    expect(column.ladder.pairs).toContain(department)
+    // counts[1:5] are blank, unreadable, zero, positive, negative (digit-cube.ts); the fixture says how many of each.
+    const kinds = (kind: string) => ENTRIES.filter(e => e.meaning.kind === kind).length
+    const signed = (sign: number) => ENTRIES.filter(e => e.meaning.kind === 'number' && e.meaning.sign === sign).length
+    for (const groupPos of [-2, -3]) {
+      const { rows: [sums] } = await sql(
+        `SELECT sum(counts[1])::int AS blank, sum(counts[2])::int AS unreadable, sum(counts[3])::int AS zero, sum(counts[4])::int AS positive, sum(counts[5])::int AS negative
+         FROM digit_cube c JOIN dataset_columns k ON k.dataset_id = c.dataset_id AND k.position = c.column_pos
+         WHERE c.dataset_id = $1 AND k.name = 'amount' AND c.group_pos = $2 AND c.pair_pos = $3`,
+        [datasetId, groupPos, groupPos === -2 ? -1 : department],
+      )
+      expect(sums, `group_pos ${groupPos}`).toEqual({ blank: 0, unreadable: 0, zero: kinds('zero'), positive: signed(1), negative: signed(-1) })
+    }
   })
 })
 

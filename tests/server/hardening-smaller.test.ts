@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { readdir, readlink } from 'node:fs/promises'
 import { request } from 'node:http'
 import { join } from 'node:path'
+import ExcelJS from 'exceljs'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, Client } from '../support/api'
 import { expectIncomingGone, incomingFiles, storageBase, upload, uploadCsv } from '../support/datasets'
@@ -112,6 +113,20 @@ describe('titles and source notes with new lines', () => {
   })
 })
 
+describe('a title given to another sheet of a workbook', () => {
+  it('is one line too, as an uploaded dataset\'s title', async () => {
+    const workbook = new ExcelJS.Workbook()
+    workbook.addWorksheet('2023').addRows([['supplier', 'amount'], ['Quay Lighting', 1215.5]])
+    workbook.addWorksheet('2024').addRows([['supplier', 'amount'], ['Willow Drains', 143.2]])
+    const stored = await upload(newsroom.reporter, 'ledger.xlsx', new Uint8Array(await workbook.xlsx.writeBuffer()), { title: 'Ledger' }, `?newsroomId=${newsroom.id}`)
+    expectStatus(stored, 201)
+    const sheet = await newsroom.reporter.post(`/api/datasets/${stored.body.id}/sheets`, { sheet: '2024', title: 'Ledger 2024\n## Slipped heading\r\n- and an item' })
+    expectStatus(sheet, 201)
+    expect((await newsroom.reporter.get(`/api/datasets/${sheet.body.id}`)).body.title).toBe('Ledger 2024 ## Slipped heading - and an item')
+    expectStatus(await newsroom.reporter.post(`/api/datasets/${stored.body.id}/sheets`, { sheet: '2024', title: ' \n ' }), 400)
+  })
+})
+
 describe('a file that starts as UTF-8 and turns Latin-1 further on', () => {
   it('reads each part as its bytes say and says so', async () => {
     // Past the first 64 KB the file sniffing reads: an accent in UTF-8 first, one in Latin-1 later.
@@ -126,6 +141,25 @@ describe('a file that starts as UTF-8 and turns Latin-1 further on', () => {
     const pages = Math.ceil(first.body.total / first.body.pageSize)
     const last = await newsroom.reporter.get(`/api/datasets/${reply.body.id}/preview?page=${pages}`)
     expect(JSON.stringify(last.body.items.at(-1))).toContain('Müller & Söhne')
+  })
+})
+
+describe('a file that starts as Latin-1 and turns UTF-8 further on', () => {
+  it('reads the later UTF-8 as UTF-8 too, instead of spelling its accents as two letters each', async () => {
+    // The other way round: a Latin-1 accent on the first row, a UTF-8 one past the first 64 KB.
+    const early = Buffer.from(`supplier,amount\nM\u00FCller & S\u00F6hne,215.50\n${'Quay Lighting,1215.50\n'.repeat(4000)}`, 'latin1')
+    const late = Buffer.from('Café du Port,1840.00\n', 'utf8')
+    const reply = await upload(newsroom.reporter, 'reversed.csv', Buffer.concat([early, late]), { title: 'Two systems, reversed' }, `?newsroomId=${newsroom.id}`)
+    expectStatus(reply, 201)
+    expect((await newsroom.reporter.get(`/api/datasets/${reply.body.id}`)).body.encoding).toBe('utf-8+windows-1252')
+    const first = await newsroom.reporter.get(`/api/datasets/${reply.body.id}/preview?page=1`)
+    expect(first.body.items[0].cells[0]).toBe('Müller & Söhne')
+    const last = await newsroom.reporter.get(`/api/datasets/${reply.body.id}/preview?page=${Math.ceil(first.body.total / first.body.pageSize)}`)
+    expect(last.body.items.at(-1).cells[0]).toBe('Café du Port')
+    // A file that is Latin-1 throughout stays Latin-1.
+    const plain = await upload(newsroom.reporter, 'latin.csv', Buffer.from('supplier,amount\nM\u00FCller & S\u00F6hne,215.50\nCaf\u00E9 du Port,1840.00\n', 'latin1'), { title: 'One system' }, `?newsroomId=${newsroom.id}`)
+    expectStatus(plain, 201)
+    expect((await newsroom.reporter.get(`/api/datasets/${plain.body.id}`)).body.encoding).toBe('windows-1252')
   })
 })
 

@@ -32,6 +32,17 @@ describe('the Host header', () => {
     expect(change.body.data.message).toContain('rebound.example')
   })
 
+  it('takes a loopback name only as the whole host, with at most a port after it', async () => {
+    const port = new URL(new Client().base).port
+    const status = async (host: string) => (await new ClientAt('127.0.0.1', host).request('GET', '/api/health')).status
+    for (const host of [`localhost:${port}@rebound.example`, `localhost:${port}.rebound.example`, `localhost.rebound.example:${port}`, `127.0.0.1.rebound.example:${port}`, `localhost:x${port}`]) {
+      expect(await status(host), host).toBe(421)
+    }
+    for (const host of [`localhost:${port}`, `LOCALHOST:${port}`, `127.0.0.1:${port}`, `[::1]:${port}`, 'localhost']) {
+      expect(await status(host), host).toBe(200)
+    }
+  })
+
   it('answers the configured address and loopback names, without x-powered-by', async () => {
     const page = await new Client().request('GET', '/login', undefined, { accept: 'text/html' })
     expect(page.status).toBe(200)

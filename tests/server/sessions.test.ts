@@ -29,6 +29,26 @@ describe('sessions end on the server', () => {
     await expectEnded(stolen, id)
   })
 
+  it('a copied cookie can neither write nor open a page after sign-out or removal', async () => {
+    const newsroom = await createTestNewsroom()
+    const { admin, id, emails } = newsroom
+    const stolen = copyOf(newsroom.reporter)
+    expect((await newsroom.reporter.post('/api/auth/logout')).status).toBe(200)
+    expect((await stolen.post('/api/investigations', { newsroomId: id, title: 'Written with a copied cookie' })).status).toBe(401)
+    // The pages send a visitor without a session to the sign-in page.
+    const page = await stolen.request('GET', '/investigations', undefined, { accept: 'text/html' })
+    expect(page.status).toBe(302)
+    expect(page.headers.get('location')).toMatch(/^\/login/)
+
+    const kept = copyOf(newsroom['data-editor'])
+    const members = (await admin.get(`/api/newsrooms/${id}/members`)).body as { membershipId: string, email: string }[]
+    expect((await admin.delete(`/api/memberships/${members.find(m => m.email === emails['data-editor'])!.membershipId}`)).status).toBe(200)
+    expect((await kept.post('/api/investigations', { newsroomId: id, title: 'Written after removal' })).status).toBe(401)
+    expect((await kept.request('GET', '/investigations', undefined, { accept: 'text/html' })).status).toBe(302)
+    const titles = (await admin.get(`/api/investigations?newsroomId=${id}`)).body.map((i: { title: string }) => i.title)
+    expect(titles).toEqual([])
+  })
+
   it('lists one\'s own open sessions, marks the current one, and ends one of them', async () => {
     const { emails, id } = await createTestNewsroom()
     const laptop = await signedIn(emails.reporter, PASSWORD)

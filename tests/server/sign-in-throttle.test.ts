@@ -25,6 +25,18 @@ describe('sign-in throttle', () => {
     expect(right.body.statusMessage).toBe('Too many attempts')
   })
 
+  it('counts a burst from 40 addresses at once on the account: 20 are checked, the right password inside the burst waits', async () => {
+    const { emails } = await createTestNewsroom()
+    // The account's key (server/services/account/sign-in-rules.ts): 20 free failures from addresses it never signed in from.
+    const guesses = Array.from({ length: 40 }, (_, i) => login(new ClientAt(freshLoopbackAddress()), emails['fact-checker'], i === 39 ? PASSWORD : `spread-${i}`))
+    const statuses = (await Promise.all(guesses)).map(r => r.status)
+    expect(statuses.filter(s => s === 401)).toHaveLength(20)
+    expect(statuses.filter(s => s === 429)).toHaveLength(statuses[39] === 200 ? 19 : 20)
+    // Sent last, the right password is counted after the 20 guesses unless it overtook them.
+    expect(statuses.filter(s => s === 200).length).toBeLessThanOrEqual(1)
+    expect((await login(new ClientAt(freshLoopbackAddress()), emails['fact-checker'], PASSWORD)).status).toBe(statuses[39] === 200 ? 200 : 429)
+  })
+
   it('lets a right password sent eight times at once in every time (a script signing in in parallel)', async () => {
     const { emails } = await createTestNewsroom()
     const client = new ClientAt(freshLoopbackAddress())

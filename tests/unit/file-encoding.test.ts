@@ -77,3 +77,41 @@ describe('the encoding of a whole file, read in chunks', () => {
     }
   })
 })
+
+describe('a file whose first bytes are Latin-1', () => {
+  // The first bytes hold a Latin-1 "ü" (0xFC), which no UTF-8 text holds alone: Windows-1252 from the start.
+  const latinHead = Buffer.from('vendor,amount\nM\u00FCller,1\n', 'latin1')
+  const detectAfterLatin = async (body: Buffer, sizes: number[]) =>
+    (await detectFileEncoding(chunked(Buffer.concat([latinHead, body]), sizes), latinHead)).encoding
+  /** Whether some 2 to 4 bytes of `bytes` are one character beyond ASCII for the reference decoder. */
+  const holdsUtf8Character = (bytes: Buffer) => {
+    for (let at = 0; at < bytes.length; at++) {
+      for (const length of [2, 3, 4]) {
+        if (at + length <= bytes.length && isUtf8ByReference(bytes.subarray(at, at + length)) && [...bytes.subarray(at, at + length).toString('utf8')].length === 1) return true
+      }
+    }
+    return false
+  }
+
+  it.each([[[1]], [[2]], [[3]], [[1 << 16]]])('reads UTF-8 met further on, split by chunks of %j, as the bytes say', async (sizes) => {
+    expect(await detectAfterLatin(Buffer.from('Café Ölberg,12.50\n𝔘nit,3\n', 'utf8'), sizes)).toBe('utf-8+windows-1252')
+  })
+
+  it('stays Windows-1252 when every later accent is Latin-1 too', async () => {
+    expect(await detectAfterLatin(Buffer.from('Caf\u00E9 \u00D6lberg,12.50\n\u00C0 la carte,3\n', 'latin1'), [3])).toBe('windows-1252')
+  })
+
+  it('agrees with the reference decoder on random bytes under random chunkings', async () => {
+    let state = 20261203
+    const next = () => {
+      state = (state * 48271) % 2147483647
+      return state
+    }
+    const pieces = ['a', 'é', '€', '𝔘', '\n'].map(t => Buffer.from(t)).concat([0x80, 0xA9, 0xBF, 0xC0, 0xC3, 0xE2, 0xED, 0xF0, 0xF4, 0xFC, 0xFF].map(b => Buffer.from([b])))
+    for (let round = 0; round < 300; round++) {
+      const body = Buffer.concat(Array.from({ length: 1 + next() % 30 }, () => pieces[5 + next() % (pieces.length - 5)]!).concat(round % 2 ? [pieces[next() % pieces.length]!] : []))
+      const expected = holdsUtf8Character(Buffer.concat([latinHead, body])) ? 'utf-8+windows-1252' : 'windows-1252'
+      expect(await detectAfterLatin(body, [1 + next() % 5, 1 + next() % 3]), body.toString('hex')).toBe(expected)
+    }
+  })
+})

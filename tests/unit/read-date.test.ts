@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { dayNumber, dayText, detectDateOrder, looksLikeDate, periodOf, periodRange, readDate } from '#shared/dates/read-date'
+import { dayNumber, dayPart, dayText, detectDateOrder, looksLikeDate, periodOf, periodRange, readDate } from '#shared/dates/read-date'
 
 // The oracle is JavaScript's own calendar (Date.UTC, the proleptic Gregorian calendar of ECMA-262
 // §21.4.1), a general-purpose reference outside this project's reader.
@@ -9,6 +9,27 @@ const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 
 const two = (n: number) => String(n).padStart(2, '0')
 
 describe('reading dates as people write them', () => {
+  it('reads a date written with a time of day (timestamps) as the day written, whatever the time form', () => {
+    // Forms of ISO 8601 / RFC 3339 date-times (from memory): a space or T, seconds and fractions
+    // optional, Z or an offset; the day is the written one, the offset is not applied.
+    fc.assert(fc.property(fc.integer({ min: Date.UTC(1970, 0, 1), max: Date.UTC(2068, 11, 31) }), fc.integer({ min: 0, max: 23 }), fc.integer({ min: 0, max: 59 }), (ms, h, min) => {
+      const date = new Date(ms - (ms % 86_400_000))
+      const [y, m, d] = [date.getUTCFullYear(), date.getUTCMonth() + 1, date.getUTCDate()]
+      const day = utcDay(y, m, d)
+      const iso = `${y}-${two(m)}-${two(d)}`
+      for (const text of [`${iso} ${two(h)}:${two(min)}`, `${iso}T${two(h)}:${two(min)}:07Z`, `${iso}T${two(h)}:${two(min)}:07.250+01:00`, `${iso}T${two(h)}:${two(min)}:00-0500`]) {
+        expect(dayPart(text), text).toBe(iso)
+        expect(readDate(text, 'ymd'), text).toBe(day)
+        expect(looksLikeDate(text), text).toBe(true)
+      }
+      expect(readDate(`${two(d)}/${two(m)}/${y} ${h}:${two(min)}`, 'dmy')).toBe(day)
+    }), { numRuns: 200 })
+    expect(dayPart('2026-03-31')).toBeNull()
+    expect(dayPart('invoice 14:05')).toBeNull()
+    expect(dayPart('2026-02-30 10:00')).toBe('2026-02-30')
+    expect(readDate('2026-02-30 10:00', 'ymd')).toBeNull()
+  })
+
   it('reads every usual written form of the same day as the same day', () => {
     fc.assert(fc.property(fc.integer({ min: Date.UTC(1970, 0, 1), max: Date.UTC(2068, 11, 31) }), (ms) => {
       const date = new Date(ms - (ms % 86_400_000))

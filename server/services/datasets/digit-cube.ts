@@ -2,6 +2,9 @@ import { DISTRIBUTIONS, compareDecimal, toDecimal } from '#shared/digits'
 import type { ColumnProfile as SuitabilityProfile, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
 import type { CopyEncoder } from './copy-encoder'
 import { compareValues } from './sign-profile'
+import { LADDER_COARSE, LADDER_FINE, LADDER_STEP } from './value-ladder'
+import type { LadderBounds } from './value-ladder'
+import type { ValueLadder } from '#shared/types/dataset'
 
 /**
  * The digit counts of every distribution test, per number column, for the whole column and for
@@ -49,6 +52,12 @@ const MAX_PAIR_CELLS = 2500
 const PAIR_CELLS = 4000
 /** Pairs counted per number column at most: each costs a lookup per value. */
 const MAX_PAIRS = 6
+/**
+ * The coarse value ladder by one text column (value-ladder.ts) stops being counted past this many
+ * cells, and all of them together keep at most LADDER_CELLS (about 9 KB each).
+ */
+const MAX_LADDER_PAIR_CELLS = 3600
+const LADDER_CELLS = 4000
 
 /**
  * The pairs of text columns worth counting together, from the first rows: both with few values
@@ -81,6 +90,9 @@ class Slots {
   side = -1
   abs = 0
   text = ''
+  /** The signed value and its text (zero included), for the value ladder; NaN for blank and unreadable cells. */
+  value = Number.NaN
+  valueText = ''
   readonly facts = new Int32Array(3)
   factCount = 0
   private base = 0
@@ -91,6 +103,8 @@ class Slots {
     this.arc = -1
     this.side = -1
     this.factCount = 0
+    this.value = r.value === null ? Number.NaN : Number(r.value)
+    this.valueText = r.value ?? ''
     if (r.status !== 'number') {
       this.status = STATUS_SLOT[r.status]
       return this
@@ -202,15 +216,24 @@ interface Pairing {
   cells: Map<number, Cell>
 }
 
+/** A number column's value ladder: a cell per fine rung, and per coarse rung and code of each text column still counted. */
+interface Ladder {
+  bounds: LadderBounds
+  fine: (Cell | undefined)[]
+  byText: { position: number, cells: Map<number, Cell> }[]
+}
+
 /** Counts for one number column: the whole column, and per code of each text column (and pair of them) still counted. */
 class ColumnCube {
   readonly whole = new Cell()
   readonly groupings: Grouping[]
   readonly pairings: Pairing[]
+  readonly ladder: Ladder | null
 
-  constructor(textPositions: number[], pairs: [number, number][]) {
+  constructor(textPositions: number[], pairs: [number, number][], bounds: LadderBounds | null) {
     this.groupings = textPositions.map(position => ({ position, cells: [] }))
     this.pairings = pairs.map(([first, second]) => ({ first, second, cells: new Map<number, Cell>() }))
+    this.ladder = bounds && { bounds, fine: [], byText: textPositions.map(position => ({ position, cells: new Map<number, Cell>() })) }
   }
 }
 
@@ -219,10 +242,12 @@ export class DigitCubeCounter {
   private readonly columns: (ColumnCube | undefined)[] = []
   private cells = 0
   private pairCells = 0
+  private ladderCells = 0
   private readonly slots = new Slots()
 
-  constructor(numberPositions: number[], textPositions: number[], pairs: [number, number][] = []) {
-    for (const position of numberPositions) this.columns[position] = new ColumnCube(textPositions, pairs)
+  /** `ladders` holds each number column's ladder bounds by position (none: no ladder). */
+  constructor(numberPositions: number[], textPositions: number[], pairs: [number, number][] = [], ladders: (LadderBounds | null)[] = []) {
+    for (const position of numberPositions) this.columns[position] = new ColumnCube(textPositions, pairs, ladders[position] ?? null)
   }
 
   /** Counts one number cell; `codes` are its row's group codes (0: none). */
@@ -265,6 +290,37 @@ export class DigitCubeCounter {
       }
       cell.add(slots)
     }
+    if (cube.ladder && !Number.isNaN(slots.value)) this.climb(cube.ladder, slots, codes)
+  }
+
+  /** Counts a value on its rung of the fine ladder, and on its coarse rung by each text column. */
+  private climb(ladder: Ladder, slots: Slots, codes: Int32Array) {
+    const rung = ladder.bounds.rungOf(slots.value, slots.valueText)
+    ;(ladder.fine[rung] ??= new Cell()).add(slots)
+    const coarse = Math.floor(rung / LADDER_STEP)
+    const byText = ladder.byText
+    for (let t = 0; t < byText.length; t++) {
+      const { position, cells } = byText[t]!
+      const code = codes[position]!
+      const key = coarse * PAIR_KEY + code
+      let cell = cells.get(key)
+      if (!cell) {
+        if (code === 0 || code > MAX_GROUPS || cells.size >= MAX_LADDER_PAIR_CELLS || this.ladderCells >= LADDER_CELLS) {
+          byText.splice(t--, 1)
+          this.ladderCells -= cells.size
+          continue
+        }
+        cells.set(key, cell = new Cell())
+        this.ladderCells++
+      }
+      cell.add(slots)
+    }
+  }
+
+  /** A number column's ladder as dataset_columns keeps it: bounds, step and the text columns counted by coarse rung. */
+  ladderOf(columnPos: number): ValueLadder | null {
+    const ladder = this.columns[columnPos]?.ladder
+    return ladder ? { bounds: ladder.bounds.texts, step: LADDER_STEP, pairs: ladder.byText.map(t => t.position) } : null
   }
 
   private drop(cube: ColumnCube, index: number) {
@@ -294,6 +350,13 @@ export class DigitCubeCounter {
       }
       for (const { first, second, cells } of cube.pairings) {
         for (const [key, cell] of cells) writeCell(out, dataset, columnPos, { position: first, code: Math.floor(key / PAIR_KEY) }, { position: second, code: key % PAIR_KEY }, cell)
+      }
+      if (!cube.ladder) return
+      cube.ladder.fine.forEach((cell, rung) => {
+        if (cell) writeCell(out, dataset, columnPos, { position: LADDER_FINE, code: rung }, null, cell)
+      })
+      for (const { position, cells } of cube.ladder.byText) {
+        for (const [key, cell] of cells) writeCell(out, dataset, columnPos, { position: LADDER_COARSE, code: Math.floor(key / PAIR_KEY) }, { position, code: key % PAIR_KEY }, cell)
       }
     })
   }
@@ -395,4 +458,18 @@ export function profileFromCells(cells: Iterable<{ n: number, facts: number[] | 
   }
   if (!n || lengths[LENGTHS - 1]) return null
   return { n, min: min!.text, max: max!.text, atMin: min!.count, atMax: max!.count, whole, roundHundreds, commonLength: Math.max(...lengths) }
+}
+
+/**
+ * Suitability facts counted from records (one sign, absolute values) in the layout of a cell's, so
+ * that profileFromCells adds them to cells: the values of a range that cut through a rung.
+ */
+export function factsCell(counted: { n: number, whole: number, round: number, min: string, max: string, atMin: number, atMax: number, lengths: Map<number, number> }) {
+  const facts = new Array<number>(FACTS_PER_SIGN).fill(0)
+  facts[FACT.whole] = counted.whole
+  facts[FACT.round] = counted.round
+  facts[FACT.atMin] = counted.atMin
+  facts[FACT.atMax] = counted.atMax
+  for (const [length, n] of counted.lengths) facts[FACT.lengths + Math.min(length, LENGTHS - 1)]! += n
+  return { n: counted.n, facts, ends: [counted.min, counted.max] }
 }

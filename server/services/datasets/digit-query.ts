@@ -33,6 +33,11 @@ export interface DigitQuery {
   decoding: GroupDecoding | null
   /** The filters as code sets, when every filter is one (the import's counts can then answer). */
   codeFilters: CodeFilter[] | null
+  /**
+   * Set when the filters are ranges of the tested column itself (taken together) beside code sets:
+   * the value ladder (value-ladder.ts) can then answer, with `where` less those ranges in `besideRange`.
+   */
+  testedRange: { min?: number, max?: number, codeFilters: CodeFilter[], besideRange: string } | null
   replacements: { datasetId: string } & Record<string, unknown>
 }
 
@@ -124,6 +129,10 @@ export async function buildDigitQuery(
   const codeFilters: CodeFilter[] = []
   let allCoded = true
   let needsRows = false
+  // The ranges of the tested column, apart from the other conditions (see testedRange).
+  let range: { min?: number, max?: number } | null = null
+  let ranged = true
+  const rangeConditions = new Set<string>()
   for (const [i, filter] of filters.entries()) {
     const path = `filters.${i}.column`
     const column = columnByName(columns, filter.column, path)
@@ -133,14 +142,24 @@ export async function buildDigitQuery(
       let target = 'd'
       if (column.position !== tested.position) {
         target = `f${i}`
+        ranged = false
         joins.push(`JOIN digit_records ${target} ON ${target}.dataset_id = :datasetId AND ${target}.row_no = d.row_no AND ${target}.column_pos = ${column.position}`)
       }
+      else {
+        range ??= {}
+        if (filter.min !== undefined && (range.min === undefined || filter.min > range.min)) range.min = filter.min
+        if (filter.max !== undefined && (range.max === undefined || filter.max < range.max)) range.max = filter.max
+      }
+      const own = (condition: string) => {
+        conditions.push(condition)
+        if (target === 'd') rangeConditions.add(condition)
+      }
       if (filter.min !== undefined) {
-        conditions.push(`${target}.value >= :min${i}`)
+        own(`${target}.value >= :min${i}`)
         replacements[`min${i}`] = filter.min
       }
       if (filter.max !== undefined) {
-        conditions.push(`${target}.value <= :max${i}`)
+        own(`${target}.value <= :max${i}`)
         replacements[`max${i}`] = filter.max
       }
       continue
@@ -162,6 +181,7 @@ export async function buildDigitQuery(
       continue
     }
     allCoded = false
+    ranged = false
     needsRows = true
     conditions.push(`btrim(r.cells[${column.position + 1}]) ${negate ? 'NOT IN' : 'IN'} (:values${i})`)
     replacements[`values${i}`] = values
@@ -176,6 +196,9 @@ export async function buildDigitQuery(
     groupEquals: grouping ? groupEquals(grouping) : null,
     decoding: grouping?.decoding ?? null,
     codeFilters: allCoded ? codeFilters : null,
+    testedRange: ranged && range && (range.min !== undefined || range.max !== undefined) && !grouping?.needsRows
+      ? { ...range, codeFilters, besideRange: conditions.filter(c => !rangeConditions.has(c)).join(' AND ') }
+      : null,
     replacements,
   }
 }

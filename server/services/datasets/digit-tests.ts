@@ -10,18 +10,12 @@ import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
 import { cubeFactSlices, cubeKeyIndex, cubeSlices, countsFromCube, profileFromCells } from './digit-cube'
 import { FIELD_COLUMNS, numbersOfSign as ofSign, signCode, STATUS_CODES, statusCountOf } from './digit-columns'
-import { buildDigitQuery, codeCondition, columnByName, decodeGroups, groupNames, rawSelect, selectRows } from './digit-query'
+import { buildDigitQuery, codeCondition, columnByName, decodeGroups, rawSelect, selectRows } from './digit-query'
 import type { CodeFilter, DigitQuery } from './digit-query'
-
-type Grouped<T> = Map<string | null, T>
-
-function bucketOf<T>(map: Grouped<T>, key: string | null, make: () => T): T {
-  let entry = map.get(key)
-  if (!entry) map.set(key, entry = make())
-  return entry
-}
-
-const emptyStatus = (): StatusCounts => ({ blank: 0, unreadable: 0, zero: 0, positive: 0, negative: 0 })
+import { bucketOf, emptyStatus, groupCells, mergeGroups } from './count-merge'
+import type { Grouped } from './count-merge'
+import { ladderDistribution } from './ladder-counts'
+import { codeRepeats } from './code-repeats'
 
 async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Grouped<StatusCounts>> {
   const rows = await selectRows<{ grp?: string, status: number, sign: number, count: number }>(query, {
@@ -53,20 +47,6 @@ async function statusAndDistribution(test: DistributionTest, query: DigitQuery, 
     entry.arc.sin += Number(row.sin ?? 0)
   }
   return byGroup
-}
-
-/** The whole column's counts as the sum of its groups' counts. */
-function mergeGroups(groups: Iterable<DistributionCounts>): DistributionCounts {
-  const status = emptyStatus()
-  const keys = new Map<number | string | null, number>()
-  const arc = { cos: 0, sin: 0 }
-  for (const group of groups) {
-    for (const name of Object.keys(status) as (keyof StatusCounts)[]) status[name] += group.status[name]
-    for (const { key, count } of group.keys) keys.set(key, (keys.get(key) ?? 0) + count)
-    arc.cos += group.arc?.cos ?? 0
-    arc.sin += group.arc?.sin ?? 0
-  }
-  return { status, keys: [...keys].map(([key, count]) => ({ key, count })), arc }
 }
 
 async function summationCounts(query: DigitQuery, sign: SignFilter, grouped: boolean) {
@@ -114,7 +94,7 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
 
 /** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
 export function storedColumn(datasetId: string, position: number) {
-  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'cubePairs', 'repeats'] })
+  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'cubePairs', 'repeats', 'ladder'] })
 }
 
 /**
@@ -179,28 +159,18 @@ async function cubeDistribution(test: DistributionTest, datasetId: string, store
   const cut = stored && cubeCut(query, stored)
   if (!cut) return null
   const { cells, profile } = await cubeCells(test, datasetId, columnPos, cut, sign, query.codeFilters!)
-  const decoding = query.decoding
-  if (!decoding) return { groups: new Map([[null, mergeGroups(cells.map(c => c.counts))]]), profile }
   // Each cell counts toward the group of its code in the grouping column.
-  const side = decoding.position === cut.first ? 0 : 1
-  const byCode = new Map<number, DistributionCounts[]>()
-  for (const cell of cells) {
-    const code = cell.codes[side]
-    const list = byCode.get(code)
-    if (list) list.push(cell.counts)
-    else byCode.set(code, [cell.counts])
-  }
-  const merged = (lists: DistributionCounts[][]) => mergeGroups(lists.flat())
-  if (!decoding.periods) {
-    const names = await groupNames(datasetId, decoding)
-    return { groups: new Map([...byCode].map(([code, lists]) => [names.get(String(code)) ?? '', merged([lists])])), profile }
-  }
-  const byPeriod: Grouped<DistributionCounts> = new Map()
-  for (const [label, codes] of decoding.periods) {
-    const lists = codes.flatMap(code => (byCode.has(code) ? [byCode.get(code)!] : []))
-    if (lists.length) byPeriod.set(label, merged(lists))
-  }
-  return { groups: byPeriod, profile }
+  const side = query.decoding?.position === cut.first ? 0 : 1
+  return { groups: await groupCells(datasetId, query.decoding, cells.map(c => ({ code: c.codes[side], counts: c.counts }))), profile }
+}
+
+/**
+ * A distribution test's counts (by group) from the import's cells: the cube's, or the value ladder's
+ * for a range of the tested column. Null when the records must be counted.
+ */
+async function cellsOf(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter, scan = (q: DigitQuery) => statusAndDistribution(test, q, sign, Boolean(q.group)).then(g => decodeGroups(q, g))) {
+  return await cubeDistribution(test, datasetId, stored, columnPos, query, sign)
+    ?? await ladderDistribution(test, datasetId, stored?.ladder ?? null, columnPos, query, sign, scan)
 }
 
 /**
@@ -306,17 +276,21 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   if (body.test in DISTRIBUTIONS) {
     // One scan answers both the status and the digit counts; with groups, the whole is their sum.
     const test = body.test as DistributionTest
-    const fromCube = await cubeDistribution(test, dataset.id, stored, tested.position, grouping ?? whole, sign)
+    const counted = grouping ?? whole
+    const scan = (query: DigitQuery) => statusAndDistribution(test, query, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(query, g) : g))
+    const fromCube = await cellsOf(test, dataset.id, stored, tested.position, counted, sign, scan)
     profile = suitabilityProfile(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
-    const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await statusAndDistribution(test, grouping ?? whole, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(grouping, g) : g))
+    const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await scan(counted)
     counts = grouping ? mergeGroups(scanned.values()) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
   }
   else {
-    profile = suitabilityProfile(stored, whole, sign, filtered)
-    const repeats = body.test === 'duplicates' && !filtered ? stored?.repeats?.[sign] : null
+    // The status counts and the suitability facts, from the import's cells where they hold them.
+    const cells = filtered ? await cellsOf('first-digit', dataset.id, stored, tested.position, whole, sign) : null
+    profile = suitabilityProfile(stored, whole, sign, filtered, cells?.profile ?? undefined)
+    const repeats = body.test !== 'duplicates' ? null : filtered ? await codeRepeats(dataset.id, tested.position, whole.codeFilters, sign) : stored?.repeats?.[sign]
     const [status, byTest] = await Promise.all([
-      statusCounts(whole, false),
+      cells ? new Map([[null, mergeGroups(cells.groups.values()).status]]) : statusCounts(whole, false),
       repeats ? new Map([[null, repeats]]) : TEST_COUNTS[body.test](whole, sign, false, body.threshold),
     ])
     counts = { status: status.get(null) ?? emptyStatus(), ...byTest.get(null) } as TestCountsMap[TestName]

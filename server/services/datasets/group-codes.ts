@@ -1,4 +1,4 @@
-import { looksLikeDate } from '#shared/dates/read-date'
+import { dayPart, looksLikeDate } from '#shared/dates/read-date'
 
 /** More distinct values than this and a column is not coded: grouping by it falls back to a join. */
 export const MAX_CODES = 100_000
@@ -24,7 +24,7 @@ const DATE_SHARE = 0.8
 export const MAX_CODED_LENGTH = 500
 
 /**
- * Gives each distinct (trimmed) text of a column a small integer, so digit records can carry
+ * Gives each distinct (trimmed) text of a column a small integer (a column of timestamps: each date), so digit records can carry
  * their row's text columns as codes. A column with too many distinct values, or one too long, stops being coded.
  */
 export class GroupCodes {
@@ -32,18 +32,43 @@ export class GroupCodes {
   /** Per coded column, how many rows hold each code (a date column's profile counts rows by them). */
   private readonly rows: number[][]
   private readonly row: Int32Array
+  /**
+   * Columns of dates written with a time of day (timestamps): coded by the date alone, since nearly
+   * every timestamp differs and it is the day that ranges and periods need. Per column, how many
+   * rows had a time set aside (null: not such a column).
+   */
+  private readonly timed: (number | null)[]
 
   constructor(textPositions: boolean[], sample: readonly string[][]) {
+    this.timed = textPositions.map((isText, i) => {
+      if (!isText) return null
+      const filled = sample.filter(row => (row[i] ?? '').trim())
+      return filled.length && filled.filter(row => dayPart(row[i]!) !== null).length >= 0.5 * filled.length ? 0 : null
+    })
     this.codes = textPositions.map((isText, i) => {
       if (!isText) return null
       const cells = sample.map(row => (row[i] ?? '').trim())
       const filled = cells.filter(Boolean)
       if (filled.length && filled.filter(looksLikeDate).length >= DATE_SHARE * filled.length) return new Map()
-      const distinct = new Set(cells).size
+      const distinct = new Set(cells.map(cell => this.keyOf(i, cell, false))).size
       return sample.length >= SAMPLE_MINIMUM && distinct > UNIQUE_SHARE * sample.length ? null : new Map()
     })
     this.rows = textPositions.map(() => [])
     this.row = new Int32Array(textPositions.length)
+  }
+
+  /** The text a cell is coded by: itself, or for a column of timestamps the date it names (counted when `count`). */
+  private keyOf(position: number, text: string, count: boolean): string {
+    if (this.timed[position] === null) return text
+    const day = dayPart(text)
+    if (day === null) return text
+    if (count) this.timed[position]!++
+    return day
+  }
+
+  /** How many rows of a column of timestamps had their time of day set aside (null: not such a column). */
+  timedRows(position: number): number | null {
+    return this.isCoded(position) ? this.timed[position] ?? null : null
   }
 
   /**
@@ -58,7 +83,8 @@ export class GroupCodes {
       if (!map) continue
       const cell = cells[from + i]!
       // Most cells start and end in a printable ASCII character and need no trimming (which copies).
-      const text = cell.length && (unprintable(cell.charCodeAt(0)) || unprintable(cell.charCodeAt(cell.length - 1))) ? cell.trim() : cell
+      const trimmed = cell.length && (unprintable(cell.charCodeAt(0)) || unprintable(cell.charCodeAt(cell.length - 1))) ? cell.trim() : cell
+      const text = this.keyOf(i, trimmed, true)
       let code = map.get(text)
       if (code === undefined) {
         if (map.size >= MAX_CODES || text.length > MAX_CODED_LENGTH) {

@@ -17,6 +17,7 @@ import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat, TextEncoding } from './sniff'
 import { dropPartitionsSql, partitionNames } from './partitions'
 import { duplicateCounts } from './digit-tests'
+import { countCodeRepeats } from './code-repeats'
 
 const PROGRESS_EVERY_MS = 500
 /** Batches of rows with the encoding thread at once: enough to keep it busy, few enough to bound memory. */
@@ -208,7 +209,9 @@ async function streamRows(
  * The indexes and planner statistics follow once the dataset is ready: they make queries fast
  * and change no answer, and a reporter need not wait the second per million rows they take. Preview
  * pages and joins find rows by number; drill-down walks a column's records in row order. Rows
- * are only ever found by number, so statistics on their cells would tell the planner nothing.
+ * are only ever found by number, so statistics on their cells would tell the planner nothing. A range
+ * filter counts the records of the rungs it cuts through by value (value-ladder.ts), and a question
+ * reads the cube's cells of one column and one cut of it (thousands of cells with the value ladder's).
  * Should this fail, queries stay right, only slower, and autovacuum still gathers statistics.
  * One connection does it all, leaving the other core to the reporter's first questions.
  */
@@ -216,20 +219,26 @@ async function speedUp({ datasetId, names }: ImportJob, db: Connections) {
   await db.rows.query(`
     CREATE INDEX IF NOT EXISTS ${names.rows}_row_no ON ${names.rows} (row_no);
     CREATE INDEX IF NOT EXISTS ${names.digits}_column_row ON ${names.digits} (column_pos, row_no);
+    CREATE INDEX IF NOT EXISTS ${names.digits}_column_value ON ${names.digits} (column_pos, value);
+    CREATE INDEX IF NOT EXISTS ${names.cube}_cells ON ${names.cube} (column_pos, group_pos, pair_pos);
     ANALYZE ${names.rows} (row_no); ANALYZE ${names.digits}; ANALYZE ${names.cube};
   `).catch(error => console.warn(`[import] ${datasetId}: indexes or statistics not made: ${(error as Error).message}`))
 }
 
 /**
- * Each number column's repeated values per sign, counted once over the whole column and kept, so
- * that the unfiltered repeated-amounts test reads them (until then it counts them itself, with the
- * same answer). A failure here changes no answer either.
+ * Each number column's repeated values per sign, counted once over the whole column and per value of
+ * each text column the cube counts it by, and kept, so that the repeated-amounts test, unfiltered or
+ * filtered to one value, reads them (until then it counts them itself, with the same answer). A
+ * failure here changes no answer either.
  */
 async function countRepeats({ datasetId, names }: ImportJob, columns: EncodedImport['columns']) {
   for (const [position, column] of columns.entries()) {
     if (!column.signs) continue
     const whole = { from: `${names.digits} d`, where: `d.column_pos = ${position}`, replacements: { datasetId } }
     try {
+      // By each text column the cube counts it by (one department's repeated amounts read them), then
+      // the whole column's, last, so that a column with its repeats kept has all of them.
+      for (const textPos of column.cubeGroups ?? []) if (textPos >= 0) await countCodeRepeats(datasetId, names.digits, position, textPos)
       const [positive, negative] = [await duplicateCounts(whole, 'positive'), await duplicateCounts(whole, 'negative')]
       await useDb().models.DatasetColumn.update({ repeats: { positive, negative } }, { where: { datasetId, position } })
     }

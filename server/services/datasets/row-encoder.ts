@@ -1,7 +1,7 @@
 import { RULES, detectNumberStyle, recordOf, readNumber } from '#shared/digits'
 import type { ColumnProfile as SuitabilityProfile, NumberStyle } from '#shared/digits'
 import { dayText, detectDateOrder, readDate } from '#shared/dates/read-date'
-import type { DateReadingDTO } from '#shared/types/dataset'
+import type { DateReadingDTO, ValueLadder } from '#shared/types/dataset'
 import { ColumnProfile, clip } from './column-profile'
 import type { ColumnKind } from './column-profile'
 import { CopyEncoder, uuidBytes, writeDigits, writeGroupValue, writeRow } from './copy-encoder'
@@ -10,6 +10,7 @@ import { FrequentValues } from './frequent-values'
 import type { Leader } from './frequent-values'
 import { GroupCodes } from './group-codes'
 import { UnreadableFile } from './sniff'
+import { chooseBounds } from './value-ladder'
 
 export const MAX_COLUMNS = 2000
 const SAMPLE_ROWS = 1000
@@ -74,6 +75,8 @@ export interface ColumnSummary {
   coded: boolean
   cubeGroups: number[] | null
   cubePairs: number[] | null
+  /** A number column's value ladder (value-ladder.ts); null for text columns and columns of too few values. */
+  ladder: ValueLadder | null
   dates: DateReadingDTO | null
   /** Per sign, the suitability facts with topValue still 0, and the most frequent value. */
   signs: { positive: SuitabilityProfile | null, negative: SuitabilityProfile | null, top: { positive: TopValue | null, negative: TopValue | null } } | null
@@ -186,7 +189,8 @@ export class RowEncoder {
       first = Math.min(first, day)
       last = Math.max(last, day)
     }
-    return { days, reading: { order, settled, read, unread, first: read ? dayText(first) : null, last: read ? dayText(last) : null } }
+    const timed = codes.timedRows(position)
+    return { days, reading: { order, settled, read, unread, first: read ? dayText(first) : null, last: read ? dayText(last) : null, ...(timed === null ? {} : { timed }) } }
   }
 
   private summary(profile: ColumnProfile, position: number, dates: DateReadingDTO | null): ColumnSummary {
@@ -207,6 +211,7 @@ export class RowEncoder {
       coded: this.groupCodes!.isCoded(position),
       cubeGroups: profile.numeric ? this.cube!.groupingsOf(position) : null,
       cubePairs: profile.numeric ? this.cube!.pairingsOf(position) : null,
+      ladder: profile.numeric ? this.cube!.ladderOf(position) : null,
       dates,
       signs: signs
         ? {
@@ -228,7 +233,11 @@ export class RowEncoder {
     const texts = plan.flatMap(({ profile }, position) => (profile.numeric ? [] : [position]))
     this.plan = plan
     this.groupCodes = new GroupCodes(plan.map(c => !c.profile.numeric), this.sample)
-    this.cube = new DigitCubeCounter(numbers, texts, choosePairs(texts, this.sample))
+    // Each number column's ladder is cut at its sampled values' quantiles.
+    const ladders = plan.map(({ profile, style }, position) => (profile.numeric
+      ? chooseBounds(this.sample.flatMap(row => recordOf(readNumber(row[position] ?? '', style)).value ?? []))
+      : null))
+    this.cube = new DigitCubeCounter(numbers, texts, choosePairs(texts, this.sample), ladders)
     // Per number column, the most frequent positive and negative value (the suitability check's repeated amounts).
     this.frequent = plan.map(({ profile }) => (profile.numeric ? [new FrequentValues(), new FrequentValues()] as const : null))
     const sample = this.sample

@@ -1,3 +1,4 @@
+import { oneLine } from '#shared/schemas/text'
 import type { Dataset } from '../../models/Dataset'
 import type { Actor } from '../../utils/permissions'
 import { startImport } from './upload'
@@ -13,7 +14,7 @@ export async function importSheet(actor: Actor, workbook: Dataset, sheet: string
     throw fail(400, [{ path: 'sheet', message: `This workbook has no sheet named "${sheet}". Its sheets: ${workbook.sheets.map(name => `"${name}"`).join(', ')}.` }])
   }
   const dataset = await useDb().models.Dataset.create({
-    newsroomId: workbook.newsroomId, title: title ?? `${workbook.title} (${sheet})`, sourceNote: workbook.sourceNote,
+    newsroomId: workbook.newsroomId, title: title ?? oneLine(`${workbook.title} (${sheet})`), sourceNote: workbook.sourceNote,
     sourceUrl: workbook.sourceUrl, obtainedOn: workbook.obtainedOn, originalName: workbook.originalName, format: 'xlsx',
     sheet, sha256: workbook.sha256, byteSize: workbook.byteSize, storageKey: workbook.storageKey, replacesId: null, createdBy: actor.userId,
   })

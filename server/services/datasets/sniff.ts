@@ -90,10 +90,13 @@ export function detectEncoding(head: Uint8Array): { encoding: TextEncoding, bomL
  * whose start reads as UTF-8 but holds invalid bytes further on (a Latin-1 accent first met on
  * row 5,000) is not UTF-8 throughout. If its UTF-8 part already held accented characters, it was
  * written by two systems and is read as the bytes say ('utf-8+windows-1252'); if that part was
- * plain ASCII, it is Latin-1. One streamed pass over the file, never held in memory.
+ * plain ASCII, it is Latin-1. The other way round, a file that starts as Latin-1 but spells a
+ * character in UTF-8 further on is read as the bytes say too. One streamed pass over the file,
+ * never held in memory.
  */
 export async function detectFileEncoding(open: () => Promise<Readable>, head: Uint8Array): Promise<{ encoding: TextEncoding, bomLength: number }> {
   const detected = detectEncoding(head)
+  if (detected.encoding === 'windows-1252') return await spellsUtf8(open) ? { encoding: 'utf-8+windows-1252', bomLength: 0 } : detected
   if (detected.encoding !== 'utf-8' || detected.bomLength > 0) return detected
   // A character cut between two chunks waits for the rest of its bytes in the next one.
   let carry: Buffer = Buffer.alloc(0)
@@ -107,6 +110,27 @@ export async function detectFileEncoding(open: () => Promise<Readable>, head: Ui
     carry = bytes.subarray(cut)
   }
   return carry.length ? notUtf8(Buffer.alloc(0)) : detected
+}
+
+/**
+ * Whether a file holds a character written as UTF-8: a lead byte with its continuation bytes. In
+ * Latin-1 text such a pair is an accented capital followed by a symbol (as "Ã©"), which prose and
+ * tables almost never hold; where it stands, the mixed reading matches Latin-1 everywhere else.
+ */
+async function spellsUtf8(open: () => Promise<Readable>): Promise<boolean> {
+  // The last bytes of a chunk wait for the next, in case a character is cut between them.
+  let carry: Buffer = Buffer.alloc(0)
+  for await (const chunk of await open()) {
+    const bytes = carry.length ? Buffer.concat([carry, chunk as Buffer]) : chunk as Buffer
+    for (let at = 0; at < bytes.length; at++) {
+      const lead = bytes[at]!
+      if (lead < 0xC2 || lead > 0xF4) continue
+      const length = lead >= 0xF0 ? 4 : lead >= 0xE0 ? 3 : 2
+      if (at + length <= bytes.length && isUtf8(bytes.subarray(at, at + length))) return true
+    }
+    carry = bytes.subarray(Math.max(0, bytes.length - 3))
+  }
+  return false
 }
 
 /** Where the last UTF-8 character of `bytes` starts if its bytes are not all there yet, else the length. */

@@ -5,7 +5,7 @@ import { DEMO_NEWSROOM, DEMO_PASSWORD, DEMO_PEOPLE } from './people'
 import { demoLedgerCsv } from './payments'
 import { DEMO_CLAIMS, DEMO_FOLLOW_UP, DEMO_STORY } from './story'
 import { decideReview, requestReview } from '../investigations/review'
-import { createClaim, disputeClaim, findClaim, verifyClaim } from '../investigations/claims'
+import { claimOf, createClaim, disputeClaim, verifyClaim } from '../investigations/claims'
 import { publish } from '../publishing/publish'
 import { replyToThread } from '../conversation/threads'
 import type { Actor } from '../../utils/permissions'
@@ -76,9 +76,9 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   for (const claim of Object.values(DEMO_CLAIMS)) {
     await createClaim(reporter, investigation, { id: claim.id, blockId: claimIn(claim.id).id, supportingBlockIds: claim.cites.map(i => blocks[i]!.id) })
   }
-  const { claim: verified } = await findClaim(DEMO_CLAIMS.verified.id)
+  const verified = await claimOf(investigation.id, DEMO_CLAIMS.verified.id)
   await verifyClaim(checker, verified, { quote: verified.quote })
-  const { claim: disputed } = await findClaim(DEMO_CLAIMS.disputed.id)
+  const disputed = await claimOf(investigation.id, DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
   // The reporter answers the dispute in its conversation and asks the data editor in, so the demo shows one.
   const dispute = await models.Thread.findOne({ where: { subjectType: 'claim', subjectId: disputed.id } })

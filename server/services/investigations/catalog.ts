@@ -101,6 +101,7 @@ export async function createInvestigation(actor: Actor, title: string): Promise<
       investigationId: created.id, kind: 'prose', position: 0, content: { type: 'doc', content: [{ type: 'paragraph' }] },
       settings: null, createdBy: actor.userId, updatedBy: actor.userId,
     }, { transaction })
+    await recordAudit({ newsroomId: actor.newsroomId, investigationId: created.id, actorId: actor.userId, action: 'investigation.created', subjectType: 'investigation', subjectId: created.id, detail: { title } }, transaction)
     return created
   })
   return describeInvestigation(investigation)

@@ -1,4 +1,4 @@
-import { Op } from 'sequelize'
+import { Op, UniqueConstraintError } from 'sequelize'
 import type { Transaction } from 'sequelize'
 import type { QueueItemDTO } from '#shared/types/investigation'
 import type { Claim, Investigation } from '../../models'
@@ -11,11 +11,31 @@ import type { NotificationKind } from '#shared/types/conversation'
 import { recordNotifications } from '../conversation/notifications'
 import { noteInThread } from '../conversation/threads'
 
-/** The claim behind an id with its investigation, for the permission check; 404 when missing. */
-export async function findClaim(id: string): Promise<{ claim: Claim, investigation: Investigation }> {
-  const claim = await useDb().models.Claim.findByPk(id)
+/** What names a claim in a request: the id its mark carries, and its investigation where the id alone is not enough. */
+export interface ClaimKey { id: string, investigationId?: string }
+
+/**
+ * The claim an id names for this member, with its investigation, for the permission check. A claim's
+ * id is unique within its investigation only, so it is looked for in the member's own newsrooms: one
+ * of another newsroom with the same id answers 404 like a missing one, through the same query. A
+ * member who can open two claims of that id (a passage copied between investigations) names the
+ * investigation.
+ */
+export async function findClaim(userId: string, key: ClaimKey): Promise<{ claim: Claim, investigation: Investigation }> {
+  const { sequelize, models } = useDb()
+  const members = sequelize.literal(`(SELECT i.id FROM investigations i JOIN memberships m ON m.newsroom_id = i.newsroom_id WHERE m.user_id = ${sequelize.escape(userId)})`)
+  const investigationId = key.investigationId ? { [Op.and]: [{ [Op.eq]: key.investigationId }, { [Op.in]: members }] } : { [Op.in]: members }
+  const found = await models.Claim.findAll({ where: { id: key.id, investigationId }, limit: 2 })
+  if (!found.length) throw fail(404)
+  if (found.length > 1) throw fail(400, [{ path: 'investigationId', message: 'Claims with this id are in several investigations you can open: add ?investigationId= to say which.' }])
+  return { claim: found[0]!, investigation: await findInvestigation(found[0]!.investigationId) }
+}
+
+/** A claim of an investigation by its id; 404 when it has none. */
+export async function claimOf(investigationId: string, id: string): Promise<Claim> {
+  const claim = await useDb().models.Claim.findOne({ where: { investigationId, id } })
   if (!claim) throw fail(404)
-  return { claim, investigation: await findInvestigation(claim.investigationId) }
+  return claim
 }
 
 async function checkSupport(investigationId: string, ids: string[], transaction?: Transaction) {
@@ -42,14 +62,16 @@ export async function createClaim(actor: Actor, investigation: Investigation, in
   const quote = claimText(block.content, input.id)
   if (!quote.trim()) throw fail(400, [{ path: 'id', message: 'Save the marked passage first: the text block holds no passage with this claim mark.' }])
   await checkSupport(investigation.id, input.supportingBlockIds)
-  const taken = await models.Claim.findByPk(input.id, { attributes: ['id', 'investigationId'] })
-  // Another investigation's claim (perhaps another newsroom's) is not named: its id is simply not free.
-  if (taken?.investigationId === investigation.id) throw fail(409, { message: 'This claim exists already.' })
-  if (taken) throw fail(400, [{ path: 'id', message: 'Give the claim a fresh random id.' }])
+  // The id names a claim within this investigation only: what other investigations hold never shows.
+  const exists = () => fail(409, { message: 'This claim exists already.' })
+  if (await models.Claim.findOne({ where: { investigationId: investigation.id, id: input.id }, attributes: ['id'] })) throw exists()
   const claim = await sequelize.transaction(async (transaction) => {
     const created = await models.Claim.create({ id: input.id, investigationId: investigation.id, blockId: block.id, quote, supportingBlockIds: input.supportingBlockIds, createdBy: actor.userId }, { transaction })
     await audit(actor, created, 'claim.marked', { supportingBlockIds: input.supportingBlockIds }, transaction)
     return created
+  }).catch((error: unknown) => {
+    // The same claim marked twice at once: the second insert meets the first's key.
+    throw error instanceof UniqueConstraintError ? exists() : error
   })
   return describeClaim(claim)
 }
@@ -76,7 +98,7 @@ async function assertPassage(claim: Claim) {
 async function lockClaimForChange(claim: Claim, transaction: Transaction): Promise<Claim> {
   const { models } = useDb()
   await models.Investigation.findByPk(claim.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
-  const current = await models.Claim.findByPk(claim.id, { transaction, lock: transaction.LOCK.UPDATE })
+  const current = await models.Claim.findOne({ where: { investigationId: claim.investigationId, id: claim.id }, transaction, lock: transaction.LOCK.UPDATE })
   if (!current) throw fail(404)
   return current
 }

@@ -252,7 +252,12 @@ export async function revokeShareLink(actor: Actor, link: ShareLink) {
   if (link.revokedAt) return
   const { sequelize, models } = useDb()
   await sequelize.transaction(async (transaction) => {
-    await link.update({ revokedAt: new Date(), revokedBy: actor.userId }, { transaction })
+    // In the one lock order (the investigation's row first), and read again under the lock: of
+    // several withdrawals at once, one withdraws and writes the trail, the others find it done.
+    await models.Investigation.findByPk(link.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
+    const current = await models.ShareLink.findByPk(link.id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (!current || current.revokedAt) return
+    await current.update({ revokedAt: new Date(), revokedBy: actor.userId }, { transaction })
     const stillOpen = await models.ShareLink.count({ where: { investigationId: link.investigationId, revokedAt: null }, transaction })
     if (!stillOpen) await models.Investigation.update({ status: 'in-review' }, { where: { id: link.investigationId, status: 'published' }, transaction })
     await recordAudit({ newsroomId: actor.newsroomId, investigationId: link.investigationId, actorId: actor.userId, action: 'investigation.unpublished', subjectType: 'share-link', subjectId: link.id }, transaction)

@@ -1,0 +1,92 @@
+import { compareDecimal, toDecimal } from '#shared/digits'
+import { compareValues } from './sign-profile'
+
+/**
+ * A number column's value ladder: its values cut at fixed bounds into rungs, each rung's digit
+ * counts kept by the cube (digit-cube.ts) like a text column's value. A range filter on the tested
+ * column then adds up the rungs it holds whole, and counts only the records of the one or two rungs
+ * it cuts through (by the index on column and value). The bounds are the sample's quantiles, so the
+ * rungs hold about equal shares of a column whose first rows are like the rest; a file sorted by the
+ * column gives lopsided rungs, which stay right and only make its range questions slower.
+ *
+ * Rung r holds the values v with bounds[r-1] <= v < bounds[r] (below the first bound: rung 0; from
+ * the last one up: rung bounds.length). Zero is a value like any other; blank and unreadable cells
+ * are on no rung, as no range keeps them.
+ */
+export const LADDER_RUNGS = 64
+/** The coarse ladder, counted by each text column: every STEP rungs of the fine one make one. */
+export const LADDER_STEP = 4
+/** The cube's group_pos of a fine rung's cell, and of a coarse rung's cell by one text column (its pair_pos). */
+export const LADDER_FINE = -2
+export const LADDER_COARSE = -3
+
+export class LadderBounds {
+  private readonly numbers: number[]
+  constructor(readonly texts: string[]) {
+    this.numbers = texts.map(Number)
+  }
+
+  /** The rung of a value (its exact decimal text and that text as a double). */
+  rungOf(value: number, text: string): number {
+    let low = 0
+    let high = this.texts.length
+    // The first bound above the value: its index is the rung.
+    while (low < high) {
+      const mid = (low + high) >> 1
+      if (compareValues(this.numbers[mid]!, this.texts[mid]!, value, text) <= 0) low = mid + 1
+      else high = mid
+    }
+    return low
+  }
+}
+
+/** Bounds at the sample values' quantiles (exact decimal texts, signed), without repeats; null for too few values. */
+export function chooseBounds(values: string[]): LadderBounds | null {
+  const sorted = values.map(text => ({ text, n: Number(text) })).sort((a, b) => compareValues(a.n, a.text, b.n, b.text))
+  if (sorted.length < 2) return null
+  const bounds: string[] = []
+  for (let i = 1; i < LADDER_RUNGS; i++) {
+    const text = sorted[Math.floor((i * sorted.length) / LADDER_RUNGS)]!.text
+    if (bounds.at(-1) !== text) bounds.push(text)
+  }
+  return new LadderBounds(bounds)
+}
+
+/** One rung of a ladder, with its bounds (null: open below or above). */
+export interface Rung {
+  code: number
+  low: string | null
+  high: string | null
+}
+
+/** The rungs of the fine ladder (step 1) or the coarse one. */
+export function rungsOf(bounds: string[], step: number): Rung[] {
+  const rungs: Rung[] = []
+  for (let code = 0; code * step <= bounds.length; code++) {
+    const first = code * step
+    const last = first + step - 1
+    rungs.push({ code, low: first === 0 ? null : bounds[first - 1]!, high: last >= bounds.length ? null : bounds[last]! })
+  }
+  return rungs
+}
+
+/**
+ * How a range [min, max] (inclusive, either open) falls on the rungs: the rungs it holds whole, one
+ * after the other, and the parts it cuts from the rungs beside them, as value intervals to count
+ * from the records: [min, low) below and [high, max] above. Null when it holds no rung whole.
+ */
+export function rangeOnRungs(rungs: Rung[], range: { min?: number, max?: number }) {
+  const min = range.min === undefined ? null : toDecimal(range.min)
+  const max = range.max === undefined ? null : toDecimal(range.max)
+  const whole = rungs.filter(r =>
+    (min === null || (r.low !== null && compareDecimal(toDecimal(r.low), min) >= 0))
+    && (max === null || (r.high !== null && compareDecimal(toDecimal(r.high), max) <= 0)))
+  if (!whole.length) return null
+  const low = whole[0]!.low
+  const high = whole.at(-1)!.high
+  return {
+    codes: whole.map(r => r.code),
+    below: min !== null && low !== null && compareDecimal(toDecimal(low), min) > 0 ? { min: range.min!, below: low } : null,
+    above: max !== null && high !== null ? { from: high, max: range.max! } : null,
+  }
+}
