@@ -6,7 +6,7 @@ const PARTITIONED = ['dataset_rows', 'digit_records', 'digit_cube']
 /**
  * Gives the app's role what it may use, after every migration run (so new tables are covered):
  * reading and writing the tables, making its import tables and its job queue's schema, owning the
- * partitioned tables it attaches imports to. The audit trail it may only read and append to: it
+ * partitioned tables it attaches imports to. The audit trail and the blocks' versions it may only read and append to: it
  * owns none of it, so it cannot alter the table, disable its trigger, truncate, update or delete.
  * Also hands the app what it made while it ran as the owner (an install from before the two roles).
  */
@@ -23,6 +23,8 @@ export async function grantAppRole(sequelize: Sequelize, appRole: string) {
     GRANT SELECT, INSERT ON audit_events TO ${app};
     -- Drawing the next id is all an insert needs; setval could rewind the trail's ids under old events.
     REVOKE UPDATE ON SEQUENCE audit_events_id_seq FROM ${app};
+    REVOKE ALL ON block_versions FROM ${app};
+    GRANT SELECT, INSERT ON block_versions TO ${app};
     REVOKE ALL ON schema_migrations FROM ${app};
     GRANT SELECT ON schema_migrations TO ${app};
   `)

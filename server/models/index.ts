@@ -9,6 +9,7 @@ import { Dataset } from './Dataset'
 import { DatasetColumn } from './DatasetColumn'
 import { Investigation } from './Investigation'
 import { Block } from './Block'
+import { BlockVersion } from './BlockVersion'
 import { AnalysisResult } from './AnalysisResult'
 import { Claim } from './Claim'
 import { Publication } from './Publication'
@@ -20,11 +21,11 @@ import { Thread } from './Thread'
 import { ThreadMessage } from './ThreadMessage'
 import { Notification } from './Notification'
 
-export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode, Thread, ThreadMessage, Notification }
+export { Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, BlockVersion, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode, Thread, ThreadMessage, Notification }
 
 /** Registers every model on `sequelize` and wires their associations. */
 export function setupModels(sequelize: Sequelize) {
-  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode, Thread, ThreadMessage, Notification]) model.setup(sequelize)
+  for (const model of [Newsroom, User, Membership, Invitation, AuditEvent, SignInAttempt, Dataset, DatasetColumn, Investigation, Block, BlockVersion, AnalysisResult, Claim, Publication, ShareLink, Session, PasswordReset, RecoveryCode, Thread, ThreadMessage, Notification]) model.setup(sequelize)
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Newsroom, { foreignKey: 'newsroomId', as: 'newsroom' })
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })

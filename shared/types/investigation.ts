@@ -83,6 +83,12 @@ export interface AuditEventDTO {
   subjectId: string | null
   detail: Record<string, unknown>
   at: string
+  /** The block the event concerns, as it stands now ("Block 3 (text), “Payments…”"), or null. */
+  block: string | null
+  /** The claim's quoted words, when the event concerns a claim. */
+  claim: string | null
+  /** What changed, old → new: settings fields, a title, a role, a review. */
+  changes: { label: string, from: string | null, to: string | null }[]
 }
 
 /** One page of an audit trail, newest first; `next` goes in `before` for the page after it. */

@@ -3,7 +3,7 @@ import { Client } from '../support/api'
 import { mailTo, waitForMail } from '../support/mail'
 import { createTestNewsroom, PASSWORD, signedIn } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { CLAIM_TEXT, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, expectStatus, postClaim, proseDoc, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
 // docs/product-rules.md ("Conversations and notifications"; "Who does what": every member reads the
@@ -182,6 +182,27 @@ describe('conversations on blocks, reviews and claims', () => {
     const answer = await newsroom.reporter.post(`/api/threads/${claim.id}/messages`, { parts: [text('The refunds are left out in the second run.')] })
     expectStatus(answer, 201)
     expect((await notices(newsroom['fact-checker'])).items.find(n => n.kind === 'reply' && n.excerpt.startsWith('The refunds are left out'))).toMatchObject({ path: `/investigations/${story.id}#claim-${story.claimId}` })
+  })
+
+  it('keeps the conversations of two newsrooms apart when their claims share an id', async () => {
+    // docs/product-rules.md: a claim's id names it within its investigation only, so another
+    // newsroom may mark a claim with the same id; its conversation must be its own.
+    const theirs = await writeStory(other.reporter, other.id, await uploadPayments(other.reporter, other.id))
+    expectStatus(await saveBlock(other.reporter, theirs, theirs.proseBlockId, { content: proseDoc('Copied ', { text: 'an id', claimId: story.claimId }) }), 200)
+    expectStatus(await other.reporter.post(`/api/investigations/${theirs.id}/claims`, { id: story.claimId, blockId: theirs.proseBlockId, supportingBlockIds: [] }), 201)
+    const started = await other.reporter.post(`/api/investigations/${theirs.id}/threads`, { subjectType: 'claim', subjectId: story.claimId, parts: [text('Our own question.')] })
+    expectStatus(started, 201)
+    expect(started.body.messages.map((m: { parts: unknown }) => m.parts)).toEqual([[text('Our own question.')]])
+    const ours = (await threadsOf(newsroom.reporter, story)).threads.find(t => t.subjectType === 'claim' && t.subjectId === story.claimId)
+    if (ours) expect(ours.id).not.toBe(started.body.id)
+    const seen = JSON.stringify(await threadsOf(newsroom.reporter, story))
+    expect(seen).not.toContain('Our own question.')
+    // Nor does the trail name their claim's words for ours ("claim.marked" keeps no quote of its own).
+    const trail = await newsroom.admin.get(`/api/investigations/${story.id}/audit?kind=claim`)
+    expectStatus(trail, 200)
+    const named = trail.body.events.filter((e: { subjectId: string }) => e.subjectId === story.claimId).map((e: { claim: string | null }) => e.claim)
+    expect(named.length).toBeGreaterThan(0)
+    expect(named.filter((quote: string | null) => quote === 'an id')).toEqual([])
   })
 
   it('keeps 404 for a member of another newsroom and 401 without a session on every conversation route', async () => {

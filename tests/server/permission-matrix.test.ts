@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client } from '../support/api'
 import { PASSWORD } from '../support/newsroom'
 import {
-  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshInvestigation, freshWorkbook,
+  allowOnly, anyAccount, everyone, expectRow, freshAnalysisBlock, freshClaim, freshDataset, freshEditedBlock, freshInvestigation, freshWorkbook,
   freshInvitation, freshMarkedPassage, freshMember, freshProseBlock, freshRemovedBlock, freshShareLink,
   freshThread, freshVerifiedClaim, MATRIX_CLAIM, matrixTable, openMatrixDesk, runRow, uploadProbe,
 } from '../support/permission-matrix'
@@ -369,6 +369,12 @@ const ROWS: Row[] = [
     send: (client, thread) => client.post(`/api/threads/${thread.id}/reopen`),
   },
   {
+    route: 'GET /api/investigations/[id]/audit.csv',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'The trail as a file: whoever reads the trail may download it.',
+    send: (client, _t, desk) => client.get(`/api/investigations/${desk.story.id}/audit.csv`),
+  },
+  {
     route: 'POST /api/investigations/[id]/blocks',
     expected: allowOnly(WRITERS, 201),
     send: (client, _t, desk) => client.post(`/api/investigations/${desk.story.id}/blocks`, { kind: 'prose' }),
@@ -408,6 +414,16 @@ const ROWS: Row[] = [
     send: (client, draft) => client.post(`/api/investigations/${draft.id}/publish`, {}),
   },
   {
+    route: 'GET /api/publications/[id]/changes',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'What changed since a publication sits beside it in the publishing panel, which every member reads.',
+    target: async (desk) => {
+      const panel = await desk.as.admin.get(`/api/investigations/${desk.story.id}/publishing`)
+      return { id: panel.body.links[0].publicationId as string }
+    },
+    send: (client, publication) => client.get(`/api/publications/${publication.id}/changes`),
+  },
+  {
     route: 'POST /api/share-links/[id]/revoke',
     expected: allowOnly(DESK_EDITORS, 200),
     fresh: true,
@@ -436,6 +452,32 @@ const ROWS: Row[] = [
     fresh: true,
     target: freshRemovedBlock,
     send: (client, block) => client.post(`/api/blocks/${block.id}/restore`),
+  },
+  {
+    route: 'GET /api/blocks/[id]/versions',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'A block\'s history is part of reading the investigation: every member reads everything in the newsroom.',
+    send: (client, _t, desk) => client.get(`/api/blocks/${desk.story.proseBlockId}/versions`),
+  },
+  {
+    route: 'GET /api/blocks/[id]/versions/[version]',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'One kept version of a block, read like its history.',
+    send: (client, _t, desk) => client.get(`/api/blocks/${desk.story.proseBlockId}/versions/1`),
+  },
+  {
+    route: 'GET /api/blocks/[id]/diff',
+    expected: allowOnly(MEMBERS, 200),
+    why: 'The difference between two kept versions, read like the history.',
+    send: (client, _t, desk) => client.get(`/api/blocks/${desk.story.proseBlockId}/diff?from=1&to=2`),
+  },
+  {
+    route: 'POST /api/blocks/[id]/versions/[version]/restore',
+    expected: allowOnly(WRITERS, 200),
+    why: 'A restore is a save of the block (issue 20: who may restore is who may edit it).',
+    fresh: true,
+    target: freshEditedBlock,
+    send: (client, block) => client.post(`/api/blocks/${block.id}/versions/1/restore`, { version: block.version }),
   },
   {
     route: 'GET /api/blocks/[id]/analysis',

@@ -100,6 +100,13 @@ export async function freshAnalysisBlock(desk: MatrixDesk) {
   return { id: reply.body.id as string }
 }
 
+/** A prose block its owner saved once after writing it, so it has a version 1 to restore at version 2. */
+export async function freshEditedBlock(desk: MatrixDesk) {
+  const block = await freshProseBlock(desk)
+  expectStatus(await desk.as.owner.patch(`/api/blocks/${block.id}`, { version: block.version, content: proseDoc('The paragraph as the matrix rewrote it.') }), 200)
+  return { id: block.id, version: block.version + 1 }
+}
+
 /** A prose block removed by its owner, for restore. */
 export async function freshRemovedBlock(desk: MatrixDesk) {
   const block = await freshProseBlock(desk)

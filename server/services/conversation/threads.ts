@@ -81,8 +81,8 @@ async function threadFor(actor: Actor, investigation: Investigation, subject: Su
   const { sequelize, models } = useDb()
   await sequelize.query(`
     INSERT INTO threads (investigation_id, subject_type, subject_id, block_id, created_by) VALUES (:investigationId, :type, :id, :blockId, :actorId)
-    ON CONFLICT (subject_type, subject_id) DO NOTHING`, { replacements: { investigationId: investigation.id, type: subject.type, id: subject.id, blockId, actorId: actor.userId }, transaction })
-  return (await models.Thread.findOne({ where: { subjectType: subject.type, subjectId: subject.id }, transaction, lock: transaction.LOCK.UPDATE }))!
+    ON CONFLICT (investigation_id, subject_type, subject_id) DO NOTHING`, { replacements: { investigationId: investigation.id, type: subject.type, id: subject.id, blockId, actorId: actor.userId }, transaction })
+  return (await models.Thread.findOne({ where: { investigationId: investigation.id, subjectType: subject.type, subjectId: subject.id }, transaction, lock: transaction.LOCK.UPDATE }))!
 }
 
 function audit(actor: Actor, thread: Thread, action: string, detail: Record<string, unknown>, transaction: Transaction) {

@@ -8,6 +8,7 @@ import { decideReview, requestReview } from '../investigations/review'
 import { claimOf, createClaim, disputeClaim, verifyClaim } from '../investigations/claims'
 import { publish } from '../publishing/publish'
 import { replyToThread } from '../conversation/threads'
+import { recordBlockVersion } from '../history/versions'
 import type { Actor } from '../../utils/permissions'
 import type { Block } from '../../models'
 
@@ -63,6 +64,7 @@ async function seedStory(people: DemoPeople, datasetId: string) {
       settings: part.kind === 'analysis' ? { datasetId, ...part.settings } : null,
       createdBy: reporterId, updatedBy: reporterId,
     })
+    await recordBlockVersion(block, 'created')
     if (block.kind === 'analysis') await runAnalysis(block, newsroomId)
     blocks.push(block)
   }
@@ -81,7 +83,7 @@ async function seedStory(people: DemoPeople, datasetId: string) {
   const disputed = await claimOf(investigation.id, DEMO_CLAIMS.disputed.id)
   await disputeClaim(checker, disputed, investigation, 'The ranking shows a deviation, not that the supplier is unusual in any other way. Say "stands out in the digit test".')
   // The reporter answers the dispute in its conversation and asks the data editor in, so the demo shows one.
-  const dispute = await models.Thread.findOne({ where: { subjectType: 'claim', subjectId: disputed.id } })
+  const dispute = await models.Thread.findOne({ where: { investigationId: investigation.id, subjectType: 'claim', subjectId: disputed.id } })
   if (dispute) {
     await replyToThread(reporter, investigation, dispute, [
       { type: 'text', text: 'Fair: I will say it stands out in the digit test and nothing more. ' },
@@ -93,9 +95,9 @@ async function seedStory(people: DemoPeople, datasetId: string) {
     reason: 'Demo newsroom: published with checks still open, to show the public page.',
     disputed: { claimIds: [DEMO_CLAIMS.disputed.id], reason: 'Demo newsroom: the disputed passage is published to show that the public page does not mark it as verified.' },
   })
-  await models.Block.create({
+  await recordBlockVersion(await models.Block.create({
     investigationId: investigation.id, kind: 'prose', position: blocks.length, content: DEMO_FOLLOW_UP, createdBy: reporterId, updatedBy: reporterId,
-  })
+  }), 'created')
   await requestReview(reporter, investigation)
   return published.url
 }

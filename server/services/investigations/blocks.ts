@@ -7,6 +7,7 @@ import type { Block, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { describeBlock, describeInvestigation, findInvestigation, liveBlocks, touchInvestigation } from './catalog'
 import { assertNoBorrowedMarks, assertUnlocked } from './locks'
+import { recordBlockVersion } from '../history/versions'
 
 /** The block behind an id with its investigation, for the permission check; 404 when missing or removed. */
 export async function findBlock(id: string, { includeRemoved = false } = {}): Promise<{ block: Block, investigation: Investigation }> {
@@ -23,13 +24,14 @@ function auditBlock(actor: Actor, block: Block, action: string, detail: Record<s
 const EDIT_COALESCE_MS = 5 * 60 * 1000
 
 /**
- * Writes a save to the trail. A change of method is one event each, with the new settings; text is
- * saved every few seconds while someone types, so a person's saves of one block within five minutes
- * of their last recorded edit of it are that edit (the block's own version and time say where it
- * now stands).
+ * Writes a save to the trail. A change of method is one event each, with the settings before and
+ * after; text is saved every few seconds while someone types, so a person's saves of one block
+ * within five minutes of their last recorded edit of it are that edit (the block's own version and
+ * time say where it now stands). A restore of an earlier version is always an event of its own.
  */
-async function auditEdit(actor: Actor, block: Block, fromVersion: number, settings: unknown, transaction: Transaction) {
-  if (settings === undefined) {
+async function auditEdit(actor: Actor, block: Block, fromVersion: number, change: { previous: unknown, settings: unknown, restoredFrom?: number }, transaction: Transaction) {
+  const { previous, settings, restoredFrom } = change
+  if (settings === undefined && restoredFrom === undefined) {
     const recent = await useDb().models.AuditEvent.findOne({
       where: {
         investigationId: block.investigationId, subjectType: 'block', subjectId: block.id, action: 'block.edited',
@@ -39,7 +41,10 @@ async function auditEdit(actor: Actor, block: Block, fromVersion: number, settin
     })
     if (recent) return
   }
-  await auditBlock(actor, block, 'block.edited', { kind: block.kind, fromVersion, ...(settings === undefined ? {} : { settings }) }, transaction)
+  await auditBlock(actor, block, restoredFrom === undefined ? 'block.edited' : 'block.version-restored', {
+    kind: block.kind, fromVersion, ...(settings === undefined ? {} : { settings, previous }),
+    ...(restoredFrom === undefined ? {} : { restoredFrom, version: block.version }),
+  }, transaction)
 }
 
 /**
@@ -89,6 +94,7 @@ export async function createBlock(actor: Actor, investigation: Investigation, in
     await models.Investigation.increment('layoutVersion', { where: { id: investigation.id }, transaction })
     await touchInvestigation(investigation.id, actor.userId, transaction)
     await auditBlock(actor, created, 'block.added', { kind: created.kind, position }, transaction)
+    await recordBlockVersion(created, 'created', transaction)
     return created
   })
   return describeBlock(block)
@@ -114,9 +120,10 @@ export async function lockBlockForChange(block: Block, transaction: Transaction,
  *
  * The block's row is locked for the whole save: the version check, the lock and review checks and
  * the write all see the same row, and a fact-checker's verification (which locks the same row)
- * either comes before the save and is respected, or waits until the save is done.
+ * either comes before the save and is respected, or waits until the save is done. Each save is one
+ * version of the block's history; `restoredFrom` names the earlier version a restore brings back.
  */
-export async function updateBlock(actor: Actor, block: Block, input: z.output<typeof blockUpdateSchema>) {
+export async function updateBlock(actor: Actor, block: Block, input: z.output<typeof blockUpdateSchema>, restoredFrom?: number) {
   const { sequelize } = useDb()
   if (input.content && block.kind !== 'prose') throw fail(400, [{ path: 'content', message: 'Only prose blocks hold text.' }])
   if (input.settings && block.kind !== 'analysis') throw fail(400, [{ path: 'settings', message: 'Only analysis blocks hold settings.' }])
@@ -129,6 +136,7 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
     const settingsChanged = fingerprint !== undefined && fingerprint !== fingerprintOf(current.settings ?? {})
     await assertUnlocked(current, { content: input.content, settings: settingsChanged ? input.settings : undefined }, transaction)
     const review = settingsChanged ? reviewAfterChange(current, fingerprint) : null
+    const previous = current.settings
     await current.update({
       ...(input.content ? { content: input.content } : {}),
       ...(input.settings ? { settings: input.settings } : {}),
@@ -136,7 +144,10 @@ export async function updateBlock(actor: Actor, block: Block, input: z.output<ty
       version: input.version + 1,
       updatedBy: actor.userId,
     }, { transaction })
-    if (input.content || settingsChanged) await auditEdit(actor, current, input.version, settingsChanged ? input.settings : undefined, transaction)
+    await recordBlockVersion(current, restoredFrom === undefined ? 'edited' : 'restored', transaction, restoredFrom)
+    if (input.content || settingsChanged || restoredFrom !== undefined) {
+      await auditEdit(actor, current, input.version, { previous, settings: settingsChanged ? input.settings : undefined, restoredFrom }, transaction)
+    }
     if (review) {
       await recordAudit({
         newsroomId: actor.newsroomId, investigationId: block.investigationId, actorId: actor.userId, action: review.action,

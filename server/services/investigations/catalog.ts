@@ -3,6 +3,7 @@ import type { BlockDTO, ClaimDTO, InvestigationDTO, InvestigationSummaryDTO, Sta
 import type { Block, Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { attachedClaims } from './prose-claims'
+import { recordBlockVersion } from '../history/versions'
 
 function summary(investigation: Investigation, names: Map<string, string>): InvestigationSummaryDTO {
   return {
@@ -97,11 +98,12 @@ export async function createInvestigation(actor: Actor, title: string): Promise<
   const { sequelize, models } = useDb()
   const investigation = await sequelize.transaction(async (transaction) => {
     const created = await models.Investigation.create({ newsroomId: actor.newsroomId, title, createdBy: actor.userId, updatedBy: actor.userId }, { transaction })
-    await models.Block.create({
+    const first = await models.Block.create({
       investigationId: created.id, kind: 'prose', position: 0, content: { type: 'doc', content: [{ type: 'paragraph' }] },
       settings: null, createdBy: actor.userId, updatedBy: actor.userId,
     }, { transaction })
     await recordAudit({ newsroomId: actor.newsroomId, investigationId: created.id, actorId: actor.userId, action: 'investigation.created', subjectType: 'investigation', subjectId: created.id, detail: { title } }, transaction)
+    await recordBlockVersion(first, 'created', transaction)
     return created
   })
   return describeInvestigation(investigation)

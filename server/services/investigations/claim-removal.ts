@@ -1,6 +1,7 @@
 import type { Claim } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { lockBlockForChange } from './blocks'
+import { recordBlockVersion } from '../history/versions'
 import { touchInvestigation } from './catalog'
 import { claimText, filterClaimMarks } from './prose-claims'
 
@@ -20,6 +21,7 @@ export async function removeClaim(actor: Actor, claim: Claim, reason: string | u
       const current = await lockBlockForChange(block, transaction)
       if (current.content && claimText(current.content, claim.id)) {
         await current.update({ content: filterClaimMarks(current.content, id => id !== claim.id), version: current.version + 1, updatedBy: actor.userId }, { transaction })
+        await recordBlockVersion(current, 'claim-removed', transaction)
       }
     }
     await recordAudit({

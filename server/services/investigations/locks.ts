@@ -49,4 +49,5 @@ export async function assertNoBorrowedMarks(investigationId: string, blockId: st
   if (borrowed) throw await claimLockedError(borrowed)
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
+/** A claim id as the mark carries it; marks with anything else name no claim. */
+export const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i

@@ -11,7 +11,7 @@ import type { DatasetFingerprint, PublishBlockerDTO, PublishCheckDTO, PublishedB
 import type { Block, Claim, Investigation, Publication, ShareLink } from '../../models'
 import type { FieldError } from '../../utils/errors'
 import type { Actor } from '../../utils/permissions'
-import { liveBlocks, stamp, userNames } from '../investigations/catalog'
+import { findInvestigation, liveBlocks, stamp, userNames } from '../investigations/catalog'
 import { cachedAnalysis, runAnalysis } from '../investigations/analysis'
 import { datasetColumns } from '../datasets/catalog'
 import { attachedClaims, filterClaimMarks } from '../investigations/prose-claims'
@@ -162,6 +162,7 @@ export async function publish(actor: Actor, investigation: Investigation, option
   const { link, publication } = await sequelize.transaction(async (transaction) => {
     const publication = await models.Publication.create({
       investigationId: investigation.id, snapshot, publishedBy: actor.userId,
+      blockVersions: state.blocks.map(b => ({ blockId: b.id, version: b.version })),
       overrideReason: general.length ? options.reason! : null,
       disputedReason: disputed.length ? options.disputed!.reason : null,
       followUpConfirmedBy: followUpConfirmed ? actor.userId : null,
@@ -262,4 +263,11 @@ export async function revokeShareLink(actor: Actor, link: ShareLink) {
     if (!stillOpen) await models.Investigation.update({ status: 'in-review' }, { where: { id: link.investigationId, status: 'published' }, transaction })
     await recordAudit({ newsroomId: actor.newsroomId, investigationId: link.investigationId, actorId: actor.userId, action: 'investigation.unpublished', subjectType: 'share-link', subjectId: link.id }, transaction)
   })
+}
+
+/** A publication with its investigation, for the permission check; 404 when missing. */
+export async function findPublication(id: string): Promise<{ publication: Publication, investigation: Investigation }> {
+  const publication = await useDb().models.Publication.findByPk(id)
+  if (!publication) throw fail(404)
+  return { publication, investigation: await findInvestigation(publication.investigationId) }
 }
