@@ -6,6 +6,7 @@ import { formatP } from '../charts/p-value'
 import type { AnalysisSettings } from '../types/investigation'
 import type { DatasetFingerprint, PublishedChecks } from '../types/publication'
 import { oneLine } from '../schemas/text'
+import { formatDate } from '../format/dates'
 
 export interface AppendixAnalysis {
   settings: AnalysisSettings
@@ -106,7 +107,7 @@ export function methodologyAppendix(title: string, analyses: AppendixAnalysis[],
     '## Datasets',
     '',
     // Titles, file names and notes come from people: each stays on its list item's one line.
-    ...datasets.map(d => `- **${oneLine(d.title)}** — ${oneLine(d.originalName)}; SHA-256 \`${d.sha256}\`; ${d.rowCount === null ? '?' : count(d.rowCount)} rows; obtained ${d.obtainedOn ?? 'on an unrecorded date'}${d.sourceUrl ? `; source ${oneLine(d.sourceUrl)}` : ''}${d.sourceNote ? `. ${oneLine(d.sourceNote)}` : ''}`),
+    ...datasets.map(d => `- **${oneLine(d.title)}** — ${oneLine(d.originalName)}; SHA-256 \`${d.sha256}\`; ${d.rowCount === null ? '?' : count(d.rowCount)} rows${d.period ? `; dated ${formatDate(d.period.from)} to ${formatDate(d.period.to)} (“${oneLine(d.period.column)}”)` : ''}; obtained ${d.obtainedOn ? formatDate(d.obtainedOn) : 'on an unrecorded date'}${d.sourceUrl ? `; source ${oneLine(d.sourceUrl)}` : ''}${d.sourceNote ? `. ${oneLine(d.sourceNote)}` : ''}`),
     '',
   ].join('\n')
 }

@@ -1,11 +1,12 @@
 import { execFileSync } from 'node:child_process'
-import { mkdirSync, readdirSync, readFileSync } from 'node:fs'
+import { mkdirSync, readdirSync, readFileSync, rmSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { baseUrl, signedIn } from '../support/api'
 import demo from '../../server/services/demo/people.json'
+import { PLANTED_VENDOR } from '../../server/services/demo/payments'
 import { artifacts, launchBrowser, screenshot, waitForApp } from '../support/browser'
 import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
@@ -194,6 +195,8 @@ async function printed(page: Page, name: string) {
   const pages = Number(/Pages:\s+(\d+)/.exec(execFileSync('pdfinfo', [pdf], { encoding: 'utf8' }))![1])
   const texts = Array.from({ length: pages }, (_, i) => execFileSync('pdftotext', ['-f', String(i + 1), '-l', String(i + 1), '-layout', pdf, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' '))
   const folder = join(artifacts, `${name}-pages`)
+  // A fresh folder: an earlier print with fewer than ten pages left page-1.png … beside page-01.png ….
+  rmSync(folder, { recursive: true, force: true })
   mkdirSync(folder, { recursive: true })
   execFileSync('pdftoppm', ['-png', '-r', '60', pdf, join(folder, 'page')])
   return { pages, texts, images: readdirSync(folder).filter(f => f.endsWith('.png')) }
@@ -225,6 +228,8 @@ describe('printing (Chromium’s PDF, read back with poppler)', () => {
         expect(together, `“${figure.title}” (${figure.subtitle}) prints on one page with its summary`).toBe(true)
       }
       expect(texts.join(' ')).not.toMatch(/Chart as PNG|Embed this chart|Run again/)
+      // The ranked groups keep their names on paper (on screen the draft's names are buttons, which print leaves out).
+      expect(texts.join(' ')).toContain(PLANTED_VENDOR)
       await context.close()
     }, 90_000)
   }

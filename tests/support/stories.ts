@@ -84,3 +84,52 @@ export async function saveBlock(client: Client, story: Story, blockId: string, c
   const { version } = await blockOf(client, story, blockId)
   return client.patch(`/api/blocks/${blockId}`, { version, ...change })
 }
+
+/** A published story of one chart: its public link's token and the chart's place among the snapshot's blocks. */
+export interface PublishedChart {
+  storyId: string
+  title: string
+  analysisBlockId: string
+  token: string
+  index: number
+}
+
+/**
+ * A story holding one first-digit test of `column` on `datasetId`, written and run by the reporter and
+ * published by the data editor (with a reason, as the method is not approved): what the reader's link opens.
+ */
+export async function publishChart(reporter: Client, editor: Client, newsroomId: string, datasetId: string, title: string, column = 'amount'): Promise<PublishedChart> {
+  const created = await reporter.post('/api/investigations', { newsroomId, title })
+  expectStatus(created, 201)
+  const analysis = await reporter.post(`/api/investigations/${created.body.id}/blocks`, { kind: 'analysis', settings: { datasetId, column, test: 'first-digit' } })
+  expectStatus(analysis, 201)
+  expectStatus(await reporter.post(`/api/blocks/${analysis.body.id}/run`), 200)
+  const published = await editor.post(`/api/investigations/${created.body.id}/publish`, { reason: 'Browser test of a published chart; its method was not reviewed.' })
+  expectStatus(published, 201)
+  const token = new URL(published.body.url).pathname.split('/p/')[1]!
+  const snapshot = await editor.get(`/api/public/${token}`)
+  expectStatus(snapshot, 200)
+  const index = snapshot.body.blocks.findIndex((b: { kind: string, result: unknown }) => b.kind === 'analysis' && b.result)
+  expect(index, 'the published chart among the snapshot’s blocks').toBeGreaterThanOrEqual(0)
+  return { storyId: created.body.id, title, analysisBlockId: analysis.body.id, token, index }
+}
+
+/**
+ * An invented ledger of 120 payments with a `paid_on` column written day first (DD/MM/YYYY; days past
+ * the 12th settle the order). Its earliest payment sits in row 40 and its latest in row 80, so the
+ * range cannot come from the first and last rows: 3 Feb 2024 and 28 Nov 2025; every other row is paid
+ * between 10 Feb 2024 and 10 Nov 2025.
+ */
+export function datedPaymentsCsv(): string {
+  const day = (date: Date) => `${String(date.getUTCDate()).padStart(2, '0')}/${String(date.getUTCMonth() + 1).padStart(2, '0')}/${date.getUTCFullYear()}`
+  const lines = ['supplier,paid_on,amount']
+  for (let i = 0; i < 120; i++) {
+    const paid = i === 40 ? new Date(Date.UTC(2024, 1, 3)) : i === 80 ? new Date(Date.UTC(2025, 10, 28)) : new Date(Date.UTC(2024, 1, 10) + ((i * 7) % 640) * 86_400_000)
+    // Spread over four orders of magnitude by the golden ratio's fractions, so the digits are not all alike.
+    const amount = (Math.round(10 ** (1 + ((i * 0.6180339887) % 1) * 4) * 100) / 100).toFixed(2)
+    lines.push(`${['Northgate Paving', 'Quay Lighting', 'Willow Drains'][i % 3]},${day(paid)},${amount}`)
+  }
+  return `${lines.join('\n')}\n`
+}
+/** The range `datedPaymentsCsv` holds, as Mantissa writes dates (shared/format/dates.ts: "3 Dec 2026"). */
+export const DATED_PAYMENTS_RANGE = 'dataset dated 3 Feb 2024 to 28 Nov 2025 (“paid_on”)'

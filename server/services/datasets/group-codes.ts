@@ -1,4 +1,4 @@
-import { dayPart } from '#shared/dates/read-date'
+import { dayPart, looksLikeDate } from '#shared/dates/read-date'
 
 /** More distinct values than this and a column is not coded: grouping by it falls back to a join. */
 export const MAX_CODES = 100_000
@@ -8,6 +8,13 @@ const unprintable = (code: number) => code <= 32 || code >= 127
 /** In the sample, a column where nearly every value differs (references, ids, notes) is not coded. */
 const UNIQUE_SHARE = 0.9
 const SAMPLE_MINIMUM = 100
+/**
+ * A column whose sample reads this much as dates (the share at which its profile calls it a date
+ * column) is coded however few of its dates repeat: a short ledger pays on a different day nearly
+ * every time, yet days are few by nature (36,525 a century), and only a coded column's dates are read
+ * as days (its range under a chart, date filters, periods).
+ */
+const DATE_SHARE = 0.8
 
 /**
  * A text longer than this stops its column being coded too: the dictionary's values are indexed,
@@ -40,7 +47,10 @@ export class GroupCodes {
     })
     this.codes = textPositions.map((isText, i) => {
       if (!isText) return null
-      const distinct = new Set(sample.map(row => this.keyOf(i, (row[i] ?? '').trim(), false))).size
+      const cells = sample.map(row => (row[i] ?? '').trim())
+      const filled = cells.filter(Boolean)
+      if (filled.length && filled.filter(looksLikeDate).length >= DATE_SHARE * filled.length) return new Map()
+      const distinct = new Set(cells.map(cell => this.keyOf(i, cell, false))).size
       return sample.length >= SAMPLE_MINIMUM && distinct > UNIQUE_SHARE * sample.length ? null : new Map()
     })
     this.rows = textPositions.map(() => [])
