@@ -38,7 +38,9 @@ server.on('exit', code => process.exit(code ?? 0))
 const url = `http://localhost:${port}`
 await waitForServer(url, dev ? 180 : 60)
 const demo = JSON.parse(readFileSync(join(root, 'server', 'services', 'demo', 'people.json'), 'utf8'))
-const published = existsSync(env.MANTISSA_DEMO_LINK_FILE) ? readFileSync(env.MANTISSA_DEMO_LINK_FILE, 'utf8').trim() : null
+// The file keeps the address the link was made under; on a later start the port may differ, the path not.
+const stored = existsSync(env.MANTISSA_DEMO_LINK_FILE) ? readFileSync(env.MANTISSA_DEMO_LINK_FILE, 'utf8').trim() : null
+const published = stored ? new URL(new URL(stored).pathname, env.NUXT_PUBLIC_URL).href : null
 console.log(`
   Mantissa is running at ${url}
 
