@@ -7,10 +7,13 @@ const NEWSROOM = '11111111-1111-4111-8111-111111111111'
 const DATASET = '22222222-2222-4222-8222-222222222222'
 const column = (name: string, position: number, numeric: boolean) => ({ name, position, numeric, kind: numeric ? 'amount' : 'text', samples: [] })
 
-registerEndpoint('/api/datasets', () => [
-  { id: DATASET, title: 'Ledger', status: 'ready', archived: false },
-  { id: '33333333-3333-4333-8333-333333333333', title: 'Still importing', status: 'importing', archived: false },
-])
+// Summaries as GET /api/datasets answers them (DatasetSummaryDTO).
+const summary = (id: string, title: string, status: 'ready' | 'importing') => ({
+  id, title, status, progress: status === 'ready' ? 1 : 0.4, error: null, rowCount: status === 'ready' ? 1200 : null, byteSize: 48_000,
+  originalName: `${title.toLowerCase().replace(/ /g, '-')}.csv`, createdAt: '2026-11-30T09:00:00.000Z', createdBy: 'A Reporter',
+  archived: false, obtainedOn: '2026-11-28', sha256: 'ab'.repeat(32), sheet: null, readingGroup: id, readingNo: 1,
+})
+registerEndpoint('/api/datasets', () => [summary(DATASET, 'Ledger', 'ready'), summary('33333333-3333-4333-8333-333333333333', 'Still importing', 'importing')])
 registerEndpoint(`/api/datasets/${DATASET}`, () => ({
   id: DATASET, title: 'Ledger', status: 'ready',
   columns: [column('supplier', 0, false), column('amount', 1, true), column('vat', 2, true)],
