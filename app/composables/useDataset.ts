@@ -1,4 +1,4 @@
-import type { DatasetDTO, PageDTO, RowDTO } from '#shared/types/dataset'
+import type { ColumnReadings, DatasetDTO, PageDTO, RowDTO } from '#shared/types/dataset'
 
 /** One dataset with its column profile; checks again every second while it imports. */
 export function useDataset(id: Ref<string>) {
@@ -49,4 +49,29 @@ export function useDatasetPreview(id: Ref<string>, enabled: Ref<boolean>) {
     setQuery({ sort: column, dir: descending ? 'desc' : undefined, page: undefined })
   }
   return { rows: data, page, sort, dir, sortBy, loading: computed(() => status.value === 'pending') }
+}
+
+/**
+ * What a member does with one dataset: archive or restore it, delete it, and read its stored bytes
+ * again as a new dataset (with other column readings, or another sheet of its workbook). Those two
+ * answer the new dataset's id, to open it.
+ */
+export function useDatasetActions(datasetId: string) {
+  const { data: held } = useNuxtData<DatasetDTO>(`dataset-${datasetId}`)
+  async function setArchived(archived: boolean) {
+    await $fetch(`/api/datasets/${datasetId}/${archived ? 'archive' : 'restore'}`, { method: 'POST' })
+    // The answer says only that it is done: archiving changes nothing else of the dataset, or of its
+    // place in the list of its readings.
+    if (held.value) held.value = { ...held.value, archived, readings: held.value.readings.map(r => (r.id === datasetId ? { ...r, archived } : r)) }
+  }
+  async function remove() {
+    await $fetch(`/api/datasets/${datasetId}`, { method: 'DELETE' })
+  }
+  async function readAgain(columns: ColumnReadings) {
+    return (await $fetch<{ id: string }>(`/api/datasets/${datasetId}/readings`, { method: 'POST', body: { columns } })).id
+  }
+  async function readSheet(sheet: string) {
+    return (await $fetch<{ id: string }>(`/api/datasets/${datasetId}/sheets`, { method: 'POST', body: { sheet } })).id
+  }
+  return { setArchived, remove, readAgain, readSheet }
 }

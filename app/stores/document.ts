@@ -176,6 +176,24 @@ export const useDocumentStore = defineStore('document', () => {
     if (claim) await whenSaved(claim.blockId)
     return act(claimId, () => send(claimPath(claimId), { method: 'DELETE', body: { reason } }))
   }
+  /**
+   * Renames the investigation and answers '' or the refusal to show. A title saved meanwhile by
+   * someone else is taken, and the refusal names both titles.
+   */
+  async function rename(title: string): Promise<string> {
+    const current = investigation.value!
+    try {
+      const updated = await send<InvestigationDTO>(`/api/investigations/${current.id}`, { method: 'PATCH', body: { title, titleVersion: current.titleVersion } })
+      Object.assign(current, { title: updated.title, titleVersion: updated.titleVersion })
+      return ''
+    }
+    catch (e) {
+      const theirs = (e as { data?: { data?: { current?: { title: string, titleVersion: number } } } }).data?.data?.current
+      if (!theirs) return describeApiError(e).message
+      Object.assign(current, theirs)
+      return `${describeApiError(e).message} It is now “${theirs.title}”; yours was “${title}”.`
+    }
+  }
   const requestReview = () => act('review-request', post<InvestigationDTO>(`/api/investigations/${investigation.value!.id}/review-request`), applyLayout)
 
   /** What the publishing checks depend on: changes when a review or claim changes, not on every keystroke. */
@@ -386,6 +404,6 @@ export const useDocumentStore = defineStore('document', () => {
   return {
     investigation, blocks, claims, saveState, conflicts, removed, message, notices, viewer, focusRequest, unsaved, checksKey, lastRefusal,
     load, save, whenSaved, saveAll, sendBeforeLeaving, retry, takeTheirs, keepMine, insert, remove, undoRemove, move, refreshLayout, may, dismiss,
-    markClaim, citeBlocks, verify, dispute, unlock, removeClaim, review, requestReview,
+    markClaim, citeBlocks, verify, dispute, unlock, removeClaim, review, requestReview, rename,
   }
 })
