@@ -43,11 +43,14 @@ export function useNotifications() {
     next.value = page.next
   }
 
+  const { data: count } = useNuxtData<NotificationPageDTO>(COUNT_KEY)
   async function markRead(body: { ids: string[] } | { all: true }) {
     await $fetch('/api/me/notifications/read', { method: 'POST', body })
     const ids = 'ids' in body ? new Set(body.ids) : null
-    for (const item of items.value) if (!ids || ids.has(item.id)) item.read = true
-    await refreshNuxtData(COUNT_KEY)
+    const marked = items.value.filter(item => !item.read && (!ids || ids.has(item.id)))
+    for (const item of marked) item.read = true
+    // The header's count follows: every one read, or those just marked that were unread.
+    if (count.value) count.value = { ...count.value, unread: ids ? Math.max(0, count.value.unread - marked.length) : 0 }
   }
 
   return { items, next, status, unread: computed(() => items.value.filter(i => !i.read).length), refresh, loadMore, markRead }
