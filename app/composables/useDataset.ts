@@ -9,7 +9,7 @@ export function useDataset(id: Ref<string>) {
     if (import.meta.client && dataset?.status === 'importing') timer = setTimeout(() => refresh(), 1000)
   }, { immediate: true })
   onBeforeUnmount(() => clearTimeout(timer))
-  return { dataset: data, error, refresh }
+  return { dataset: data, error }
 }
 
 /** A dataset's description when an id is chosen, nothing while none is; shared by key with useDataset. */

@@ -9,7 +9,7 @@ export async function createDraft(newsroomId: string, title: string, firstAnalys
 
 /** The newsroom's investigations, newest edit first, and the action that starts one. */
 export function useInvestigations(newsroomId: Ref<string>) {
-  const { data, refresh, status } = useFetch<InvestigationSummaryDTO[]>('/api/investigations', {
+  const { data } = useFetch<InvestigationSummaryDTO[]>('/api/investigations', {
     key: computed(() => `investigations-${newsroomId.value}`),
     query: { newsroomId },
     default: () => [],
@@ -20,5 +20,5 @@ export function useInvestigations(newsroomId: Ref<string>) {
     data.value = [created, ...data.value]
     return created
   }
-  return { investigations: data, create, refresh, pending: computed(() => status.value === 'pending') }
+  return { investigations: data, create }
 }

@@ -42,7 +42,6 @@ export function useMembers(newsroomId: Ref<string>, canManage: Ref<boolean>) {
   return {
     members: members.data,
     invitations: invitations.data,
-    pending: computed(() => members.status.value === 'pending'),
     invite, withdraw, changeRole, remove,
   }
 }

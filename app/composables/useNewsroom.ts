@@ -4,10 +4,10 @@ import type { MeDTO, NewsroomDTO } from '#shared/types/dto'
 export function useNewsroom() {
   const route = useRoute()
   const id = computed(() => route.params.id as string)
-  const { data, error, refresh } = useFetch<NewsroomDTO>(() => `/api/newsrooms/${id.value}`, {
+  const { data, error } = useFetch<NewsroomDTO>(() => `/api/newsrooms/${id.value}`, {
     key: computed(() => `newsroom-${id.value}`),
   })
-  return { id, newsroom: readonly(data), error, refresh }
+  return { id, newsroom: readonly(data), error }
 }
 
 /**
