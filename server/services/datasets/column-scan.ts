@@ -12,10 +12,10 @@ import type { ColumnRecords } from './column-records'
 
 /**
  * Distribution tests whose filters and grouping no cell of the import holds (two text columns and a
- * range, say) are counted over the column's records held in memory (column-records.ts), with the
- * very counting the import's cells use (digit-cube.ts): the answers are those of a count in SQL.
- * A column is read in the background the first time a question needs it, while SQL answers; later
- * questions read memory. Columns are kept up to a memory budget, least recently used first out.
+ * range, say) are counted over the column's records held in memory (column-records.ts), in one pass
+ * that counts what SQL's GROUP BY would (column-count.ts). The first question that needs a column
+ * starts reading it and waits a few seconds for it; if the read takes longer, SQL answers until it is
+ * in. Columns are kept up to a memory budget, least recently used first out.
  *
  * Mode (runtime config columnScan.mode): "on"; "off" (SQL only); "verify", for the tests: the column
  * is read at once and every answer from memory is checked against SQL's (digit-tests.ts).
@@ -62,7 +62,10 @@ async function read(datasetId: string, columnPos: number) {
   }
 }
 
-/** The column's records in memory; starts reading them when absent ("verify": waits for them). */
+/** How long a question waits for its column to be read (a million rows take a second or two) before SQL counts it. */
+const WAIT_FOR_READ_MS = 5000
+
+/** The column's records in memory; starts reading them when absent, and waits a while for them ("verify": until read). */
 async function recordsOf(datasetId: string, columnPos: number): Promise<ColumnRecords | null> {
   const key = `${datasetId}:${columnPos}`
   const entry = keptColumns().get(key)
@@ -74,8 +77,10 @@ async function recordsOf(datasetId: string, columnPos: number): Promise<ColumnRe
     }).finally(() => loading.delete(key))
     loading.set(key, pending)
   }
-  if (columnScanMode() !== 'verify') return null
-  await pending
+  // A question waits a while for the column rather than scan it in SQL beside the read: fifty
+  // people asking at once would otherwise start fifty scans, and the read would wait behind them.
+  if (columnScanMode() === 'verify') await pending
+  else await Promise.race([pending, new Promise(resolve => setTimeout(resolve, WAIT_FOR_READ_MS).unref())])
   const loaded = keptColumns().get(key)
   return loaded && loaded !== 'sql' ? loaded : null
 }
