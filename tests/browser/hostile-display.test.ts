@@ -95,6 +95,8 @@ describe('hostile text on the page', () => {
     await expect(page.getByText(NOTE, { exact: true }).count()).resolves.toBeGreaterThan(0)
     const table = page.locator('table').last()
     await table.locator('tbody tr').first().waitFor()
+    // The page is drawn with the rows still on their way; read them once they are in.
+    await table.getByText('Loading rows…').waitFor({ state: 'detached', timeout: 20_000 })
     expect(await table.locator('thead').textContent()).toContain(M.image)
     const firstRow = await table.locator('tbody tr').first().locator('td').allTextContents()
     expect(firstRow.map(t => t.trim())).toEqual(['1', M.script, '1840.00', M.svg])
