@@ -7,7 +7,7 @@ import type { TestNewsroom } from '../support/newsroom'
 import { uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
-// Every page about one record (newsroom, dataset and its sub-pages, investigation, block history,
+// Every page about one record (newsroom and its sub-pages, dataset and its sub-pages, investigation, block history,
 // audit trail) sits in one frame. docs/product-rules.md, "Newsroom walls": an id of another newsroom
 // is answered exactly like one that does not exist, so each page says the one sentence for both and
 // draws nothing of the record; its own newsroom's member sees the record. Walked at 1366 and 390 px.
@@ -39,6 +39,9 @@ async function signedInPage(newsroom: TestNewsroom, width: number): Promise<{ pa
 
 const pages = () => [
   { name: 'newsroom', path: `/newsrooms/${home.id}`, sentence: 'This newsroom does not exist, or you are not a member of it.', heading: /Browser frame/ },
+  { name: 'newsroom-datasets', path: `/newsrooms/${home.id}/datasets`, sentence: 'This newsroom does not exist, or you are not a member of it.', heading: 'Datasets' },
+  { name: 'newsroom-queue', path: `/newsrooms/${home.id}/queue`, sentence: 'This newsroom does not exist, or you are not a member of it.', heading: 'Waiting for you' },
+  { name: 'newsroom-members', path: `/newsrooms/${home.id}/members`, sentence: 'This newsroom does not exist, or you are not a member of it.', heading: 'Members' },
   { name: 'dataset', path: `/datasets/${datasetId}`, sentence: 'This dataset does not exist, or it belongs to a newsroom you are not part of.', heading: /payments/i },
   { name: 'dataset-cells', path: `/datasets/${datasetId}/cells`, sentence: 'This dataset does not exist, or it belongs to a newsroom you are not part of.', heading: 'Cells left out' },
   { name: 'investigation', path: `/investigations/${story.id}`, sentence: 'This investigation does not exist, or it belongs to a newsroom you are not part of.', heading: null },
