@@ -15,7 +15,7 @@ import { MixedTextDecoder } from './mixed-text'
 export interface RowSource {
   rows: AsyncIterable<string[][]>
   /** Known once the first rows were read; `sheets`: a workbook's sheets, in its order. */
-  meta: { delimiter: string | null, extraFields: number, sheets: string[] | null }
+  meta: { delimiter: string | null, sheets: string[] | null }
   /** How far into the file reading has come. */
   bytesRead: () => number
 }
@@ -136,16 +136,18 @@ function jsonCellText(value: unknown): string {
   }
 }
 
-async function* jsonRows(input: Readable, meta: RowSource['meta']) {
+async function* jsonRows(input: Readable) {
   const records = input.pipe(StreamArray.withParser(JSON_PARSING))
   const sample: Record<string, unknown>[] = []
   let header: string[] | null = null
   let index: Map<string, number> = new Map()
+  // A key that is not a column (the columns are the keys of the first records) is kept past them as
+  // "key: value", so the import stores the record as a ragged row: listed by number, nothing dropped.
   const toCells = (record: Record<string, unknown>) => {
     const cells = Array.from({ length: header!.length }, () => '')
     for (const [key, value] of Object.entries(record)) {
       const at = index.get(key)
-      if (at === undefined) meta.extraFields++
+      if (at === undefined) cells.push(`${storable(key)}: ${jsonCellText(value)}`)
       else cells[at] = jsonCellText(value)
     }
     return cells
@@ -233,7 +235,7 @@ export interface StoredSource {
 
 /** Opens a stored file as rows of text cells, whatever its format. */
 export function openRows(format: DatasetFormat, stored: StoredSource, encoding: TextEncoding, bomLength: number): RowSource {
-  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0, sheets: null }
+  const meta: RowSource['meta'] = { delimiter: null, sheets: null }
   let bytesRead = 0
   if (format === 'xlsx') {
     // The workbook reader makes ranged reads of its own (the archive's directory is at its end).
@@ -253,6 +255,6 @@ export function openRows(format: DatasetFormat, stored: StoredSource, encoding: 
   })
   stored.open(bomLength).then(input => pipeline(input, file)).catch(error => file.destroy(error))
   const text = () => file.pipe(decoding(encoding, format !== 'json'))
-  const rows = format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)
+  const rows = format === 'json' ? inBatches(jsonRows(text())) : delimitedRows(text(), format, meta)
   return { rows: untilFailure(file, rows), meta, bytesRead: () => bytesRead }
 }
