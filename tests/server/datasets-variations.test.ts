@@ -141,3 +141,57 @@ describe('finding and managing datasets', () => {
     expect(gone.body.data.message).toMatch(/stored file/i)
   })
 })
+
+describe('cells of every column kind', () => {
+  // By hand, 24 rows: "ref" is an identifier (whole numbers of one length, named like one), "units" a
+  // count, "paid on" a date, "note" text. Row 3 leaves ref and units blank, row 5 writes "–" in both.
+  const rows = Array.from({ length: 24 }, (_, n) => {
+    const i = n + 1
+    const blank = i === 3
+    const dash = i === 5
+    return [blank ? '' : dash ? '–' : String(500100 + i), blank ? '' : dash ? '–' : i === 7 ? '0' : String(i * 3), `${String(1 + (i % 28)).padStart(2, '0')}/03/2026`, i === 9 ? '' : `note ${i}`]
+  })
+  let id: string
+  beforeAll(async () => {
+    id = await uploadCsv(desk.reporter, desk.id, delimitedText({ header: ['ref', 'units', 'paid on', 'note'], rows }), 'Every kind')
+  })
+  const list = async (query: string) => (await desk.reporter.get(`/api/datasets/${id}/cells?${query}`))
+
+  it('lists an identifier\'s and a count\'s blank, unreadable and zero cells', async () => {
+    const kinds = Object.fromEntries((await described(id)).columns.map(c => [c.name, c.kind]))
+    expect(kinds).toEqual({ 'ref': 'identifier', 'units': 'count', 'paid on': 'date', 'note': 'text' })
+    for (const column of ['ref', 'units']) {
+      expect((await list(`column=${column}&status=blank`)).body.items).toEqual([{ rowNo: 3, text: '' }])
+      expect((await list(`column=${column}&status=unreadable`)).body.items).toEqual([{ rowNo: 5, text: '–' }])
+    }
+    expect((await list('column=units&status=zero')).body.items).toEqual([{ rowNo: 7, text: '0' }])
+    // Values under 10 are outside the first-two-digits test's range: units 3, 6 and 9 (rows 1 to 3, 3 blank).
+    expect((await list('column=units&status=outside&test=first-two-digits')).body.items.map((c: { rowNo: number }) => c.rowNo)).toEqual([1, 2])
+  })
+
+  it('lists a date column\'s and a text column\'s blanks, and refuses the statuses of numbers for them', async () => {
+    expect((await list('column=note&status=blank')).body.items).toEqual([{ rowNo: 9, text: '' }])
+    expect((await list('column=paid%20on&status=unreadable')).body).toMatchObject({ total: 0, items: [] })
+    for (const query of ['column=paid%20on&status=zero', 'column=note&status=negative', 'column=note&status=unreadable']) {
+      const refused = await list(query)
+      expect(refused.status, query).toBe(400)
+      expect(refused.body.data[0].path).toBe('status')
+    }
+  })
+
+  it('lists no cells naming no date once the date column is told to be text', async () => {
+    const reply = await desk.reporter.post(`/api/datasets/${id}/readings`, { columns: { 'paid on': { kind: 'text' } } })
+    expectStatus(reply, 201)
+    const version = await waitUntilSettled(desk.reporter, reply.body.id) as DatasetDTO
+    expect(version.columns.find(c => c.name === 'paid on')).toMatchObject({ kind: 'text', dates: null })
+    expect((await desk.reporter.get(`/api/datasets/${version.id}/cells?column=paid%20on&status=unreadable`)).status).toBe(400)
+  })
+
+  it('refuses to read another sheet of a file that is no workbook, leaving nothing', async () => {
+    const before = (await sql(`SELECT count(*)::int AS n FROM datasets WHERE newsroom_id = $1`, [desk.id])).rows[0].n
+    const reply = await desk.reporter.post(`/api/datasets/${id}/sheets`, { sheet: 'Sheet1' })
+    expect(reply.status).toBeGreaterThanOrEqual(400)
+    expect(reply.status).toBeLessThan(500)
+    expect((await sql(`SELECT count(*)::int AS n FROM datasets WHERE newsroom_id = $1`, [desk.id])).rows[0].n).toBe(before)
+  })
+})
