@@ -36,6 +36,9 @@ export default defineNuxtConfig({
     // expireSeconds: how long a server may go silent on an import before another takes it over;
     // maintenanceSeconds: how often the queue looks for such imports (pg-boss's own default).
     jobs: { schema: 'pgboss', expireSeconds: 15 * 60, maintenanceSeconds: 120 },
+    // Number columns read into memory for questions the import's counts do not hold (column-scan.ts):
+    // mode "on", "off" or "verify" (tests: every answer from memory is checked against SQL's); budgetMb: at most this much kept.
+    columnScan: { mode: 'on', budgetMb: 512 },
     session: {
       maxAge: 60 * 60 * 12,
       // Secure everywhere, not only in production: browsers keep Secure cookies on http://localhost,

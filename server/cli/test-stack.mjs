@@ -45,6 +45,8 @@ export async function startTestApp(database) {
     NUXT_MAIL_SINK_ENABLED: 'true',
     NUXT_MAIL_SINK_PORT: String(Number(process.env.MANTISSA_TEST_MAIL_PORT ?? 2625)),
     NUXT_DEMO_SEED: 'true',
+    // Every count the column scan answers from memory is checked against SQL's (column-scan.ts).
+    NUXT_COLUMN_SCAN_MODE: 'verify',
     NUXT_PUBLIC_URL: testUrl,
     PORT: String(port),
     NITRO_HOST: '127.0.0.1',

@@ -16,6 +16,8 @@ import { bucketOf, emptyStatus, groupCells, mergeGroups } from './count-merge'
 import type { Grouped } from './count-merge'
 import { ladderDistribution } from './ladder-counts'
 import { codeRepeats } from './code-repeats'
+import { columnScanMode, scanDistribution } from './column-scan'
+import { assertSameCounts } from './column-scan-check'
 
 async function statusCounts(query: DigitQuery, grouped: boolean): Promise<Grouped<StatusCounts>> {
   const rows = await selectRows<{ grp?: string, status: number, sign: number, count: number }>(query, {
@@ -169,8 +171,21 @@ async function cubeDistribution(test: DistributionTest, datasetId: string, store
  * for a range of the tested column. Null when the records must be counted.
  */
 async function cellsOf(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter, scan = (q: DigitQuery) => statusAndDistribution(test, q, sign, Boolean(q.group)).then(g => decodeGroups(q, g))) {
-  return await cubeDistribution(test, datasetId, stored, columnPos, query, sign)
+  const cells = await cubeDistribution(test, datasetId, stored, columnPos, query, sign)
     ?? await ladderDistribution(test, datasetId, stored?.ladder ?? null, columnPos, query, sign, scan)
+  if (cells) return { ...cells, countedFrom: 'import counts' as const }
+  const memory = await inMemory(test, datasetId, columnPos, query, sign, scan)
+  return memory && { ...memory, countedFrom: 'records in memory' as const }
+}
+
+/** Where a test's counts came from (the digit-tests route says it in a header, for benchmarks and tests). */
+export type CountedFrom = 'import counts' | 'records in memory' | 'records in SQL'
+
+/** The counts from the column's records in memory (column-scan.ts); in "verify" mode checked against SQL's. */
+async function inMemory(test: DistributionTest, datasetId: string, columnPos: number, query: DigitQuery, sign: SignFilter, scan: (q: DigitQuery) => Promise<Grouped<DistributionCounts>>) {
+  const answer = await scanDistribution(test, datasetId, columnPos, query, sign)
+  if (answer && columnScanMode() === 'verify') assertSameCounts(answer, { groups: await scan(query), profile: await profileCounts(query, sign) })
+  return answer
 }
 
 /**
@@ -255,7 +270,7 @@ const TEST_COUNTS: Record<TestName, CountsQuery> = {
  * import's counts hold the answer (no filters, or filters on the grouping column only) they are
  * read instead of the records.
  */
-export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBody): Promise<TestResult> {
+export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBody, report?: (from: CountedFrom) => void): Promise<TestResult> {
   if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
   const columns = await datasetColumns(dataset.id)
   const tested = columnByName(columns, body.column, 'column')
@@ -280,6 +295,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     const scan = (query: DigitQuery) => statusAndDistribution(test, query, sign, Boolean(grouping)).then(g => (grouping ? decodeGroups(query, g) : g))
     const fromCube = await cellsOf(test, dataset.id, stored, tested.position, counted, sign, scan)
     profile = suitabilityProfile(stored, whole, sign, filtered, fromCube?.profile ?? undefined)
+    report?.(fromCube?.countedFrom ?? 'records in SQL')
     const scanned: Grouped<DistributionCounts> = fromCube?.groups ?? await scan(counted)
     counts = grouping ? mergeGroups(scanned.values()) : scanned.get(null) ?? { status: emptyStatus(), keys: [] }
     groupCounts = grouping ? scanned : null
@@ -289,6 +305,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
     const cells = filtered ? await cellsOf('first-digit', dataset.id, stored, tested.position, whole, sign) : null
     profile = suitabilityProfile(stored, whole, sign, filtered, cells?.profile ?? undefined)
     const repeats = body.test !== 'duplicates' ? null : filtered ? await codeRepeats(dataset.id, tested.position, whole.codeFilters, sign) : stored?.repeats?.[sign]
+    report?.(repeats ? 'import counts' : 'records in SQL')
     const [status, byTest] = await Promise.all([
       cells ? new Map([[null, mergeGroups(cells.groups.values()).status]]) : statusCounts(whole, false),
       repeats ? new Map([[null, repeats]]) : TEST_COUNTS[body.test](whole, sign, false, body.threshold),

@@ -8,5 +8,5 @@ export default defineEventHandler(async (event) => {
   const body = await readInput(event, digitTestRequestSchema)
   const dataset = await findDataset(id)
   await requirePermission(event, 'dataset.read', { newsroomId: dataset.newsroomId })
-  return runDatasetTest(dataset, body)
+  return runDatasetTest(dataset, body, from => setResponseHeader(event, 'x-mantissa-counted-from', from))
 })

@@ -1,0 +1,186 @@
+import type { ColumnProfile, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
+import { NO_KEY, largest } from './column-records'
+import type { ColumnRecords } from './column-records'
+import { signCode, STATUS_CODES } from './digit-columns'
+import type { CodeFilter } from './digit-query'
+
+/** What to count: a distribution test of one sign, the records the filters keep, by the codes of one column. */
+export interface CountSpec {
+  test: DistributionTest
+  sign: SignFilter
+  filters: CodeFilter[]
+  /** A range of the tested column's values, both ends inclusive, either open. */
+  range: { min?: number, max?: number } | null
+  /** The coded column whose codes make the groups; null for one whole. */
+  groupBy: number | null
+}
+
+/** Where a test's key sits among a record's keys (column-records.ts), or -1 for the first three digits. */
+const KEY_AT: Record<DistributionTest, number> = { 'first-digit': 0, 'second-digit': 1, 'first-two-digits': 2, 'last-two-digits': 3, 'first-three-digits': -1 }
+/** Keys are counted by their own value: one above each test's largest key. */
+const KEY_COUNT: Record<DistributionTest, number> = { 'first-digit': 10, 'second-digit': 10, 'first-two-digits': 100, 'last-two-digits': 100, 'first-three-digits': 1000 }
+/** Integer-digit counts have a slot each; the values ColumnRecords holds have fewer than 22. */
+const LENGTH_SLOTS = 24
+
+/**
+ * The records a filter keeps, among `from` (all records when null), as SQL's `code = ANY(…)` and
+ * `NOT (…)` keep them: a record with no code passes neither.
+ */
+function keptBy(codes: Int32Array, filter: CodeFilter, count: number, from: Uint32Array | null): Uint32Array {
+  const set = new Uint8Array(largest(filter.codes) + 2)
+  for (const code of filter.codes) if (code >= 0) set[code] = 1
+  const pass = filter.negate ? 0 : 1
+  const out = new Uint32Array(from ? from.length : count)
+  let n = 0
+  const limit = set.length - 1
+  if (from) {
+    for (let j = 0; j < from.length; j++) {
+      const i = from[j]!
+      const code = codes[i]!
+      if (code >= 0 && set[code < limit ? code : limit] === pass) out[n++] = i
+    }
+  }
+  else {
+    for (let i = 0; i < count; i++) {
+      const code = codes[i]!
+      if (code >= 0 && set[code < limit ? code : limit] === pass) out[n++] = i
+    }
+  }
+  return out.subarray(0, n)
+}
+
+function keptByRange(value: Float64Array, range: { min?: number, max?: number }, count: number, from: Uint32Array | null): Uint32Array {
+  const min = range.min ?? -Infinity
+  const max = range.max ?? Infinity
+  const out = new Uint32Array(from ? from.length : count)
+  let n = 0
+  if (from) {
+    for (let j = 0; j < from.length; j++) {
+      const v = value[from[j]!]!
+      if (v >= min && v <= max) out[n++] = from[j]!
+    }
+  }
+  else {
+    for (let i = 0; i < count; i++) {
+      const v = value[i]!
+      if (v >= min && v <= max) out[n++] = i
+    }
+  }
+  return out.subarray(0, n)
+}
+
+/**
+ * Counts what SQL's GROUP BY would over the records a question keeps (statusAndDistribution and
+ * profileCounts in digit-tests.ts): per group, the status counts, the test's key counts and the
+ * mantissa arc's sums; for the whole selection, the suitability facts but the commonest value.
+ * Null when a filter or the grouping names a column the records hold no codes of.
+ */
+export function countRecords(records: ColumnRecords, spec: CountSpec) {
+  let kept: Uint32Array | null = null
+  for (const filter of spec.filters) {
+    const codes = records.codes.get(filter.position)
+    if (!codes) return null
+    kept = keptBy(codes, filter, records.count, kept)
+  }
+  if (spec.range) kept = keptByRange(records.value, spec.range, records.count, kept)
+  const groupCodes = spec.groupBy === null ? null : records.codes.get(spec.groupBy)
+  if (groupCodes === undefined) return null
+
+  // Groups get dense numbers as they first appear; slot 0 of groupOf stands for a record without a code.
+  const groupOf = new Int32Array(groupCodes ? records.largestCode.get(spec.groupBy!)! + 2 : 1).fill(-1)
+  const groupKeys: number[] = []
+  const keyCount = KEY_COUNT[spec.test]
+  let status = new Float64Array(5 * 16)
+  let keyCounts = new Float64Array(keyCount * 16)
+  let sums = new Float64Array(2 * 16)
+  const newGroup = (code: number) => {
+    const g = groupKeys.length
+    groupKeys.push(code - 1)
+    if (status.length < (g + 1) * 5) {
+      const more = (old: Float64Array) => {
+        const next = new Float64Array(old.length * 2)
+        next.set(old)
+        return next
+      }
+      ;[status, keyCounts, sums] = [more(status), more(keyCounts), more(sums)]
+    }
+    return (groupOf[code] = g)
+  }
+
+  const wanted = signCode(spec.sign)
+  const keyAt = KEY_AT[spec.test]
+  const { status: statuses, sign: signs, value, keys, firstThree, integerDigits, trailingZeros, fractionDigits, mantissa } = records
+  const lengths = new Float64Array(LENGTH_SLOTS)
+  let n = 0
+  let whole = 0
+  let round = 0
+  let low = Infinity
+  let high = -Infinity
+  let atLow = 0
+  let atHigh = 0
+  const total = kept ? kept.length : records.count
+  for (let j = 0; j < total; j++) {
+    const i = kept ? kept[j]! : j
+    const code = groupCodes ? groupCodes[i]! + 1 : 0
+    let g = groupOf[code]!
+    if (g < 0) g = newGroup(code)
+    const s = statuses[i]!
+    if (s !== STATUS_CODES.number) {
+      // blank, unreadable and zero are the first three of a group's five status counts.
+      status[g * 5 + s]!++
+      continue
+    }
+    const sg = signs[i]!
+    status[g * 5 + (sg > 0 ? 3 : 4)]!++
+    if (sg !== wanted) continue
+    const key = keyAt < 0 ? (firstThree[i] || -1) : (keys[i * 4 + keyAt] === NO_KEY ? -1 : keys[i * 4 + keyAt]!)
+    if (key >= 0) {
+      keyCounts[g * keyCount + key]!++
+      // As SQL's cos(2 * pi() * mantissa), of the mantissa PostgreSQL keeps as real.
+      const angle = 2 * Math.PI * mantissa[i]!
+      sums[g * 2]! += Math.cos(angle)
+      sums[g * 2 + 1]! += Math.sin(angle)
+    }
+    n++
+    lengths[Math.min(integerDigits[i]!, LENGTH_SLOTS - 1)]!++
+    if (fractionDigits[i] === 0) {
+      whole++
+      if (trailingZeros[i]! >= 2) round++
+    }
+    const v = value[i]!
+    const abs = v < 0 ? -v : v
+    if (abs < low) {
+      low = abs
+      atLow = 1
+    }
+    else if (abs === low) atLow++
+    if (abs > high) {
+      high = abs
+      atHigh = 1
+    }
+    else if (abs === high) atHigh++
+  }
+
+  const cells = groupKeys.map((code, g) => ({ code, counts: countsOf(status, keyCounts, sums, g, keyCount, spec.sign) }))
+  // A double's shortest text is the plain decimal for the values ColumnRecords holds.
+  const profile: Omit<ColumnProfile, 'topValue'> | null = n
+    ? { n, min: String(low), max: String(high), atMin: atLow, atMax: atHigh, whole, roundHundreds: round, commonLength: Math.max(...lengths) }
+    : null
+  return { cells, profile }
+}
+
+/** One group's counts in the engine's shape, as SQL's GROUP BY gives them (a null key for values the test has none for). */
+function countsOf(status: Float64Array, keyCounts: Float64Array, sums: Float64Array, g: number, keyCount: number, sign: SignFilter): DistributionCounts {
+  const at = g * 5
+  const counted: StatusCounts = { blank: status[at]!, unreadable: status[at + 1]!, zero: status[at + 2]!, positive: status[at + 3]!, negative: status[at + 4]! }
+  const keys: DistributionCounts['keys'] = []
+  let withKey = 0
+  for (let k = 0; k < keyCount; k++) {
+    const count = keyCounts[g * keyCount + k]!
+    if (!count) continue
+    keys.push({ key: k, count })
+    withKey += count
+  }
+  if (counted[sign] > withKey) keys.push({ key: null, count: counted[sign] - withKey })
+  return { status: counted, keys, arc: { cos: sums[g * 2]!, sin: sums[g * 2 + 1]! } }
+}

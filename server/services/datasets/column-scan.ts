@@ -1,0 +1,130 @@
+import type { DistributionCounts, DistributionTest, SignFilter } from '#shared/digits'
+import type { PoolClient } from 'pg'
+import { datasetColumns } from './catalog'
+import { groupNames } from './digit-query'
+import type { DigitQuery } from './digit-query'
+import { mergeGroups } from './count-merge'
+import type { Grouped } from './count-merge'
+import { readColumnRecords } from './column-records'
+import { countRecords } from './column-count'
+import type { ColumnRecords } from './column-records'
+
+/**
+ * Distribution tests whose filters and grouping no cell of the import holds (two text columns and a
+ * range, say) are counted over the column's records held in memory (column-records.ts), with the
+ * very counting the import's cells use (digit-cube.ts): the answers are those of a count in SQL.
+ * A column is read in the background the first time a question needs it, while SQL answers; later
+ * questions read memory. Columns are kept up to a memory budget, least recently used first out.
+ *
+ * Mode (runtime config columnScan.mode): "on"; "off" (SQL only); "verify", for the tests: the column
+ * is read at once and every answer from memory is checked against SQL's (digit-tests.ts).
+ */
+type Entry = ColumnRecords | 'inexact'
+
+const kept = new Map<string, Entry>()
+const loading = new Map<string, Promise<void>>()
+let keptBytes = 0
+/** Reads one at a time: a second core stays free for the questions themselves. */
+let queue: Promise<void> = Promise.resolve()
+
+export function columnScanMode(): 'on' | 'off' | 'verify' {
+  const mode = useRuntimeConfig().columnScan?.mode
+  return mode === 'off' || mode === 'verify' ? mode : 'on'
+}
+
+function budgetBytes() {
+  return Number(useRuntimeConfig().columnScan?.budgetMb ?? 512) * 1024 * 1024
+}
+
+function keep(key: string, entry: Entry) {
+  const bytes = entry === 'inexact' ? 0 : entry.bytes
+  if (bytes > budgetBytes()) return
+  kept.set(key, entry)
+  keptBytes += bytes
+  // Least recently used first out (a Map iterates in insertion order; a hit re-inserts).
+  for (const [oldKey, old] of kept) {
+    if (keptBytes <= budgetBytes()) break
+    kept.delete(oldKey)
+    keptBytes -= old === 'inexact' ? 0 : old.bytes
+  }
+}
+
+async function read(datasetId: string, columnPos: number) {
+  const [columns, dataset] = await Promise.all([datasetColumns(datasetId), useDb().models.Dataset.findByPk(datasetId, { attributes: ['rowCount'] })])
+  const textPositions = columns.filter(c => c.coded).map(c => c.position)
+  const reader = await datasetReader(datasetId)
+  const manager = reader.connectionManager
+  const client = await manager.getConnection({ type: 'read' }) as PoolClient
+  let healthy = false
+  try {
+    const records = await readColumnRecords(client, datasetId, columnPos, textPositions, dataset?.rowCount ?? 0)
+    healthy = true
+    keep(`${datasetId}:${columnPos}`, records ?? 'inexact')
+  }
+  finally {
+    // A COPY cut off half-way leaves the connection mid-protocol: it is closed, not pooled.
+    if (healthy) manager.releaseConnection(client)
+    else await manager.destroyConnection(client).catch(() => {})
+  }
+}
+
+/** The column's records in memory; starts reading them when absent ("verify": waits for them). */
+async function recordsOf(datasetId: string, columnPos: number): Promise<ColumnRecords | null> {
+  const key = `${datasetId}:${columnPos}`
+  const entry = kept.get(key)
+  if (entry) {
+    kept.delete(key)
+    kept.set(key, entry)
+    return entry === 'inexact' ? null : entry
+  }
+  let pending = loading.get(key)
+  if (!pending) {
+    pending = queue = queue.then(() => read(datasetId, columnPos)).catch((error) => {
+      console.warn(`[column scan] ${key} not read: ${(error as Error).message}`)
+    }).finally(() => loading.delete(key))
+    loading.set(key, pending)
+  }
+  if (columnScanMode() !== 'verify') return null
+  await pending
+  const loaded = kept.get(key)
+  return loaded && loaded !== 'inexact' ? loaded : null
+}
+
+/**
+ * A distribution test's counts by group, and the selection's suitability facts, from the column's
+ * records in memory; null when the question has filters or a grouping they cannot answer (a range
+ * on another column, a text column not coded) or the column is not in memory yet.
+ */
+export async function scanDistribution(test: DistributionTest, datasetId: string, columnPos: number, query: DigitQuery, sign: SignFilter) {
+  if (columnScanMode() === 'off') return null
+  const filters = query.codeFilters ?? query.testedRange?.codeFilters
+  if (!filters || (query.group && !query.decoding)) return null
+  const records = await recordsOf(datasetId, columnPos)
+  if (!records) return null
+  const counted = countRecords(records, {
+    test, sign, filters, range: query.testedRange, groupBy: query.decoding?.position ?? null,
+  })
+  if (!counted) return null
+  return { groups: await groupsOf(datasetId, query, counted.cells), profile: counted.profile }
+}
+
+/** The counts by the group text of each code (or the period of its date); one whole without a grouping. */
+async function groupsOf(datasetId: string, query: DigitQuery, cells: { code: number, counts: DistributionCounts }[]): Promise<Grouped<DistributionCounts>> {
+  const decoding = query.decoding
+  if (!decoding) return new Map([[null, mergeGroups(cells.map(c => c.counts))]])
+  const labelOf = new Map<number, string>()
+  if (decoding.periods) {
+    for (const [label, codes] of decoding.periods) for (const code of codes) labelOf.set(code, label)
+  }
+  else {
+    for (const [code, name] of await groupNames(datasetId, decoding)) labelOf.set(Number(code), name)
+  }
+  const byLabel = new Map<string, DistributionCounts[]>()
+  for (const { code, counts } of cells) {
+    const label = labelOf.get(code) ?? ''
+    const list = byLabel.get(label)
+    if (list) list.push(counts)
+    else byLabel.set(label, [counts])
+  }
+  return new Map([...byLabel].map(([label, lists]) => [label, mergeGroups(lists)]))
+}

@@ -1,0 +1,125 @@
+import { describe, expect, it } from 'vitest'
+import { DISTRIBUTIONS, DOT_STYLE, countDistribution, profileOf, recordsOf } from '#shared/digits'
+import type { DigitRecord, DistributionCounts, DistributionTest, SignFilter } from '#shared/digits'
+import { countRecords } from '../../server/services/datasets/column-count'
+import type { CountSpec } from '../../server/services/datasets/column-count'
+import { NO_KEY, largest } from '../../server/services/datasets/column-records'
+import type { ColumnRecords } from '../../server/services/datasets/column-records'
+import { ledger } from '../fixtures/datasets/ledger'
+import type { LedgerEntry } from '../fixtures/datasets/ledger'
+
+// The column scan's counts over records in memory (server/services/datasets/column-count.ts) against the
+// engine's own counting of the same cells (shared/digits/count-records.ts, the path every test on
+// values takes), for the records the fixture itself says each filter keeps.
+const ENTRIES = ledger()
+const RECORDS = recordsOf(ENTRIES.map(e => e.amount), DOT_STYLE)
+const STATUS = { blank: 0, unreadable: 1, zero: 2, number: 3 } as const
+
+/** Codes by first appearance (1, 2, …), as an import's dictionary gives them. */
+function codesOf(values: string[]) {
+  const dictionary = new Map<string, number>()
+  const codes = Int32Array.from(values, v => dictionary.get(v) ?? dictionary.set(v, dictionary.size + 1).get(v)!)
+  return { codes, dictionary }
+}
+const VENDOR = codesOf(ENTRIES.map(e => e.vendor))
+const DEPARTMENT = codesOf(ENTRIES.map(e => e.department))
+const [VENDOR_POS, DEPARTMENT_POS] = [0, 1]
+
+/** The records as PostgreSQL holds them (digit_records), in the arrays the column scan reads. */
+function inMemory(records: DigitRecord[]): ColumnRecords {
+  const n = records.length
+  const key = (k: number | null) => k ?? NO_KEY
+  const held: ColumnRecords = {
+    count: n, status: new Uint8Array(n), sign: new Int8Array(n), value: new Float64Array(n), keys: new Uint8Array(4 * n),
+    firstThree: new Uint16Array(n), integerDigits: new Uint8Array(n), trailingZeros: new Uint8Array(n), fractionDigits: new Uint8Array(n),
+    mantissa: new Float32Array(n), codes: new Map([[VENDOR_POS, VENDOR.codes], [DEPARTMENT_POS, DEPARTMENT.codes]]),
+    largestCode: new Map([[VENDOR_POS, largest(VENDOR.codes)], [DEPARTMENT_POS, largest(DEPARTMENT.codes)]]), bytes: 0,
+  }
+  records.forEach((r, i) => {
+    held.status[i] = STATUS[r.status]
+    held.sign[i] = r.sign
+    held.value[i] = r.value === null ? Number.NaN : Number(r.value)
+    held.keys.set([key(r.firstDigit), key(r.secondDigit), key(r.firstTwo), key(r.lastTwo)], 4 * i)
+    held.firstThree[i] = r.firstThree ?? 0
+    held.integerDigits[i] = r.integerDigits
+    held.trailingZeros[i] = r.trailingZeros
+    held.fractionDigits[i] = r.fractionDigits
+    held.mantissa[i] = r.mantissa ?? Number.NaN
+  })
+  return held
+}
+const HELD = inMemory(RECORDS)
+
+/** An amount's signed cents from the fixture's own meaning, null for blank and unreadable cells. */
+const cents = (e: LedgerEntry) => (e.meaning.kind === 'number' ? e.meaning.sign * e.meaning.cents : e.meaning.kind === 'zero' ? 0 : null)
+
+interface Case {
+  label: string
+  spec: Omit<CountSpec, 'test' | 'sign'>
+  keep: (e: LedgerEntry) => boolean
+  byVendor?: true
+}
+const code = (dictionary: Map<string, number>, ...values: string[]) => values.map(v => dictionary.get(v)!)
+const CASES: Case[] = [
+  { label: 'every record', spec: { filters: [], range: null, groupBy: null }, keep: () => true },
+  {
+    label: 'department one of two, amount at least 100, by vendor',
+    spec: { filters: [{ position: DEPARTMENT_POS, codes: code(DEPARTMENT.dictionary, 'Roads', 'Parks'), negate: false }], range: { min: 100 }, groupBy: VENDOR_POS },
+    keep: e => ['Roads', 'Parks'].includes(e.department) && (cents(e) ?? -Infinity) >= 10_000, byVendor: true,
+  },
+  {
+    label: 'vendor not one of two, department Libraries, amount from -2,000 to 12,000',
+    spec: {
+      filters: [{ position: VENDOR_POS, codes: code(VENDOR.dictionary, 'Alderbank Works', 'Corvid Haulage'), negate: true }, { position: DEPARTMENT_POS, codes: code(DEPARTMENT.dictionary, 'Libraries'), negate: false }],
+      range: { min: -2000, max: 12000 }, groupBy: null,
+    },
+    keep: (e) => {
+      const c = cents(e)
+      return !['Alderbank Works', 'Corvid Haulage'].includes(e.vendor) && e.department === 'Libraries' && c !== null && c >= -200_000 && c <= 1_200_000
+    },
+  },
+  {
+    label: 'amount at most 99.995 (between two cents), by vendor',
+    spec: { filters: [], range: { max: 99.995 }, groupBy: VENDOR_POS },
+    keep: e => cents(e) !== null && cents(e)! <= 9999, byVendor: true,
+  },
+]
+
+/** The engine's counts with key order and the null key as they come, compared as maps. */
+function same(actual: DistributionCounts, expected: DistributionCounts, label: string) {
+  expect(actual.status, label).toEqual(expected.status)
+  const asMap = (c: DistributionCounts) => new Map(c.keys.filter(k => k.count).map(k => [k.key, k.count]))
+  expect(asMap(actual), label).toEqual(asMap(expected))
+  // Both add cos and sin of the same float4 mantissas, in the same order: equal to rounding.
+  expect(actual.arc!.cos, label).toBeCloseTo(expected.arc!.cos, 9)
+  expect(actual.arc!.sin, label).toBeCloseTo(expected.arc!.sin, 9)
+}
+
+describe('counts over a column\'s records in memory equal the engine\'s counts of the same cells', () => {
+  for (const c of CASES) {
+    for (const test of Object.keys(DISTRIBUTIONS) as DistributionTest[]) {
+      for (const sign of ['positive', 'negative'] as SignFilter[]) {
+        it(`${test}, ${sign}, ${c.label}`, () => {
+          const kept = ENTRIES.flatMap((e, i) => (c.keep(e) ? [i] : []))
+          expect(kept.length).toBeGreaterThan(0)
+          const counted = countRecords(HELD, { ...c.spec, test, sign })!
+          const records = kept.map(i => RECORDS[i]!)
+          // The arc of a record is summed from its mantissa as PostgreSQL keeps it (float4).
+          const asStored = records.map(r => ({ ...r, mantissa: r.mantissa === null ? null : Math.fround(r.mantissa) }))
+          const byCode = new Map(counted.cells.map(cell => [cell.code, cell.counts]))
+          if (c.byVendor) {
+            for (const [vendor, vendorCode] of VENDOR.dictionary) {
+              const mine = asStored.filter((_, j) => ENTRIES[kept[j]!]!.vendor === vendor)
+              if (!mine.length) expect(byCode.has(vendorCode)).toBe(false)
+              else same(byCode.get(vendorCode)!, countDistribution(test, mine, sign), `${vendor}`)
+            }
+          }
+          else same(byCode.get(-1)!, countDistribution(test, asStored, sign), 'whole')
+          const { topValue: _, ...profile } = profileOf(records, sign)
+          if (profile.n) expect(counted.profile).toEqual(profile)
+          else expect(counted.profile).toBeNull()
+        })
+      }
+    }
+  }
+})
