@@ -97,6 +97,22 @@ describe('reading a column again', () => {
   })
 })
 
+describe('negatives written one way', () => {
+  it('reads a trailing minus as negative and, told so, leaves a leading minus unreadable', async () => {
+    // shared/digits/types.ts, NumberStyle.negatives: told the one way a column writes negatives, a
+    // number written another way is unreadable. By hand: rows 1 and 3 are negative, row 4 is not read.
+    const id = await uploadCsv(desk.reporter, desk.id, 'payee,amount\nA,1234.50-\nB,12.00\nC,7.25-\nD,-300.10\nE,88.40\n', 'Trailing minus ledger')
+    const before = (await described(id)).columns.find(c => c.name === 'amount')!
+    expect(before).toMatchObject({ negative: 3, unreadable: 0 })
+    const reply = await desk.reporter.post(`/api/datasets/${id}/readings`, { columns: { amount: { negatives: 'trailing-minus' } } })
+    expectStatus(reply, 201)
+    const version = await waitUntilSettled(desk.reporter, reply.body.id) as DatasetDTO
+    expect(version.columns.find(c => c.name === 'amount')).toMatchObject({ negative: 2, unreadable: 1, min: '-1234.5', max: '88.4' })
+    expect((await desk.reporter.get(`/api/datasets/${version.id}/cells?column=amount&status=unreadable`)).body.items).toEqual([{ rowNo: 4, text: '-300.10' }])
+    expect((await desk.reporter.get(`/api/datasets/${version.id}/cells?column=amount&status=negative`)).body.items).toEqual([{ rowNo: 1, text: '1234.50-' }, { rowNo: 3, text: '7.25-' }])
+  })
+})
+
 describe('finding and managing datasets', () => {
   it('searches for a percent sign or an underscore as themselves, not as wildcards', async () => {
     await uploadCsv(desk.reporter, desk.id, 'vendor,amount\nA,1\n', 'Grants up 40% on last year')
