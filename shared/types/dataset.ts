@@ -24,11 +24,9 @@ export interface ColumnDTO {
   dates: DateReadingDTO | null
 }
 
-/** What dataset_columns.ladder keeps of a number column's value ladder (server/services/datasets/value-ladder.ts): its bounds as exact decimal text, the coarse ladder's step, and the text columns counted by coarse rung. */
+/** What dataset_columns.ladder keeps of a number column's value ladder (server/services/datasets/value-ladder.ts): its bounds as exact decimal text. */
 export interface ValueLadder {
   bounds: string[]
-  step: number
-  pairs: number[]
 }
 
 /** How an import read a date column: in which order all-numeric dates were taken, and how many rows gave a date. */

@@ -33,7 +33,7 @@ describe('a value ladder', () => {
   })
 
   it('takes a range\'s whole rungs and the parts it cuts from the rungs beside them', () => {
-    const rungs = rungsOf(BOUNDS, 1)
+    const rungs = rungsOf(BOUNDS)
     // [99.995, 2500]: rung 5 ([100, 2500)) whole; [99.995, 100) below; [2500, 2500] above.
     expect(rangeOnRungs(rungs, { min: 99.995, max: 2500 })).toEqual({ codes: [5], below: { min: 99.995, below: '100' }, above: { from: '2500', max: 2500 } })
     // A bound that is a rung's own bound cuts nothing below it.
@@ -44,8 +44,12 @@ describe('a value ladder', () => {
     expect(rangeOnRungs(rungs, { min: 1, max: 50 })).toBeNull()
   })
 
-  it('groups fine rungs by the step into coarse ones with the bounds of their ends', () => {
-    expect(rungsOf(BOUNDS, 4)).toEqual([{ code: 0, low: null, high: '99.99' }, { code: 1, low: '99.99', high: null }])
+  it('makes one rung more than it has bounds, open below the first and from the last', () => {
+    const rungs = rungsOf(BOUNDS)
+    expect(rungs).toHaveLength(BOUNDS.length + 1)
+    expect(rungs[0]).toEqual({ code: 0, low: null, high: BOUNDS[0] })
+    expect(rungs.at(-1)).toEqual({ code: BOUNDS.length, low: BOUNDS.at(-1), high: null })
+    rungs.slice(1, -1).forEach((r, i) => expect([r.low, r.high]).toEqual([BOUNDS[i], BOUNDS[i + 1]]))
   })
 
   it('cuts a sample at its quantiles, in exact order, without repeating a bound', () => {

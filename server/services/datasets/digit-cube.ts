@@ -2,7 +2,7 @@ import { DISTRIBUTIONS, compareDecimal, toDecimal } from '#shared/digits'
 import type { ColumnProfile as SuitabilityProfile, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
 import type { CopyEncoder } from './copy-encoder'
 import { compareValues } from './sign-profile'
-import { LADDER_COARSE, LADDER_FINE, LADDER_STEP } from './value-ladder'
+import { LADDER_FINE } from './value-ladder'
 import type { LadderBounds } from './value-ladder'
 import type { ValueLadder } from '#shared/types/dataset'
 
@@ -52,12 +52,6 @@ const MAX_PAIR_CELLS = 2500
 const PAIR_CELLS = 4000
 /** Pairs counted per number column at most: each costs a lookup per value. */
 const MAX_PAIRS = 6
-/**
- * The coarse value ladder by one text column (value-ladder.ts) stops being counted past this many
- * cells, and all of them together keep at most LADDER_CELLS (about 9 KB each).
- */
-const MAX_LADDER_PAIR_CELLS = 3600
-const LADDER_CELLS = 4000
 
 /**
  * The pairs of text columns worth counting together, from the first rows: both with few values
@@ -216,11 +210,14 @@ interface Pairing {
   cells: Map<number, Cell>
 }
 
-/** A number column's value ladder: a cell per fine rung, and per coarse rung and code of each text column still counted. */
+/**
+ * A number column's value ladder: a cell per rung. A range beside text filters or a grouping is
+ * counted from the records in memory instead (column-scan.ts): rungs by each text's code, kept here,
+ * made the import's cells several times larger and its counting about a third slower.
+ */
 interface Ladder {
   bounds: LadderBounds
   fine: (Cell | undefined)[]
-  byText: { position: number, cells: Map<number, Cell> }[]
 }
 
 /** Counts for one number column: the whole column, and per code of each text column (and pair of them) still counted. */
@@ -233,7 +230,7 @@ class ColumnCube {
   constructor(textPositions: number[], pairs: [number, number][], bounds: LadderBounds | null) {
     this.groupings = textPositions.map(position => ({ position, cells: [] }))
     this.pairings = pairs.map(([first, second]) => ({ first, second, cells: new Map<number, Cell>() }))
-    this.ladder = bounds && { bounds, fine: [], byText: textPositions.map(position => ({ position, cells: new Map<number, Cell>() })) }
+    this.ladder = bounds && { bounds, fine: [] }
   }
 }
 
@@ -242,7 +239,6 @@ export class DigitCubeCounter {
   private readonly columns: (ColumnCube | undefined)[] = []
   private cells = 0
   private pairCells = 0
-  private ladderCells = 0
   private readonly slots = new Slots()
 
   /** `ladders` holds each number column's ladder bounds by position (none: no ladder). */
@@ -290,37 +286,18 @@ export class DigitCubeCounter {
       }
       cell.add(slots)
     }
-    if (cube.ladder && !Number.isNaN(slots.value)) this.climb(cube.ladder, slots, codes)
+    if (cube.ladder && !Number.isNaN(slots.value)) this.climb(cube.ladder, slots)
   }
 
-  /** Counts a value on its rung of the fine ladder, and on its coarse rung by each text column. */
-  private climb(ladder: Ladder, slots: Slots, codes: Int32Array) {
-    const rung = ladder.bounds.rungOf(slots.value, slots.valueText)
-    ;(ladder.fine[rung] ??= new Cell()).add(slots)
-    const coarse = Math.floor(rung / LADDER_STEP)
-    const byText = ladder.byText
-    for (let t = 0; t < byText.length; t++) {
-      const { position, cells } = byText[t]!
-      const code = codes[position]!
-      const key = coarse * PAIR_KEY + code
-      let cell = cells.get(key)
-      if (!cell) {
-        if (code === 0 || code > MAX_GROUPS || cells.size >= MAX_LADDER_PAIR_CELLS || this.ladderCells >= LADDER_CELLS) {
-          byText.splice(t--, 1)
-          this.ladderCells -= cells.size
-          continue
-        }
-        cells.set(key, cell = new Cell())
-        this.ladderCells++
-      }
-      cell.add(slots)
-    }
+  /** Counts a value on its rung of the ladder. */
+  private climb(ladder: Ladder, slots: Slots) {
+    ;(ladder.fine[ladder.bounds.rungOf(slots.value, slots.valueText)] ??= new Cell()).add(slots)
   }
 
-  /** A number column's ladder as dataset_columns keeps it: bounds, step and the text columns counted by coarse rung. */
+  /** A number column's ladder as dataset_columns keeps it: its bounds. */
   ladderOf(columnPos: number): ValueLadder | null {
     const ladder = this.columns[columnPos]?.ladder
-    return ladder ? { bounds: ladder.bounds.texts, step: LADDER_STEP, pairs: ladder.byText.map(t => t.position) } : null
+    return ladder ? { bounds: ladder.bounds.texts } : null
   }
 
   private drop(cube: ColumnCube, index: number) {
@@ -355,9 +332,6 @@ export class DigitCubeCounter {
       cube.ladder.fine.forEach((cell, rung) => {
         if (cell) writeCell(out, dataset, columnPos, { position: LADDER_FINE, code: rung }, null, cell)
       })
-      for (const { position, cells } of cube.ladder.byText) {
-        for (const [key, cell] of cells) writeCell(out, dataset, columnPos, { position: LADDER_COARSE, code: Math.floor(key / PAIR_KEY) }, { position, code: key % PAIR_KEY }, cell)
-      }
     })
   }
 }

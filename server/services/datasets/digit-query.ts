@@ -3,6 +3,7 @@ import { dayOfIso, periodOf } from '#shared/dates/read-date'
 import type { Period } from '#shared/dates/read-date'
 import type { DatasetFilter } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
+import { dictionaryOf } from './dictionary'
 
 /** A text or date filter on a coded column, turned into the codes it keeps (or, negated, drops). */
 export interface CodeFilter {
@@ -59,11 +60,8 @@ export function codeCondition(expression: string, filter: CodeFilter): string {
 }
 
 async function codesOfValues(datasetId: string, position: number, values: string[]): Promise<number[]> {
-  const rows = await rawSelect<{ code: number }>(
-    'SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position AND value IN (:values)',
-    { datasetId, position, values },
-  )
-  return rows.map(r => r.code)
+  const { codeOf } = await dictionaryOf(datasetId, position)
+  return [...new Set(values)].flatMap(value => (codeOf.has(value) ? [codeOf.get(value)!] : []))
 }
 
 function dateColumn(column: ColumnDTO, path: string): ColumnDTO {
@@ -73,22 +71,17 @@ function dateColumn(column: ColumnDTO, path: string): ColumnDTO {
 }
 
 async function codesOfDays(datasetId: string, position: number, from?: string, to?: string): Promise<number[]> {
-  const rows = await rawSelect<{ code: number }>(
-    `SELECT code FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position AND day IS NOT NULL
-     ${from ? 'AND day >= :from' : ''} ${to ? 'AND day <= :to' : ''}`,
-    { datasetId, position, from: from ? dayOfIso(from) : null, to: to ? dayOfIso(to) : null },
-  )
-  return rows.map(r => r.code)
+  const [low, high] = [from ? dayOfIso(from) : -Infinity, to ? dayOfIso(to) : Infinity]
+  const codes: number[] = []
+  if (low === null || high === null) return codes
+  for (const [code, day] of (await dictionaryOf(datasetId, position)).dayOf) if (day !== null && day >= low && day <= high) codes.push(code)
+  return codes
 }
 
 /** The codes of a date column by the period their day falls in ('' for texts that read as no date). */
 async function periodsOf(datasetId: string, position: number, period: Period): Promise<Map<string, number[]>> {
-  const rows = await rawSelect<{ code: number, day: number | null }>(
-    'SELECT code, day FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
-    { datasetId, position },
-  )
   const periods = new Map<string, number[]>()
-  for (const { code, day } of rows) {
+  for (const [code, day] of (await dictionaryOf(datasetId, position)).dayOf) {
     const label = day === null ? '' : periodOf(day, period)
     const list = periods.get(label)
     if (list) list.push(code)
@@ -223,11 +216,7 @@ export async function groupNames(datasetId: string, decoding: GroupDecoding): Pr
     const labels = [...decoding.periods.keys()].filter(Boolean).sort()
     return new Map([['0', ''], ...labels.map((label, i) => [String(i + 1), label] as [string, string])])
   }
-  const names = await rawSelect<{ code: number, value: string }>(
-    'SELECT code, value FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
-    { datasetId, position: decoding.position },
-  )
-  return new Map(names.map(n => [String(n.code), n.value]))
+  return (await dictionaryOf(datasetId, decoding.position)).valueOf
 }
 
 /** Turns group codes back into the column's text (or period), keeping every group's counts. */

@@ -1,5 +1,6 @@
 import type { DigitQuery } from './digit-query'
 import { rawSelect } from './digit-query'
+import { dictionaryOf } from './dictionary'
 
 /**
  * The most groups a grouped test ranks. Each group is a test of its own, kept in memory and sent
@@ -13,11 +14,8 @@ export const MAX_GROUPS = 10_000
  */
 export async function assertFewGroups(query: DigitQuery, groupBy: string) {
   if (query.decoding !== null) {
-    const [codes] = await rawSelect<{ n: number }>(
-      'SELECT count(*)::int AS n FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
-      { datasetId: query.replacements.datasetId, position: query.decoding.position },
-    )
-    if ((codes?.n ?? 0) <= MAX_GROUPS) return
+    const { dayOf } = await dictionaryOf(query.replacements.datasetId, query.decoding.position)
+    if (dayOf.size <= MAX_GROUPS) return
   }
   const [found] = await rawSelect<{ n: number }>(
     `SELECT count(*)::int AS n FROM (SELECT DISTINCT ${query.group} FROM ${query.from} WHERE ${query.where} LIMIT ${MAX_GROUPS + 1}) AS g`,

@@ -1,53 +1,36 @@
 import type { DistributionCounts, DistributionTest, SignFilter } from '#shared/digits'
 import type { ValueLadder } from '#shared/types/dataset'
-import { groupCells, mergeGroups } from './count-merge'
+import { mergeGroups } from './count-merge'
 import type { Grouped } from './count-merge'
 import { numbersOfSign } from './digit-columns'
 import { cubeFactSlices, cubeSlices, countsFromCube, factsCell, profileFromCells } from './digit-cube'
-import { codeCondition, intArray, rawSelect } from './digit-query'
+import { intArray, rawSelect } from './digit-query'
 import type { DigitQuery } from './digit-query'
-import { LADDER_COARSE, LADDER_FINE, rangeOnRungs, rungsOf } from './value-ladder'
+import { LADDER_FINE, rangeOnRungs, rungsOf } from './value-ladder'
 
-type CellRow = { code: number, status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }
+type CellRow = { status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }
 
 /**
- * A distribution test's counts when its filters are ranges of the tested column beside text and
- * date filters and a grouping on at most one text column: the rungs of the value ladder the range
- * holds whole are added up from the import's cells (by that text column's codes, on the coarse
- * ladder), and only the records in the parts of the rungs it cuts through are counted (`scan`,
- * which also groups and decodes them). Null when the ladder cannot answer.
+ * A distribution test's counts when its only filters are ranges of the tested column and it has no
+ * grouping: the rungs of the value ladder the range holds whole are added up from the import's cells,
+ * and only the records in the parts of the rungs it cuts through are counted (`scan`). Null when the
+ * ladder cannot answer (ranges beside text filters or a grouping are counted in memory, column-scan.ts).
  */
 export async function ladderDistribution(
   test: DistributionTest, datasetId: string, ladder: ValueLadder | null, columnPos: number, query: DigitQuery, sign: SignFilter,
-  scan: (query: DigitQuery) => Promise<Grouped<DistributionCounts>>, part: 'all' | 'counts' | 'facts' = 'all',
+  scan: (query: DigitQuery) => Promise<Grouped<DistributionCounts>>,
 ): Promise<{ groups: Grouped<DistributionCounts>, profile: ReturnType<typeof profileFromCells> } | null> {
   const range = query.testedRange
-  if (!range || !ladder || (query.group && !query.decoding)) return null
-  const texts = new Set([...range.codeFilters.map(f => f.position), ...(query.decoding ? [query.decoding.position] : [])])
-  if (texts.size > 1) return null
-  const [text] = texts
-  if (text !== undefined && !ladder.pairs.includes(text)) return null
-  if (part === 'all' && query.decoding && !range.codeFilters.length) {
-    // Grouped, not filtered by the grouping column: the whole selection's facts come from the fine
-    // ladder, whose cut rungs are four times thinner than the coarse ones the groups are counted on.
-    const whole = { ...query, group: null, groupEquals: null, decoding: null }
-    const [counts, facts] = await Promise.all([
-      ladderDistribution(test, datasetId, ladder, columnPos, query, sign, scan, 'counts'),
-      ladderDistribution(test, datasetId, ladder, columnPos, whole, sign, scan, 'facts'),
-    ])
-    return counts && facts && { groups: counts.groups, profile: facts.profile }
-  }
-  const cut = rangeOnRungs(rungsOf(ladder.bounds, text === undefined ? 1 : ladder.step), range)
+  if (!range || !ladder || query.group || range.codeFilters.length) return null
+  const cut = rangeOnRungs(rungsOf(ladder.bounds), range)
   if (!cut) return null
 
   const slices = cubeSlices(test, sign)
   const facts = cubeFactSlices(sign)
-  const kept = range.codeFilters.map(filter => ` AND ${codeCondition('pair_code', filter)}`).join('')
   const cellRows = rawSelect<CellRow>(
-    `SELECT pair_code AS code, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc,
-       ${part === 'counts' ? 'NULL AS facts, NULL AS ends' : `${facts.facts} AS facts, ${facts.ends} AS ends`}
-     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = ${text === undefined ? LADDER_FINE : LADDER_COARSE}
-       AND pair_pos = ${text ?? -1} AND group_code = ANY(${intArray(cut.codes)})${kept}`,
+    `SELECT ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
+     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = ${LADDER_FINE}
+       AND pair_pos = -1 AND group_code = ANY(${intArray(cut.codes)})`,
     { datasetId, columnPos },
   )
   // The records in the parts of the rungs beside: [min, low) and [high, max], each an index range.
@@ -62,15 +45,10 @@ export async function ladderDistribution(
         replacements: { ...query.replacements, partMin: cut.below?.min, partBelow: cut.below?.below, partFrom: cut.above?.from, partMax: cut.above?.max },
       }
     : null
-  const [rows, edgeGroups, edgeFacts] = await Promise.all([
-    cellRows, edge && part !== 'facts' ? scan(edge) : new Map(), edge && part !== 'counts' ? factsOf(edge, sign) : null,
-  ])
-  const cells = rows.map(row => ({ code: row.code, counts: countsFromCube(test, sign, row) }))
-  const groups = await groupCells(datasetId, query.decoding, cells)
-  for (const [key, counts] of edgeGroups as Grouped<DistributionCounts>) groups.set(key, groups.has(key) ? mergeGroups([groups.get(key)!, counts]) : counts)
-  if (part === 'counts') return { groups, profile: null }
-  const cellFacts = rows.map((row, i) => ({ n: cells[i]!.counts.status[sign], facts: row.facts, ends: row.ends }))
-  return { groups, profile: profileFromCells(edgeFacts ? [...cellFacts, edgeFacts] : cellFacts) }
+  const [rows, edgeGroups, edgeFacts] = await Promise.all([cellRows, edge ? scan(edge) : new Map(), edge ? factsOf(edge, sign) : null])
+  const counts = [...rows.map(row => countsFromCube(test, sign, row)), ...(edgeGroups as Grouped<DistributionCounts>).values()]
+  const cellFacts = rows.map(row => ({ n: countsFromCube(test, sign, row).status[sign], facts: row.facts, ends: row.ends }))
+  return { groups: new Map([[null, mergeGroups(counts)]]), profile: profileFromCells(edgeFacts ? [...cellFacts, edgeFacts] : cellFacts) }
 }
 
 /** The suitability facts of the records a query keeps, of one sign, in a cell's layout (factsCell), in one pass over them. */

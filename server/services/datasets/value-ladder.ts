@@ -14,11 +14,8 @@ import { compareValues } from './sign-profile'
  * are on no rung, as no range keeps them.
  */
 export const LADDER_RUNGS = 64
-/** The coarse ladder, counted by each text column: every STEP rungs of the fine one make one. */
-export const LADDER_STEP = 4
-/** The cube's group_pos of a fine rung's cell, and of a coarse rung's cell by one text column (its pair_pos). */
+/** The cube's group_pos of a rung's cell. */
 export const LADDER_FINE = -2
-export const LADDER_COARSE = -3
 
 export class LadderBounds {
   private readonly numbers: number[]
@@ -59,15 +56,9 @@ export interface Rung {
   high: string | null
 }
 
-/** The rungs of the fine ladder (step 1) or the coarse one. */
-export function rungsOf(bounds: string[], step: number): Rung[] {
-  const rungs: Rung[] = []
-  for (let code = 0; code * step <= bounds.length; code++) {
-    const first = code * step
-    const last = first + step - 1
-    rungs.push({ code, low: first === 0 ? null : bounds[first - 1]!, high: last >= bounds.length ? null : bounds[last]! })
-  }
-  return rungs
+/** The rungs of a ladder with these bounds. */
+export function rungsOf(bounds: string[]): Rung[] {
+  return Array.from({ length: bounds.length + 1 }, (_, code) => ({ code, low: code === 0 ? null : bounds[code - 1]!, high: code >= bounds.length ? null : bounds[code]! }))
 }
 
 /**
