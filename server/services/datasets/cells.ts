@@ -6,6 +6,7 @@ import type { Dataset } from '../../models'
 import { datasetColumns } from './catalog'
 import { numbersOfSign, STATUS_CODES } from './digit-columns'
 import { columnByName, rawSelect } from './digit-query'
+import { dictionaryOf } from './dictionary'
 import { codedText } from './group-codes'
 
 export const RAGGED_PAGE_SIZE = 50
@@ -43,7 +44,7 @@ const UNREAD_TEXTS_KEPT = 64
 /**
  * The texts, as the file wrote them, of a date column's cells that its import read as no date. The
  * import coded each cell by its trimmed text, or a timestamp by its day (codedText), and kept whether
- * that text names a day (dataset_group_values.day): every distinct text of the column is coded again
+ * that text names a day (the column's dictionary): every distinct text of the column is coded again
  * here, a window of rows at a time, and kept when its code named none.
  */
 function unreadDateTexts(dataset: Dataset, column: ColumnDTO): Promise<string[]> {
@@ -60,8 +61,8 @@ function unreadDateTexts(dataset: Dataset, column: ColumnDTO): Promise<string[]>
 
 async function findUnreadDateTexts(dataset: Dataset, column: ColumnDTO): Promise<string[]> {
   const datasetId = dataset.id
-  const unread = new Set((await rawSelect<{ value: string }>(`SELECT value FROM dataset_group_values
-    WHERE dataset_id = :datasetId AND column_pos = :position AND day IS NULL AND value <> ''`, { datasetId, position: column.position })).map(row => row.value))
+  const { codeOf, dayOf } = await dictionaryOf(datasetId, column.position)
+  const unread = new Set([...codeOf].flatMap(([value, code]) => (value && dayOf.get(code) === null ? [value] : [])))
   const texts = new Set<string>()
   if (!unread.size) return []
   const timed = column.dates?.timed !== undefined
