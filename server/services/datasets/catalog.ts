@@ -1,3 +1,4 @@
+import { LRUCache } from 'lru-cache'
 import { createHash } from 'node:crypto'
 import type { Readable } from 'node:stream'
 import { Op } from 'sequelize'
@@ -49,9 +50,16 @@ export async function findDataset(id: string): Promise<Dataset> {
 }
 
 /** The dataset's columns, in file order. */
+/** A ready dataset's columns never change (they are written with its "ready"): each server keeps the latest few hundred. */
+const keptColumns = new LRUCache<string, ColumnDTO[]>({ max: 500 })
+
 export async function datasetColumns(datasetId: string): Promise<ColumnDTO[]> {
+  const hit = keptColumns.get(datasetId)
+  if (hit) return hit
   const rows = await useDb().models.DatasetColumn.findAll({ where: { datasetId }, order: [['position', 'ASC']] })
-  return rows.map(columnDTO)
+  const columns = rows.map(columnDTO)
+  if (columns.length) keptColumns.set(datasetId, columns)
+  return columns
 }
 
 export async function describeDataset(dataset: Dataset): Promise<DatasetDTO> {

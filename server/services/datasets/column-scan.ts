@@ -1,4 +1,5 @@
 import type { DistributionCounts, DistributionTest, SignFilter } from '#shared/digits'
+import { LRUCache } from 'lru-cache'
 import type { PoolClient } from 'pg'
 import { datasetColumns } from './catalog'
 import { groupNames } from './digit-query'
@@ -11,19 +12,19 @@ import type { ColumnRecords } from './column-records'
 
 /**
  * Distribution tests whose filters and grouping no cell of the import holds (two text columns and a
- * range, say) are counted over the column's records held in memory (column-records.ts), with the
- * very counting the import's cells use (digit-cube.ts): the answers are those of a count in SQL.
- * A column is read in the background the first time a question needs it, while SQL answers; later
- * questions read memory. Columns are kept up to a memory budget, least recently used first out.
+ * range, say) are counted over the column's records held in memory (column-records.ts), in one pass
+ * that counts what SQL's GROUP BY would (column-count.ts). The first question that needs a column
+ * starts reading it and waits a few seconds for it; if the read takes longer, SQL answers until it is
+ * in. Columns are kept up to a memory budget, least recently used first out.
  *
  * Mode (runtime config columnScan.mode): "on"; "off" (SQL only); "verify", for the tests: the column
  * is read at once and every answer from memory is checked against SQL's (digit-tests.ts).
  */
-type Entry = ColumnRecords | 'inexact'
+/** A column's records, or 'sql' for a column they cannot answer for (inexact values, larger than the budget). */
+type Entry = ColumnRecords | 'sql'
 
-const kept = new Map<string, Entry>()
+let kept: LRUCache<string, Entry> | null = null
 const loading = new Map<string, Promise<void>>()
-let keptBytes = 0
 /** Reads one at a time: a second core stays free for the questions themselves. */
 let queue: Promise<void> = Promise.resolve()
 
@@ -32,21 +33,13 @@ export function columnScanMode(): 'on' | 'off' | 'verify' {
   return mode === 'off' || mode === 'verify' ? mode : 'on'
 }
 
-function budgetBytes() {
-  return Number(useRuntimeConfig().columnScan?.budgetMb ?? 512) * 1024 * 1024
-}
-
-function keep(key: string, entry: Entry) {
-  const bytes = entry === 'inexact' ? 0 : entry.bytes
-  if (bytes > budgetBytes()) return
-  kept.set(key, entry)
-  keptBytes += bytes
-  // Least recently used first out (a Map iterates in insertion order; a hit re-inserts).
-  for (const [oldKey, old] of kept) {
-    if (keptBytes <= budgetBytes()) break
-    kept.delete(oldKey)
-    keptBytes -= old === 'inexact' ? 0 : old.bytes
-  }
+/** The columns kept, least recently used first out past the budget (a column larger than it is not kept). */
+function keptColumns() {
+  kept ??= new LRUCache<string, Entry>({
+    maxSize: Number(useRuntimeConfig().columnScan?.budgetMb ?? 512) * 1024 * 1024,
+    sizeCalculation: entry => (entry === 'sql' ? 1 : Math.max(1, entry.bytes)),
+  })
+  return kept
 }
 
 async function read(datasetId: string, columnPos: number) {
@@ -59,7 +52,8 @@ async function read(datasetId: string, columnPos: number) {
   try {
     const records = await readColumnRecords(client, datasetId, columnPos, textPositions, dataset?.rowCount ?? 0)
     healthy = true
-    keep(`${datasetId}:${columnPos}`, records ?? 'inexact')
+    const fits = records && records.bytes <= keptColumns().maxSize
+    keptColumns().set(`${datasetId}:${columnPos}`, fits ? records : 'sql')
   }
   finally {
     // A COPY cut off half-way leaves the connection mid-protocol: it is closed, not pooled.
@@ -68,15 +62,14 @@ async function read(datasetId: string, columnPos: number) {
   }
 }
 
-/** The column's records in memory; starts reading them when absent ("verify": waits for them). */
+/** How long a question waits for its column to be read (a million rows take a second or two) before SQL counts it. */
+const WAIT_FOR_READ_MS = 5000
+
+/** The column's records in memory; starts reading them when absent, and waits a while for them ("verify": until read). */
 async function recordsOf(datasetId: string, columnPos: number): Promise<ColumnRecords | null> {
   const key = `${datasetId}:${columnPos}`
-  const entry = kept.get(key)
-  if (entry) {
-    kept.delete(key)
-    kept.set(key, entry)
-    return entry === 'inexact' ? null : entry
-  }
+  const entry = keptColumns().get(key)
+  if (entry) return entry === 'sql' ? null : entry
   let pending = loading.get(key)
   if (!pending) {
     pending = queue = queue.then(() => read(datasetId, columnPos)).catch((error) => {
@@ -84,10 +77,12 @@ async function recordsOf(datasetId: string, columnPos: number): Promise<ColumnRe
     }).finally(() => loading.delete(key))
     loading.set(key, pending)
   }
-  if (columnScanMode() !== 'verify') return null
-  await pending
-  const loaded = kept.get(key)
-  return loaded && loaded !== 'inexact' ? loaded : null
+  // A question waits a while for the column rather than scan it in SQL beside the read: fifty
+  // people asking at once would otherwise start fifty scans, and the read would wait behind them.
+  if (columnScanMode() === 'verify') await pending
+  else await Promise.race([pending, new Promise(resolve => setTimeout(resolve, WAIT_FOR_READ_MS).unref())])
+  const loaded = keptColumns().get(key)
+  return loaded && loaded !== 'sql' ? loaded : null
 }
 
 /**

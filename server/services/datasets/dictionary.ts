@@ -1,3 +1,4 @@
+import { LRUCache } from 'lru-cache'
 import { QueryTypes } from 'sequelize'
 
 /**
@@ -15,18 +16,12 @@ export interface Dictionary {
   dayOf: Map<number, number | null>
 }
 
-const KEPT_ENTRIES = 1_000_000
-const kept = new Map<string, Dictionary>()
-let keptEntries = 0
+const kept = new LRUCache<string, Dictionary>({ maxSize: 1_000_000, sizeCalculation: d => Math.max(1, d.dayOf.size) })
 
 export async function dictionaryOf(datasetId: string, position: number): Promise<Dictionary> {
   const key = `${datasetId}:${position}`
   const hit = kept.get(key)
-  if (hit) {
-    kept.delete(key)
-    kept.set(key, hit)
-    return hit
-  }
+  if (hit) return hit
   const reader = await datasetReader(datasetId)
   const rows = await reader.query<{ code: number, value: string, day: number | null }>(
     'SELECT code, value, day FROM dataset_group_values WHERE dataset_id = :datasetId AND column_pos = :position',
@@ -39,11 +34,5 @@ export async function dictionaryOf(datasetId: string, position: number): Promise
     dictionary.dayOf.set(code, day)
   }
   kept.set(key, dictionary)
-  keptEntries += rows.length
-  for (const [oldKey, old] of kept) {
-    if (keptEntries <= KEPT_ENTRIES || oldKey === key) break
-    kept.delete(oldKey)
-    keptEntries -= old.dayOf.size
-  }
   return dictionary
 }

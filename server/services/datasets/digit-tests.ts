@@ -1,3 +1,4 @@
+import { LRUCache } from 'lru-cache'
 import { assertFewGroups } from './group-cap'
 import { byDistribution, DISTRIBUTIONS, isGroupable, MINIMUM_VALUES, RULES, compareDecimal, runDigitTest, thresholdBand, decimalToText, toDecimal } from '#shared/digits'
 import type {
@@ -6,7 +7,7 @@ import type {
 } from '#shared/digits'
 import type { DigitTestRequestBody } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
-import type { Dataset } from '../../models'
+import type { Dataset, DatasetColumn } from '../../models'
 import { datasetColumns } from './catalog'
 import { cubeFactSlices, cubeKeyIndex, cubeSlices, countsFromCube, profileFromCells } from './digit-cube'
 import { FIELD_COLUMNS, numbersOfSign as ofSign, signCode, STATUS_CODES, statusCountOf } from './digit-columns'
@@ -95,9 +96,16 @@ async function thresholdCounts(query: DigitQuery, sign: SignFilter, limit: numbe
 }
 
 /** What an import stored about the tested column: its suitability facts and which digit counts it kept. */
-export function storedColumn(datasetId: string, position: number) {
-  return useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'cubePairs', 'repeats', 'ladder'] })
+export async function storedColumn(datasetId: string, position: number) {
+  const key = `${datasetId}:${position}`
+  const hit = keptStored.get(key)
+  if (hit) return hit
+  const stored = await useDb().models.DatasetColumn.findOne({ where: { datasetId, position }, attributes: ['profiles', 'cubeGroups', 'cubePairs', 'repeats', 'ladder'] })
+  // Kept once the work after the import has written its repeated values: nothing changes after that.
+  if (stored?.repeats) keptStored.set(key, stored)
+  return stored
 }
+const keptStored = new LRUCache<string, DatasetColumn>({ max: 2000 })
 
 /**
  * The column facts the suitability check reads (ColumnProfile in the engine): stored at import
