@@ -1,3 +1,4 @@
+import { LRUCache } from 'lru-cache'
 import { Readable } from 'node:stream'
 import { toCsv } from '#shared/export/csv'
 import type { CellListQuery, RangedTest } from '#shared/schemas/dataset'
@@ -37,9 +38,8 @@ function readyOrConflict(dataset: Dataset) {
   if (dataset.status !== 'ready') throw fail(409, { message: 'This dataset is not ready yet: wait for its import to finish.' })
 }
 
-/** A dataset never changes once ready, so the texts its date columns could not read are found once per server. */
-const unreadTextsFound = new Map<string, Promise<string[]>>()
-const UNREAD_TEXTS_KEPT = 64
+/** A dataset never changes once ready, so the texts its date columns could not read are found once per server (as many texts as a dictionary holds). */
+const unreadTextsKept = new LRUCache<string, string[]>({ maxSize: 1_000_000, sizeCalculation: texts => Math.max(1, texts.length) })
 
 /**
  * The texts, as the file wrote them, of a date column's cells that its import read as no date. The
@@ -47,16 +47,13 @@ const UNREAD_TEXTS_KEPT = 64
  * that text names a day (the column's dictionary): every distinct text of the column is coded again
  * here, a window of rows at a time, and kept when its code named none.
  */
-function unreadDateTexts(dataset: Dataset, column: ColumnDTO): Promise<string[]> {
+async function unreadDateTexts(dataset: Dataset, column: ColumnDTO): Promise<string[]> {
   const key = `${dataset.id}:${column.position}`
-  let found = unreadTextsFound.get(key)
-  if (!found) {
-    found = findUnreadDateTexts(dataset, column)
-    found.catch(() => unreadTextsFound.delete(key))
-    if (unreadTextsFound.size >= UNREAD_TEXTS_KEPT) unreadTextsFound.delete(unreadTextsFound.keys().next().value!)
-    unreadTextsFound.set(key, found)
-  }
-  return found
+  const hit = unreadTextsKept.get(key)
+  if (hit) return hit
+  const texts = await findUnreadDateTexts(dataset, column)
+  unreadTextsKept.set(key, texts)
+  return texts
 }
 
 async function findUnreadDateTexts(dataset: Dataset, column: ColumnDTO): Promise<string[]> {
