@@ -53,6 +53,9 @@ const HELD = inMemory(RECORDS)
 /** An amount's signed cents from the fixture's own meaning, null for blank and unreadable cells. */
 const cents = (e: LedgerEntry) => (e.meaning.kind === 'number' ? e.meaning.sign * e.meaning.cents : e.meaning.kind === 'zero' ? 0 : null)
 
+/** A stored amount, so that `below` falls exactly on a value the column holds (which it must leave out). */
+const FIRST_FROM_5000 = Math.min(...ENTRIES.flatMap(e => (e.meaning.kind === 'number' && e.meaning.sign > 0 && e.meaning.cents >= 500_000 ? [e.meaning.cents] : [])))
+
 interface Case {
   label: string
   spec: Omit<CountSpec, 'test' | 'sign'>
@@ -77,6 +80,12 @@ const CASES: Case[] = [
       const c = cents(e)
       return !['Alderbank Works', 'Corvid Haulage'].includes(e.vendor) && e.department === 'Libraries' && c !== null && c >= -200_000 && c <= 1_200_000
     },
+  },
+  {
+    // The value ladder counts the part of a rung a range cuts through as [min, the rung's bound).
+    label: 'amount from 100 to under the first positive amount of 5,000 or more',
+    spec: { filters: [], range: { min: 100, below: FIRST_FROM_5000 / 100 }, groupBy: null },
+    keep: e => cents(e) !== null && cents(e)! >= 10_000 && cents(e)! < FIRST_FROM_5000,
   },
   {
     label: 'amount at most 99.995 (between two cents), by vendor',

@@ -9,11 +9,13 @@ export interface CountSpec {
   test: DistributionTest
   sign: SignFilter
   filters: CodeFilter[]
-  /** A range of the tested column's values, both ends inclusive, either open. */
-  range: { min?: number, max?: number } | null
+  /** A range of the tested column's values, both ends inclusive, either open (`below`: less than it). */
+  range: ValueRange | null
   /** The coded column whose codes make the groups; null for one whole. */
   groupBy: number | null
 }
+
+export interface ValueRange { min?: number, max?: number, below?: number }
 
 /** Where a test's key sits among a record's keys (column-records.ts), or -1 for the first three digits. */
 const KEY_AT: Record<DistributionTest, number> = { 'first-digit': 0, 'second-digit': 1, 'first-two-digits': 2, 'last-two-digits': 3, 'first-three-digits': -1 }
@@ -49,21 +51,22 @@ function keptBy(codes: Int32Array, filter: CodeFilter, count: number, from: Uint
   return out.subarray(0, n)
 }
 
-function keptByRange(value: Float64Array, range: { min?: number, max?: number }, count: number, from: Uint32Array | null): Uint32Array {
+function keptByRange(value: Float64Array, range: ValueRange, count: number, from: Uint32Array | null): Uint32Array {
   const min = range.min ?? -Infinity
   const max = range.max ?? Infinity
+  const below = range.below ?? Infinity
   const out = new Uint32Array(from ? from.length : count)
   let n = 0
   if (from) {
     for (let j = 0; j < from.length; j++) {
       const v = value[from[j]!]!
-      if (v >= min && v <= max) out[n++] = from[j]!
+      if (v >= min && v <= max && v < below) out[n++] = from[j]!
     }
   }
   else {
     for (let i = 0; i < count; i++) {
       const v = value[i]!
-      if (v >= min && v <= max) out[n++] = i
+      if (v >= min && v <= max && v < below) out[n++] = i
     }
   }
   return out.subarray(0, n)
@@ -166,7 +169,10 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
   const profile: Omit<ColumnProfile, 'topValue'> | null = n
     ? { n, min: String(low), max: String(high), atMin: atLow, atMax: atHigh, whole, roundHundreds: round, commonLength: Math.max(...lengths) }
     : null
-  return { cells, profile }
+  // The counts by number of integer digits, for joining these facts to cells' (factsCell in digit-cube.ts).
+  const byLength = new Map<number, number>()
+  lengths.forEach((count, length) => count && byLength.set(length, count))
+  return { cells, profile, lengths: byLength }
 }
 
 /** One group's counts in the engine's shape, as SQL's GROUP BY gives them (a null key for values the test has none for). */

@@ -62,6 +62,19 @@ async function read(datasetId: string, columnPos: number) {
   }
 }
 
+/** The read of a column, started unless one is under way; reads queue one after another. */
+function startReading(datasetId: string, columnPos: number): Promise<void> {
+  const key = `${datasetId}:${columnPos}`
+  let pending = loading.get(key)
+  if (!pending) {
+    pending = queue = queue.then(() => read(datasetId, columnPos)).catch((error) => {
+      console.warn(`[column scan] ${key} not read: ${(error as Error).message}`)
+    }).finally(() => loading.delete(key))
+    loading.set(key, pending)
+  }
+  return pending
+}
+
 /** How long a question waits for its column to be read (a million rows take a second or two) before SQL counts it. */
 const WAIT_FOR_READ_MS = 5000
 
@@ -70,19 +83,23 @@ async function recordsOf(datasetId: string, columnPos: number): Promise<ColumnRe
   const key = `${datasetId}:${columnPos}`
   const entry = keptColumns().get(key)
   if (entry) return entry === 'sql' ? null : entry
-  let pending = loading.get(key)
-  if (!pending) {
-    pending = queue = queue.then(() => read(datasetId, columnPos)).catch((error) => {
-      console.warn(`[column scan] ${key} not read: ${(error as Error).message}`)
-    }).finally(() => loading.delete(key))
-    loading.set(key, pending)
-  }
+  const pending = startReading(datasetId, columnPos)
   // A question waits a while for the column rather than scan it in SQL beside the read: fifty
   // people asking at once would otherwise start fifty scans, and the read would wait behind them.
   if (columnScanMode() === 'verify') await pending
   else await Promise.race([pending, new Promise(resolve => setTimeout(resolve, WAIT_FOR_READ_MS).unref())])
   const loaded = keptColumns().get(key)
   return loaded && loaded !== 'sql' ? loaded : null
+}
+
+/** The column's records when they are in memory, without waiting (a read starts when they are not; "verify": waits). */
+export async function recordsInMemory(datasetId: string, columnPos: number): Promise<ColumnRecords | null> {
+  if (columnScanMode() === 'off') return null
+  const entry = keptColumns().get(`${datasetId}:${columnPos}`)
+  if (entry) return entry === 'sql' ? null : entry
+  if (columnScanMode() === 'verify') return recordsOf(datasetId, columnPos)
+  void startReading(datasetId, columnPos)
+  return null
 }
 
 /**

@@ -181,6 +181,7 @@ async function cubeDistribution(test: DistributionTest, datasetId: string, store
 async function cellsOf(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter, scan = (q: DigitQuery) => statusAndDistribution(test, q, sign, Boolean(q.group)).then(g => decodeGroups(q, g))) {
   const cells = await cubeDistribution(test, datasetId, stored, columnPos, query, sign)
     ?? await ladderDistribution(test, datasetId, stored?.ladder ?? null, columnPos, query, sign, scan)
+  if (cells && 'edgesInMemory' in cells && cells.edgesInMemory && columnScanMode() === 'verify') await verifyInMemory(cells, query, sign, scan)
   if (cells) return { ...cells, countedFrom: 'import counts' as const }
   const memory = await inMemory(test, datasetId, columnPos, query, sign, scan)
   return memory && { ...memory, countedFrom: 'records in memory' as const }
@@ -192,8 +193,13 @@ export type CountedFrom = 'import counts' | 'records in memory' | 'records in SQ
 /** The counts from the column's records in memory (column-scan.ts); in "verify" mode checked against SQL's. */
 async function inMemory(test: DistributionTest, datasetId: string, columnPos: number, query: DigitQuery, sign: SignFilter, scan: (q: DigitQuery) => Promise<Grouped<DistributionCounts>>) {
   const answer = await scanDistribution(test, datasetId, columnPos, query, sign)
-  if (answer && columnScanMode() === 'verify') assertSameCounts(answer, { groups: await scan(query), profile: await profileCounts(query, sign) })
+  if (answer && columnScanMode() === 'verify') await verifyInMemory(answer, query, sign, scan)
   return answer
+}
+
+/** "verify" mode: an answer counted (in part) in memory is checked against SQL's count of the same records. */
+async function verifyInMemory(answer: Parameters<typeof assertSameCounts>[0], query: DigitQuery, sign: SignFilter, scan: (q: DigitQuery) => Promise<Grouped<DistributionCounts>>) {
+  assertSameCounts(answer, { groups: await scan(query), profile: await profileCounts(query, sign) })
 }
 
 /**

@@ -6,6 +6,8 @@ import { numbersOfSign } from './digit-columns'
 import { cubeFactSlices, cubeSlices, countsFromCube, factsCell, profileFromCells } from './digit-cube'
 import { intArray, rawSelect } from './digit-query'
 import type { DigitQuery } from './digit-query'
+import { countRecords } from './column-count'
+import { recordsInMemory } from './column-scan'
 import { LADDER_FINE, rangeOnRungs, rungsOf } from './value-ladder'
 
 type CellRow = { status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }
@@ -19,7 +21,7 @@ type CellRow = { status: number[], keys: number[], arc: number[], facts: number[
 export async function ladderDistribution(
   test: DistributionTest, datasetId: string, ladder: ValueLadder | null, columnPos: number, query: DigitQuery, sign: SignFilter,
   scan: (query: DigitQuery) => Promise<Grouped<DistributionCounts>>,
-): Promise<{ groups: Grouped<DistributionCounts>, profile: ReturnType<typeof profileFromCells> } | null> {
+): Promise<{ groups: Grouped<DistributionCounts>, profile: ReturnType<typeof profileFromCells>, edgesInMemory: boolean } | null> {
   const range = query.testedRange
   if (!range || !ladder || query.group || range.codeFilters.length) return null
   const cut = rangeOnRungs(rungsOf(ladder.bounds), range)
@@ -45,10 +47,22 @@ export async function ladderDistribution(
         replacements: { ...query.replacements, partMin: cut.below?.min, partBelow: cut.below?.below, partFrom: cut.above?.from, partMax: cut.above?.max },
       }
     : null
-  const [rows, edgeGroups, edgeFacts] = await Promise.all([cellRows, edge ? scan(edge) : new Map(), edge ? factsOf(edge, sign) : null])
-  const counts = [...rows.map(row => countsFromCube(test, sign, row)), ...(edgeGroups as Grouped<DistributionCounts>).values()]
+  // The parts' records are counted in memory when the column is there (column-scan.ts), else by SQL.
+  const records = edge ? await recordsInMemory(datasetId, columnPos) : null
+  const inMemory = records && [
+    cut.below && { min: cut.below.min, below: Number(cut.below.below) },
+    cut.above && { min: Number(cut.above.from), max: cut.above.max },
+  ].flatMap(range => (range ? [countRecords(records, { test, sign, filters: [], range, groupBy: null })!] : []))
+  const [rows, edgeCounts, edgeFacts] = await Promise.all([
+    cellRows,
+    inMemory ? inMemory.flatMap(part => part.cells.map(c => c.counts)) : edge ? scan(edge).then(groups => [...groups.values()]) : [],
+    inMemory
+      ? inMemory.flatMap(({ profile, lengths }) => (profile ? [factsCell({ ...profile, round: profile.roundHundreds, lengths })] : []))
+      : edge ? factsOf(edge, sign).then(facts => [facts]) : [],
+  ])
+  const counts = [...rows.map(row => countsFromCube(test, sign, row)), ...edgeCounts]
   const cellFacts = rows.map(row => ({ n: countsFromCube(test, sign, row).status[sign], facts: row.facts, ends: row.ends }))
-  return { groups: new Map([[null, mergeGroups(counts)]]), profile: profileFromCells(edgeFacts ? [...cellFacts, edgeFacts] : cellFacts) }
+  return { groups: new Map([[null, mergeGroups(counts)]]), profile: profileFromCells([...cellFacts, ...edgeFacts]), edgesInMemory: Boolean(inMemory) }
 }
 
 /** The suitability facts of the records a query keeps, of one sign, in a cell's layout (factsCell), in one pass over them. */
