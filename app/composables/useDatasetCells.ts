@@ -13,16 +13,13 @@ export interface CellChoice {
  * so that Back and reload come back to the same list; `fallback` is shown while the address names none.
  */
 export function useDatasetCells(id: Ref<string>, fallback: Ref<CellChoice | null>) {
-  const route = useRoute()
-  const router = useRouter()
-  const text = (name: string) => (typeof route.query[name] === 'string' ? route.query[name] as string : undefined)
+  const { text, setQuery, page, pageText } = useAddressQuery()
   const choice = computed<CellChoice | null>(() => {
     const column = text('column') ?? fallback.value?.column
     const status = (text('status') as CellStatusAsked | undefined) ?? fallback.value?.status
     if (!column || !status) return null
     return { column, status, test: status === 'outside' ? (text('test') as RangedTest | undefined) ?? 'first-two-digits' : undefined }
   })
-  const page = computed(() => Math.max(1, Number(text('page')) || 1))
   const requestFetch = useRequestFetch()
   const { data, error, status } = useAsyncData(
     () => `cells-${id.value}-${JSON.stringify(choice.value)}-${page.value}`,
@@ -31,9 +28,7 @@ export function useDatasetCells(id: Ref<string>, fallback: Ref<CellChoice | null
       : Promise.resolve(null)),
     { watch: [choice, page] },
   )
-  const show = (changes: Partial<CellChoice> & { page?: number }) => router.replace({
-    query: { ...route.query, ...changes, page: changes.page && changes.page > 1 ? String(changes.page) : undefined },
-  })
+  const show = ({ page: next, ...changes }: Partial<CellChoice> & { page?: number }) => setQuery({ ...changes, page: pageText(next ?? 1) })
   const downloadHref = computed(() => (choice.value
     ? `/api/datasets/${id.value}/cells?${new URLSearchParams({ column: choice.value.column, status: choice.value.status, ...(choice.value.test ? { test: choice.value.test } : {}), format: 'csv' })}`
     : null))

@@ -2,7 +2,7 @@ import type { Browser, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl } from '../support/api'
 import { launchBrowser, screenshot, signInThroughPage, waitForApp, watchCspViolations } from '../support/browser'
-import { uploadCsv } from '../support/datasets'
+import { upload, uploadCsv } from '../support/datasets'
 import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
 import { QUAY_LEDGER } from '../fixtures/datasets/quay-ledger'
@@ -83,6 +83,40 @@ describe.each([1366, 390])('cells, ragged rows and readings at %i px', (width) =
     await waitForApp(page)
     await screenshot(page, `dataset-reading-2-${width}`)
     expect(await violations()).toEqual([])
+    await page.close()
+  })
+
+  it('lists a date column\'s cells that name no date from the profile, and a JSON file\'s records with keys past its columns', async () => {
+    // By hand: 30/02/2026 (February has no 30th) and "TBC" name no date; the rest are days, day first.
+    const csv = 'supplier,amount,paid on\nNorthgate Paving,1840.00,14/02/2026\nQuay Lighting,93.19,30/02/2026\nWillow Drains,1337.69,TBC\nAlder Fencing,412.30,21/03/2026\nHarbour Cranes,2210.00,02/04/2026\n'
+    const id = await uploadCsv(desk.reporter, desk.id, csv, `Dated ledger at ${width}`)
+    const page = await browser.newPage({ viewport: { width, height: 900 } })
+    page.setDefaultTimeout(15_000)
+    await signInThroughPage(page, desk.emails.reporter, PASSWORD)
+    await page.waitForURL(url => !url.pathname.startsWith('/login'))
+    await page.goto(`${baseUrl}/datasets/${id}`)
+    await waitForApp(page)
+    await page.getByRole('link', { name: /^2 naming no date in paid on/ }).click()
+    await page.waitForURL(/\/cells\?column=paid\+on&status=unreadable|\/cells\?column=paid%20on&status=unreadable/)
+    await expect.poll(() => page.getByRole('heading', { level: 2 }).textContent()).toBe('2 cells that name no date in “paid on”')
+    expect(await listedCells(page)).toEqual([['2', '30/02/2026'], ['3', 'TBC']])
+    expect(await page.getByLabel('Cells', { exact: true }).locator('option').allTextContents()).toEqual(['Blank', 'Naming no date'])
+    expect(await pageWidth(page)).toBeLessThanOrEqual(width)
+    await screenshot(page, `dataset-cells-dates-${width}`)
+
+    // Records 1,001 and 1,002 have keys that the first 1,000 (the columns) have not.
+    const records = Array.from({ length: 1002 }, (_, i) => ({ vendor: `Vendor ${i % 9}`, amount: (i + 1) * 3.5, ...(i === 1000 ? { note: 'paid twice' } : {}), ...(i === 1001 ? { approver: 'K. Osei' } : {}) }))
+    const reply = await upload(desk.reporter, 'late-keys.json', new TextEncoder().encode(JSON.stringify(records)), { title: `Late keys at ${width}` }, `?newsroomId=${desk.id}`)
+    expect(reply.status).toBe(201)
+    await page.goto(`${baseUrl}/datasets/${reply.body.id}`)
+    await waitForApp(page)
+    await expect.poll(() => page.getByText('2 records had keys not among the columns').count()).toBe(1)
+    await page.getByRole('link', { name: 'list them' }).click()
+    await page.waitForURL(/\/ragged/)
+    await expect.poll(() => page.getByRole('heading', { level: 2 }).textContent()).toBe('2 records have keys that are not among the 2 columns')
+    expect(await listedCells(page)).toEqual([['1,001', '(1) note: paid twice'], ['1,002', '(1) approver: K. Osei']])
+    expect(await pageWidth(page)).toBeLessThanOrEqual(width)
+    await screenshot(page, `dataset-json-keys-${width}`)
     await page.close()
   })
 })

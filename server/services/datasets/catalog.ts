@@ -96,6 +96,9 @@ export async function restoreDataset(actor: Actor, dataset: Dataset) {
  */
 export async function originalBytes(dataset: Dataset): Promise<Readable> {
   const files = useFileStore()
+  if (!await files.exists(dataset.storageKey)) {
+    throw fail(500, { message: 'The stored file of this dataset is missing, so it cannot be handed out. Tell your admin: the file storage may have lost it.' })
+  }
   const hash = createHash('sha256')
   for await (const chunk of await files.open(dataset.storageKey, 0)) hash.update(chunk as Buffer)
   if (hash.digest('hex') !== dataset.sha256) {

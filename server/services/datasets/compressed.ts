@@ -89,7 +89,7 @@ export function inflatedOpener(open: RangeOpener, size: number, compression: Com
         zip.close()
         throw inflatesTooFar(limit)
       }
-      table = (await inflate(zip, found, counter)).on('close', () => zip.close())
+      table = (await inflate(zip, found, counter, DAMAGED_ZIP)).on('close', () => zip.close())
     }
     if (!start) return table
     const skipped = skipping(start)

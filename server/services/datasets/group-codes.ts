@@ -24,6 +24,16 @@ const DATE_SHARE = 0.8
 export const MAX_CODED_LENGTH = 500
 
 /**
+ * The text a cell of a coded column is coded by: the cell trimmed, or in a column of timestamps
+ * (`timed`) the date it names when it has a time of day. The cells list finds a date column's
+ * unreadable cells by it (cells.ts), so it must stay the one rule.
+ */
+export function codedText(cell: string, timed: boolean): string {
+  const text = cell.trim()
+  return timed ? dayPart(text) ?? text : text
+}
+
+/**
  * Gives each distinct (trimmed) text of a column a small integer (a column of timestamps: each date), so digit records can carry
  * their row's text columns as codes. A column with too many distinct values, or one too long, stops being coded.
  */
@@ -57,13 +67,12 @@ export class GroupCodes {
     this.row = new Int32Array(textPositions.length)
   }
 
-  /** The text a cell is coded by: itself, or for a column of timestamps the date it names (counted when `count`). */
+  /** The text a (trimmed) cell is coded by (codedText), counting a timestamp's time set aside when `count`. */
   private keyOf(position: number, text: string, count: boolean): string {
     if (this.timed[position] === null) return text
-    const day = dayPart(text)
-    if (day === null) return text
-    if (count) this.timed[position]!++
-    return day
+    const key = codedText(text, true)
+    if (count && key !== text) this.timed[position]!++
+    return key
   }
 
   /** How many rows of a column of timestamps had their time of day set aside (null: not such a column). */

@@ -312,7 +312,7 @@ async function attach(job: ImportJob, db: Connections, { encoded, ragged, source
         : null,
     })), { transaction })
     await ready.update({
-      status: 'ready', progress: 1, rowCount: encoded.rowCount, raggedRows: ragged + meta.extraFields,
+      status: 'ready', progress: 1, rowCount: encoded.rowCount, raggedRows: ragged,
       encoding, delimiter: meta.delimiter, sheets: meta.sheets, readyAt: new Date(),
     }, { transaction })
     await recordAudit({

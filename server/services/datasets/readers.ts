@@ -3,6 +3,7 @@ import { StringDecoder } from 'node:string_decoder'
 import { pipeline } from 'node:stream/promises'
 import type { Readable } from 'node:stream'
 import Papa from 'papaparse'
+import Parser from 'stream-json/Parser.js'
 import StreamArray from 'stream-json/streamers/StreamArray.js'
 import { UnreadableFile } from './sniff'
 import { storable } from './storable-text'
@@ -15,7 +16,7 @@ import { MixedTextDecoder } from './mixed-text'
 export interface RowSource {
   rows: AsyncIterable<string[][]>
   /** Known once the first rows were read; `sheets`: a workbook's sheets, in its order. */
-  meta: { delimiter: string | null, extraFields: number, sheets: string[] | null }
+  meta: { delimiter: string | null, sheets: string[] | null }
   /** How far into the file reading has come. */
   bytesRead: () => number
 }
@@ -119,16 +120,49 @@ async function* delimitedRows(input: Readable, format: 'csv' | 'tsv', meta: RowS
   }
 }
 
-/** stream-json's Assembler option, missing from its types: numbers arrive as the text the file wrote. */
-const JSON_PARSING: Parameters<typeof StreamArray.withParser>[0] & { numberAsString: boolean } = { numberAsString: true }
+/**
+ * A number's text as the file wrote it, kept apart from strings: the parser's number tokens become
+ * strings that start with this mark (and a string that starts with it gets it twice), so 12.50 stays
+ * 12.50, 1e400 is not Infinity, and a number inside a nested value is not written back as a string.
+ */
+const NUMBER_MARK = '\0'
 
-/** Numbers come as their text in the file (JSON_PARSING), so 12.50 stays 12.50 and 1e400 is not Infinity. */
+function markingNumbers(): Transform {
+  return new Transform({
+    objectMode: true,
+    transform(token: { name: string, value?: string }, _encoding, done) {
+      if (token.name === 'numberValue') done(null, { name: 'stringValue', value: NUMBER_MARK + token.value })
+      else if (token.name === 'stringValue' && token.value!.startsWith(NUMBER_MARK)) done(null, { name: 'stringValue', value: NUMBER_MARK + token.value })
+      else done(null, token)
+    },
+  })
+}
+
+/** A parsed string: a number's text (marked), or a string as the file had it. */
+function unmarked(text: string): { number: boolean, text: string } {
+  if (!text.startsWith(NUMBER_MARK)) return { number: false, text }
+  const rest = text.slice(1)
+  return rest.startsWith(NUMBER_MARK) ? { number: false, text: rest } : { number: true, text: rest }
+}
+
+/** A nested value as JSON, its numbers as the file wrote them. */
+function nestedJson(value: unknown): string {
+  if (typeof value === 'string') {
+    const { number, text } = unmarked(value)
+    return number ? text : JSON.stringify(text)
+  }
+  if (Array.isArray(value)) return `[${value.map(nestedJson).join(',')}]`
+  if (value && typeof value === 'object') return `{${Object.entries(value).map(([key, item]) => `${JSON.stringify(key)}:${nestedJson(item)}`).join(',')}}`
+  return JSON.stringify(value)
+}
+
+/** A value as a cell's text: a string or a number as written, a nested value as JSON. */
 function jsonCellText(value: unknown): string {
   if (value === null || value === undefined) return ''
-  if (typeof value === 'string') return storable(value)
+  if (typeof value === 'string') return storable(unmarked(value).text)
   if (typeof value === 'boolean') return String(value)
   try {
-    return storable(JSON.stringify(value))
+    return storable(nestedJson(value))
   }
   catch (error) {
     if (!(error instanceof RangeError)) throw error
@@ -136,16 +170,20 @@ function jsonCellText(value: unknown): string {
   }
 }
 
-async function* jsonRows(input: Readable, meta: RowSource['meta']) {
-  const records = input.pipe(StreamArray.withParser(JSON_PARSING))
+async function* jsonRows(input: Readable) {
+  const records = StreamArray.make()
+  // pipeline hands a failure of any stage (a parse error) to the records being read.
+  pipeline(input, new Parser({ streamValues: false }), markingNumbers(), records).catch(error => records.destroy(error))
   const sample: Record<string, unknown>[] = []
   let header: string[] | null = null
   let index: Map<string, number> = new Map()
+  // A key that is not a column (the columns are the keys of the first records) is kept past them as
+  // "key: value", so the import stores the record as a ragged row: listed by number, nothing dropped.
   const toCells = (record: Record<string, unknown>) => {
     const cells = Array.from({ length: header!.length }, () => '')
     for (const [key, value] of Object.entries(record)) {
       const at = index.get(key)
-      if (at === undefined) meta.extraFields++
+      if (at === undefined) cells.push(`${storable(key)}: ${jsonCellText(value)}`)
       else cells[at] = jsonCellText(value)
     }
     return cells
@@ -233,7 +271,7 @@ export interface StoredSource {
 
 /** Opens a stored file as rows of text cells, whatever its format. */
 export function openRows(format: DatasetFormat, stored: StoredSource, encoding: TextEncoding, bomLength: number): RowSource {
-  const meta: RowSource['meta'] = { delimiter: null, extraFields: 0, sheets: null }
+  const meta: RowSource['meta'] = { delimiter: null, sheets: null }
   let bytesRead = 0
   if (format === 'xlsx') {
     // The workbook reader makes ranged reads of its own (the archive's directory is at its end).
@@ -253,6 +291,6 @@ export function openRows(format: DatasetFormat, stored: StoredSource, encoding: 
   })
   stored.open(bomLength).then(input => pipeline(input, file)).catch(error => file.destroy(error))
   const text = () => file.pipe(decoding(encoding, format !== 'json'))
-  const rows = format === 'json' ? inBatches(jsonRows(text(), meta)) : delimitedRows(text(), format, meta)
+  const rows = format === 'json' ? inBatches(jsonRows(text())) : delimitedRows(text(), format, meta)
   return { rows: untilFailure(file, rows), meta, bytesRead: () => bytesRead }
 }

@@ -95,10 +95,14 @@ export async function openArchive(open: RangeOpener, size: number, counted: (byt
   }
 }
 
-/** One entry, inflating as it is read, through `limiter` (yauzl also holds it to the size the directory gives). */
-export async function inflate(zip: yauzl.ZipFile, entry: yauzl.Entry, limiter: Transform): Promise<Readable> {
+/**
+ * One entry, inflating as it is read, through `limiter` (yauzl also holds it to the size the directory
+ * gives). An entry that inflates past that size, or whose deflated bytes are broken, ends the read with
+ * `damaged`: an archive that lies about its sizes is refused like any other damaged one, never as a fault of the server.
+ */
+export async function inflate(zip: yauzl.ZipFile, entry: yauzl.Entry, limiter: Transform, damaged: string): Promise<Readable> {
   const inflating = await zip.openReadStreamPromise(entry)
-  inflating.on('error', error => limiter.destroy(error))
+  inflating.on('error', error => limiter.destroy(error instanceof UnreadableFile ? error : new UnreadableFile(damaged)))
   limiter.on('error', () => inflating.destroy())
   return inflating.pipe(limiter)
 }

@@ -379,7 +379,7 @@ function readable(text: string): Readable {
 async function inflatePart(zip: yauzl.ZipFile, entry: yauzl.Entry, limit: number, what: string): Promise<Readable> {
   if (entry.uncompressedSize > limit) throw tooBig(what)
   const gap = { bytes: WORKBOOK_LIMITS.cellCharacters * 6 + 4096, refuse: () => tooBig('cell text') }
-  return inflate(zip, entry, limited(limit, () => tooBig(what), gap))
+  return inflate(zip, entry, limited(limit, () => tooBig(what), gap), DAMAGED)
 }
 
 async function readSmall(zip: yauzl.ZipFile, entry: yauzl.Entry): Promise<string> {
