@@ -7,21 +7,32 @@ import type { BlockDTO } from '#shared/types/investigation'
  */
 export function useBlockHistory(blockId: Ref<string>) {
   const history = useFetch<BlockHistoryDTO>(() => `/api/blocks/${blockId.value}/versions`, { key: computed(() => `block-history-${blockId.value}`) })
-  const from = ref<number | null>(null)
-  const to = ref<number | null>(null)
-  watch(history.data, (dto) => {
-    if (!dto) return
-    const numbers = dto.versions.map(v => v.version)
-    if (to.value === null || !numbers.includes(to.value)) to.value = numbers[0] ?? null
-    if (from.value === null || !numbers.includes(from.value)) from.value = numbers[1] ?? numbers[0] ?? null
-  }, { immediate: true })
-  // Two versions to compare exist only once the history is in: until then there is nothing to ask.
+  // The two versions compared are the ones chosen, else the newest and the one before it. They are
+  // worked out from the history, not set by a watcher, since watchers do not run while the server
+  // renders: the server drew nothing compared and the browser's first render did not match it.
+  const numbers = computed(() => history.data.value?.versions.map(v => v.version) ?? [])
+  const chosen = ref<{ from: number | null, to: number | null }>({ from: null, to: null })
+  const kept = (version: number | null) => version !== null && numbers.value.includes(version) ? version : null
+  const from = computed({
+    get: () => kept(chosen.value.from) ?? numbers.value[1] ?? numbers.value[0] ?? null,
+    set: (version: number | null) => { chosen.value = { ...chosen.value, from: version } },
+  })
+  const to = computed({
+    get: () => kept(chosen.value.to) ?? numbers.value[0] ?? null,
+    set: (version: number | null) => { chosen.value = { ...chosen.value, to: version } },
+  })
+  // One key for the block's comparison, so the server's answer is the browser's first one: a key
+  // naming the versions would name none while the server starts, before the history is in.
   const requestFetch = useRequestFetch()
   const diff = useAsyncData(
-    computed(() => `block-diff-${blockId.value}-${from.value}-${to.value}`),
-    () => (from.value !== null && to.value !== null
-      ? requestFetch<BlockDiffDTO>(`/api/blocks/${blockId.value}/diff`, { query: { from: from.value, to: to.value } })
-      : Promise.resolve(null)),
+    computed(() => `block-diff-${blockId.value}`),
+    async () => {
+      await history
+      return from.value !== null && to.value !== null
+        ? requestFetch<BlockDiffDTO>(`/api/blocks/${blockId.value}/diff`, { query: { from: from.value, to: to.value } })
+        : null
+    },
+    { watch: [from, to] },
   )
 
   /** Shows what one version changed: it against the version before it. */

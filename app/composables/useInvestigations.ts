@@ -1,10 +1,11 @@
 import type { InvestigationDTO, InvestigationSummaryDTO, AnalysisSettings } from '#shared/types/investigation'
 
-/** Starts a draft in a newsroom, with a first analysis block when `firstAnalysis` is given. */
-export async function createDraft(newsroomId: string, title: string, firstAnalysis?: AnalysisSettings) {
-  const created = await $fetch<InvestigationDTO>('/api/investigations', { method: 'POST', body: { newsroomId, title } })
-  if (firstAnalysis) await $fetch(`/api/investigations/${created.id}/blocks`, { method: 'POST', body: { kind: 'analysis', settings: firstAnalysis } })
-  return created
+/**
+ * Starts a draft in a newsroom, with a first analysis block when `firstAnalysis` is given: one
+ * request, so a refused block leaves no empty draft behind.
+ */
+export function createDraft(newsroomId: string, title: string, firstAnalysis?: AnalysisSettings) {
+  return $fetch<InvestigationDTO>('/api/investigations', { method: 'POST', body: { newsroomId, title, firstAnalysis } })
 }
 
 /** The newsroom's investigations, newest edit first, and the action that starts one. */

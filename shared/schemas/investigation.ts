@@ -3,10 +3,6 @@ import { TEST_NAMES } from '../digits'
 import { filterSchema, periodSchema } from './dataset'
 import { oneLine } from './text'
 
-export const investigationCreateSchema = z.object({
-  newsroomId: z.string().uuid(),
-  title: z.string().transform(oneLine).pipe(z.string().min(1, 'Give the investigation a working title').max(300)),
-})
 
 export const investigationUpdateSchema = z.object({
   // One line: a title is shown in headings, lists and the published methodology.
@@ -57,6 +53,13 @@ export const analysisSettingsSchema = z.object({
   period: periodSchema.optional(),
   threshold: z.number().positive().finite().optional(),
   sign: z.enum(['positive', 'negative']).optional(),
+})
+
+/** A new draft; with `firstAnalysis` it starts with that analysis block after its empty paragraph. */
+export const investigationCreateSchema = z.object({
+  newsroomId: z.string().uuid(),
+  title: z.string().transform(oneLine).pipe(z.string().min(1, 'Give the investigation a working title').max(300)),
+  firstAnalysis: analysisSettingsSchema.optional(),
 })
 
 export const blockCreateSchema = z.discriminatedUnion('kind', [

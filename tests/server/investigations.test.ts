@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { createTestNewsroom } from '../support/newsroom'
+import type { TestNewsroom } from '../support/newsroom'
 import { uploadCsv } from '../support/datasets'
 
 const paragraph = (text: string) => ({ type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text }] }] })
@@ -18,6 +19,34 @@ describe('investigations and blocks', () => {
     expect(investigation.blocks[0]).toMatchObject({ kind: 'prose', version: 1 })
     const list = await newsroom['fact-checker'].get(`/api/investigations?newsroomId=${newsroom.id}`)
     expect(list.body.map((i: { id: string }) => i.id)).toEqual([investigation.id])
+  })
+
+  it('starts a draft from a dataset in one request: the empty paragraph, then its first analysis', async () => {
+    const newsroom = await createTestNewsroom()
+    const datasetId = await uploadCsv(newsroom.reporter, newsroom.id, 'amount\n120\n345\n1890\n', 'Start from it')
+    const firstAnalysis = { datasetId, column: 'amount', test: 'first-digit' }
+    const created = await newsroom.reporter.post('/api/investigations', { newsroomId: newsroom.id, title: 'On Start from it', firstAnalysis })
+    expect(created.status, JSON.stringify(created.body)).toBe(201)
+    expect(created.body.blocks).toMatchObject([{ kind: 'prose', position: 0, version: 1 }, { kind: 'analysis', position: 1, version: 1, settings: firstAnalysis, review: { status: 'unreviewed' } }])
+    const trail = await newsroom.reporter.get(`/api/investigations/${created.body.id}/audit`)
+    const own = trail.body.events.filter((e: { subjectId: string }) => [created.body.id, created.body.blocks[1].id].includes(e.subjectId))
+    expect(own.map((e: { action: string }) => e.action).sort()).toEqual(['block.added', 'investigation.created'])
+    const history = await newsroom.reporter.get(`/api/blocks/${created.body.blocks[1].id}/versions`)
+    expect(history.body.versions).toMatchObject([{ version: 1, change: 'created' }])
+  })
+
+  it.each([
+    ['another newsroom\'s dataset', (other: TestNewsroom) => uploadCsv(other.reporter, other.id, 'amount\n120\n345\n', 'Not theirs')],
+    ['a dataset that does not exist', async () => '00000000-0000-4000-8000-000000000000'],
+  ])('refuses a first analysis of %s and leaves no investigation behind', async (_, datasetOf) => {
+    const newsroom = await createTestNewsroom()
+    const other = await createTestNewsroom('Other desk')
+    const datasetId = await datasetOf(other)
+    const refused = await newsroom.reporter.post('/api/investigations', { newsroomId: newsroom.id, title: 'Borrowed', firstAnalysis: { datasetId, column: 'amount', test: 'first-digit' } })
+    expect(refused.status, JSON.stringify(refused.body)).toBe(400)
+    expect(refused.body.data).toEqual([{ path: 'firstAnalysis.datasetId', message: 'Choose a dataset of this newsroom.' }])
+    const list = await newsroom.reporter.get(`/api/investigations?newsroomId=${newsroom.id}`)
+    expect(list.body).toEqual([])
   })
 
   it('inserts blocks where asked and reorders them', async () => {

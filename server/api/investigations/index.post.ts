@@ -2,8 +2,8 @@ import { investigationCreateSchema } from '#shared/schemas/investigation'
 import { createInvestigation } from '#server/services/investigations/catalog'
 
 export default defineEventHandler(async (event) => {
-  const { newsroomId, title } = await readInput(event, investigationCreateSchema)
+  const { newsroomId, title, firstAnalysis } = await readInput(event, investigationCreateSchema)
   const actor = await requirePermission(event, 'investigation.create', { newsroomId })
   setResponseStatus(event, 201)
-  return createInvestigation(actor, title)
+  return createInvestigation(actor, title, firstAnalysis)
 })

@@ -2,12 +2,12 @@ import { Op } from 'sequelize'
 import type { Transaction } from 'sequelize'
 import type { z } from 'zod'
 import type { blockCreateSchema, blockUpdateSchema } from '#shared/schemas/investigation'
-import type { AnalysisSettings } from '#shared/types/investigation'
 import type { Block, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { describeBlock, describeInvestigation, findInvestigation, liveBlocks, touchInvestigation } from './catalog'
 import { assertNoBorrowedMarks, assertUnlocked } from './locks'
 import { recordBlockVersion } from '../history/versions'
+import { checkDataset } from './block-dataset'
 
 /** The block behind an id with its investigation, for the permission check; 404 when missing or removed. */
 export async function findBlock(id: string, { includeRemoved = false } = {}): Promise<{ block: Block, investigation: Investigation }> {
@@ -64,13 +64,6 @@ function reviewAfterChange(block: Block, fingerprint: string) {
     fields: { reviewStatus: 'unreviewed' as const, reviewNote: null, reviewedBy: null, reviewedAt: null },
     action: 'review.reset', detail: { was: block.reviewStatus, reason: 'settings changed' },
   }
-}
-
-/** A block may only point at a dataset of its own newsroom. */
-async function checkDataset(settings: AnalysisSettings | undefined, newsroomId: string) {
-  if (!settings?.datasetId) return
-  const dataset = await useDb().models.Dataset.findOne({ where: { id: settings.datasetId, newsroomId }, attributes: ['id'] })
-  if (!dataset) throw fail(400, [{ path: 'settings.datasetId', message: 'Choose a dataset of this newsroom.' }])
 }
 
 export async function createBlock(actor: Actor, investigation: Investigation, input: z.output<typeof blockCreateSchema>) {

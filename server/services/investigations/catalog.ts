@@ -1,9 +1,10 @@
 import type { Transaction } from 'sequelize'
-import type { BlockDTO, ClaimDTO, InvestigationDTO, InvestigationSummaryDTO, Stamp } from '#shared/types/investigation'
+import type { AnalysisSettings, BlockDTO, ClaimDTO, InvestigationDTO, InvestigationSummaryDTO, Stamp } from '#shared/types/investigation'
 import type { Block, Claim, Investigation } from '../../models'
 import type { Actor } from '../../utils/permissions'
 import { attachedClaims } from './prose-claims'
 import { recordBlockVersion } from '../history/versions'
+import { checkDataset } from './block-dataset'
 
 function summary(investigation: Investigation, names: Map<string, string>): InvestigationSummaryDTO {
   return {
@@ -93,17 +94,26 @@ export async function describeBlock(block: Block): Promise<BlockDTO> {
   return blockDTO(block, await userNames(blockPeople(block)))
 }
 
-/** A new investigation starts as one empty paragraph, ready to write in. */
-export async function createInvestigation(actor: Actor, title: string): Promise<InvestigationDTO> {
+/**
+ * A new investigation starts as one empty paragraph, ready to write in, and with `firstAnalysis`
+ * an analysis block after it (a draft started from a dataset). Both come in one transaction: a
+ * block that is refused (another newsroom's dataset) leaves no empty investigation behind.
+ */
+export async function createInvestigation(actor: Actor, title: string, firstAnalysis?: AnalysisSettings): Promise<InvestigationDTO> {
   const { sequelize, models } = useDb()
   const investigation = await sequelize.transaction(async (transaction) => {
+    if (firstAnalysis) await checkDataset(firstAnalysis, actor.newsroomId, transaction, 'firstAnalysis.datasetId')
     const created = await models.Investigation.create({ newsroomId: actor.newsroomId, title, createdBy: actor.userId, updatedBy: actor.userId }, { transaction })
-    const first = await models.Block.create({
-      investigationId: created.id, kind: 'prose', position: 0, content: { type: 'doc', content: [{ type: 'paragraph' }] },
-      settings: null, createdBy: actor.userId, updatedBy: actor.userId,
-    }, { transaction })
+    const owner = { investigationId: created.id, createdBy: actor.userId, updatedBy: actor.userId }
     await recordAudit({ newsroomId: actor.newsroomId, investigationId: created.id, actorId: actor.userId, action: 'investigation.created', subjectType: 'investigation', subjectId: created.id, detail: { title } }, transaction)
+    const first = await models.Block.create({ ...owner, kind: 'prose', position: 0, content: { type: 'doc', content: [{ type: 'paragraph' }] }, settings: null }, { transaction })
     await recordBlockVersion(first, 'created', transaction)
+    if (firstAnalysis) {
+      const analysis = await models.Block.create({ ...owner, kind: 'analysis', position: 1, content: null, settings: firstAnalysis }, { transaction })
+      // Written as the editor's insert bar writes an added block.
+      await recordAudit({ newsroomId: actor.newsroomId, investigationId: created.id, actorId: actor.userId, action: 'block.added', subjectType: 'block', subjectId: analysis.id, detail: { kind: 'analysis', position: 1 } }, transaction)
+      await recordBlockVersion(analysis, 'created', transaction)
+    }
     return created
   })
   return describeInvestigation(investigation)
