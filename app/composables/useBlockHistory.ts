@@ -1,5 +1,4 @@
-import type { BlockDiffDTO, BlockHistoryDTO } from '#shared/types/history'
-import type { BlockDTO } from '#shared/types/investigation'
+import type { BlockDiffDTO, BlockHistoryDTO, RestoredBlockDTO } from '#shared/types/history'
 
 /**
  * A block's kept versions, the difference between the two chosen (by default the newest and the
@@ -48,9 +47,11 @@ export function useBlockHistory(blockId: Ref<string>) {
   async function restore(version: number) {
     restored.value = null
     await run(async () => {
-      const block = await $fetch<BlockDTO>(`/api/blocks/${blockId.value}/versions/${version}/restore`, { method: 'POST', body: { version: history.data.value!.version } })
+      const block = await $fetch<RestoredBlockDTO>(`/api/blocks/${blockId.value}/versions/${version}/restore`, { method: 'POST', body: { version: history.data.value!.version } })
       restored.value = { from: version, version: block.version }
-      await history.refresh()
+      // The answer names the version the restore added: it heads the list, and the block now stands at it.
+      const kept = history.data.value
+      if (kept) history.data.value = { ...kept, label: block.label, version: block.version, versions: [block.saved, ...kept.versions.filter(v => v.version !== block.saved.version)] }
       showChangesOf(block.version)
     })
   }

@@ -1,6 +1,6 @@
 import type { output } from 'zod'
 import type { publishSchema } from '#shared/schemas/investigation'
-import type { PublishedSnapshot, PublishingDTO, PublishOutcomeDTO } from '#shared/types/publication'
+import type { PublishedSnapshot, PublishingDTO, PublishOutcomeDTO, WithdrawOutcomeDTO } from '#shared/types/publication'
 import type { PublicationChangesDTO } from '#shared/types/history'
 
 /**
@@ -23,10 +23,11 @@ export function usePublishing() {
     if (store.investigation) store.investigation.status = 'published'
   }
 
-  /** Reads the panel and the document again: with its last open link gone, the investigation goes back to review. */
+  /** Shows the link withdrawn and the investigation's status as the server answers them (back in review once its last live link is gone). */
   async function withdraw(linkId: string) {
-    await $fetch(`/api/share-links/${linkId}/revoke`, { method: 'POST' })
-    await Promise.all([refresh(), store.refreshLayout()])
+    const { link, investigationStatus } = await $fetch<WithdrawOutcomeDTO>(`/api/share-links/${linkId}/revoke`, { method: 'POST' })
+    if (data.value) data.value = { ...data.value, links: data.value.links.map(l => l.id === link.id ? link : l) }
+    if (store.investigation) store.investigation.status = investigationStatus
   }
 
   return { publishing: data, publish, withdraw }

@@ -35,11 +35,6 @@ export const useConversationStore = defineStore('conversation', () => {
     open.value = { ...open.value, [subjectAnchor(type, id)]: true }
   }
 
-  async function refresh() {
-    if (!investigationId.value) return
-    load(investigationId.value, await $fetch<ConversationDTO>(`/api/investigations/${investigationId.value}/threads`))
-  }
-
   // Typed loosely on purpose: Nitro's route typing over a plain string path is too deep for tsc.
   const send = $fetch as <T>(url: string, options: { method: 'POST', body?: object }) => Promise<T>
 
@@ -55,5 +50,5 @@ export const useConversationStore = defineStore('conversation', () => {
     put(await send<ThreadDTO>(`/api/threads/${threadId}/${resolved ? 'resolve' : 'reopen'}`, { method: 'POST' }))
   }
 
-  return { investigationId, threads, members, open, target, load, show, refresh, threadOf, write, setResolved }
+  return { investigationId, threads, members, open, target, load, put, show, threadOf, write, setResolved }
 })

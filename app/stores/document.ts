@@ -3,6 +3,7 @@ import { can } from '#shared/auth/permissions'
 import type { Action } from '#shared/auth/permissions'
 import type { Role } from '#shared/auth/roles'
 import type { AnalysisSettings, BlockDTO, ClaimDTO, InvestigationDTO, ProseContent } from '#shared/types/investigation'
+import type { ThreadDTO, WithThread } from '#shared/types/conversation'
 
 type Patch = { content?: ProseContent, settings?: AnalysisSettings }
 /** `pending`: changed here, not sent yet (typing pauses before a save goes). */
@@ -166,10 +167,18 @@ export const useDocumentStore = defineStore('document', () => {
     const blockId = claims.value.find(c => c.id === claimId)?.blockId
     return act(claimId, post(claimPath(claimId, '/verify'), { version: blocks.value.find(b => b.id === blockId)?.version }))
   }
-  const dispute = (claimId: string, note: string) => act(claimId, post<ClaimDTO>(claimPath(claimId, '/dispute'), { note }), putClaim)
+  // A dispute's note and a method sent back are messages of their subject's conversation: the answer carries it as it now is.
+  const putThread = (thread: ThreadDTO) => useConversationStore().put(thread)
+  const dispute = (claimId: string, note: string) => act(claimId, post<WithThread<ClaimDTO>>(claimPath(claimId, '/dispute'), { note }), ({ thread, ...claim }) => {
+    putClaim(claim)
+    putThread(thread)
+  })
   const unlock = (claimId: string, reason: string) => act(claimId, post(claimPath(claimId, '/unlock'), { reason }))
   const review = (blockId: string, decision: 'approved' | 'sent-back', note?: string) =>
-    act(`review:${blockId}`, post<BlockDTO>(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }), replace)
+    act(`review:${blockId}`, post<BlockDTO & { thread?: ThreadDTO }>(`/api/blocks/${blockId}/review`, { decision, note, version: blocks.value.find(b => b.id === blockId)?.version }), ({ thread, ...block }) => {
+      replace(block)
+      if (thread) putThread(thread)
+    })
   /** Takes a claim off its passage (the words stay); its block's pending typing is saved first, so the server strips the mark from the latest text. */
   async function removeClaim(claimId: string, reason?: string) {
     const claim = claims.value.find(c => c.id === claimId)

@@ -19,6 +19,12 @@ export interface MessageDTO {
   at: string
 }
 
+/**
+ * What a decision whose note is a message of its subject's conversation (a claim disputed, a method
+ * sent back) answers: the record as it now is, with that conversation as it now is.
+ */
+export type WithThread<T> = T & { thread: ThreadDTO }
+
 export interface ThreadDTO {
   id: string
   subjectType: ThreadSubjectType

@@ -1,4 +1,4 @@
-import type { AnalysisSettings, ProseContent } from './investigation'
+import type { AnalysisSettings, BlockDTO, ProseContent } from './investigation'
 
 /**
  * How a block version came about: `recorded` is the state a block had when Mantissa began keeping
@@ -27,6 +27,12 @@ export interface BlockVersionDTO extends BlockVersionSummaryDTO {
   kind: 'prose' | 'analysis'
   content: ProseContent | null
   settings: AnalysisSettings | null
+}
+
+/** What a restore answers: the block as saved, the version the save added to its history, and the block's label as it now reads. */
+export interface RestoredBlockDTO extends BlockDTO {
+  saved: BlockVersionSummaryDTO
+  label: string
 }
 
 export interface BlockHistoryDTO {

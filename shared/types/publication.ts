@@ -1,5 +1,5 @@
 import type { TestResult } from '../digits'
-import type { AnalysisSettings, ProseContent, Stamp } from './investigation'
+import type { AnalysisSettings, InvestigationStatus, ProseContent, Stamp } from './investigation'
 
 /** A dataset as the public page describes it: enough to identify the exact file used. */
 export interface DatasetFingerprint {
@@ -70,6 +70,13 @@ export interface PublishOutcomeDTO {
   /** The public address, with its token (derived again on request, never stored). */
   url: string
   link: ShareLinkDTO
+}
+
+/** What withdrawing a link answers: the link as it now is, and the investigation's status (back in review once no link is live). */
+export interface WithdrawOutcomeDTO {
+  ok: true
+  link: ShareLinkDTO
+  investigationStatus: InvestigationStatus
 }
 
 export interface PublishBlockerDTO {

@@ -41,7 +41,8 @@ async function describeThreads(threads: Thread[]): Promise<ThreadDTO[]> {
   return threads.map(t => threadDTO(t, messages.filter(m => m.threadId === t.id), names))
 }
 
-async function describeThread(threadId: string): Promise<ThreadDTO> {
+/** One thread with its messages, as the conversation lists it. */
+export async function describeThread(threadId: string): Promise<ThreadDTO> {
   const thread = await useDb().models.Thread.findByPk(threadId)
   if (!thread) throw fail(404)
   return (await describeThreads([thread]))[0]!

@@ -47,6 +47,12 @@ async function versionRow(block: Block, version: number, transaction?: Transacti
   return row
 }
 
+/** One version as the history lists it. */
+export async function versionSummary(block: Block, version: number): Promise<BlockVersionSummaryDTO> {
+  const row = await versionRow(block, version)
+  return summaryOf(row, await userNames([row.savedBy]))
+}
+
 /** One version in full: its text or settings. */
 export async function blockVersion(block: Block, version: number): Promise<BlockVersionDTO> {
   const row = await versionRow(block, version)

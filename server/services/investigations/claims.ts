@@ -9,7 +9,7 @@ import { attachedClaims, claimText } from './prose-claims'
 import { investigationPath, subjectAnchor } from '#shared/conversation/anchor'
 import type { NotificationKind } from '#shared/types/conversation'
 import { recordNotifications } from '../conversation/notifications'
-import { noteInThread } from '../conversation/threads'
+import { describeThread, noteInThread } from '../conversation/threads'
 
 /** What names a claim in a request: the id its mark carries, and its investigation where the id alone is not enough. */
 export interface ClaimKey { id: string, investigationId?: string }
@@ -167,14 +167,14 @@ export async function disputeClaim(actor: Actor, claim: Claim, investigation: In
     const told = [current.createdBy, investigation.createdBy]
     const threadId = await noteInThread(actor, investigation, { type: 'claim', id: current.id, blockId: current.blockId }, note, 'disputed', told, transaction)
     await noticeOfDecision(actor, current, 'disputed', told, note, transaction, threadId)
-    return current
+    return { claim: current, threadId }
   })
   await notifyUsers([claim.createdBy, investigation.createdBy], {
     subject: `Claim disputed: ${investigation.title}`,
     lines: [`${actor.name} disputed a claim in “${investigation.title}”:`, `“${claim.quote}”`, `Their note: ${note}`],
     path: investigationPath(investigation.id, subjectAnchor('claim', claim.id)),
   }, actor.userId)
-  return describeClaim(disputed)
+  return { ...await describeClaim(disputed.claim), thread: await describeThread(disputed.threadId) }
 }
 
 /** A data editor lifts a lock with a written reason; blocks no other verified claim cites are unlocked too. */

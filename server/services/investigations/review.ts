@@ -8,7 +8,7 @@ import { describeBlock, describeInvestigation } from './catalog'
 import { assertFourEyes } from './four-eyes'
 import { investigationPath, subjectAnchor } from '#shared/conversation/anchor'
 import { recordNotifications } from '../conversation/notifications'
-import { noteInThread } from '../conversation/threads'
+import { describeThread, noteInThread } from '../conversation/threads'
 
 /** The reporter asks the desk to review the method of every analysis block. */
 export async function requestReview(actor: Actor, investigation: Investigation) {
@@ -43,7 +43,7 @@ export async function decideReview(actor: Actor, block: Block, investigation: In
   const { sequelize } = useDb()
   const outcome = await sequelize.transaction(async (transaction) => {
     const current = await lockBlockForChange(block, transaction)
-    if (version !== undefined && current.version !== version) return { stale: true, block: current }
+    if (version !== undefined && current.version !== version) return { stale: true, block: current, threadId: null }
     if (decision === 'approved') await assertFourEyes(actor, [current.createdBy, current.updatedBy], 'method', transaction)
     const at = new Date()
     // An approval keeps the settings it approved, so that settings changed and changed back can return it;
@@ -64,19 +64,21 @@ export async function decideReview(actor: Actor, block: Block, investigation: In
         kind: 'sent-back', newsroomId: actor.newsroomId, investigationId: investigation.id, actorId: actor.userId,
         anchor: subjectAnchor('review', current.id), threadId, excerpt: note,
       }, transaction)
+      return { stale: false, block: current, threadId }
     }
-    return { stale: false, block: current }
+    return { stale: false, block: current, threadId: null }
   })
   if (outcome.stale) {
     throw fail(409, { message: 'The block was changed after you opened it. Read its settings again before deciding.', current: await describeBlock(outcome.block) })
   }
   const decided = outcome.block
-  if (decision === 'sent-back') {
+  if (outcome.threadId) {
     await notifyUsers([investigation.createdBy], {
       subject: `Method sent back: ${investigation.title}`,
       lines: [`${actor.name} sent back an analysis block (${decided.settings?.test ? TEST_LABELS[decided.settings.test] : 'analysis'}) in “${investigation.title}”.`, `Their note: ${note}`],
       path: investigationPath(investigation.id, subjectAnchor('review', decided.id)),
     }, actor.userId)
+    return { ...await describeBlock(decided), thread: await describeThread(outcome.threadId) }
   }
   return describeBlock(decided)
 }

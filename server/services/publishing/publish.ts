@@ -7,7 +7,7 @@ import { methodologyAppendix } from '#shared/methodology/appendix'
 import { periodOf } from '#shared/charts/chart-text'
 import type { z } from 'zod'
 import type { publishSchema } from '#shared/schemas/investigation'
-import type { DatasetFingerprint, PublishBlockerDTO, PublishCheckDTO, PublishedBlock, PublishedChecks, PublishedSnapshot, PublishingDTO, PublishOutcomeDTO, ShareLinkDTO } from '#shared/types/publication'
+import type { DatasetFingerprint, PublishBlockerDTO, PublishCheckDTO, PublishedBlock, PublishedChecks, PublishedSnapshot, PublishingDTO, PublishOutcomeDTO, ShareLinkDTO, WithdrawOutcomeDTO } from '#shared/types/publication'
 import type { Block, Claim, Investigation, Publication, ShareLink } from '../../models'
 import type { FieldError } from '../../utils/errors'
 import type { Actor } from '../../utils/permissions'
@@ -249,20 +249,26 @@ export async function findShareLink(id: string): Promise<ShareLink> {
 }
 
 /** Withdraws a link: from then on it answers 410 with a page that says so. */
-export async function revokeShareLink(actor: Actor, link: ShareLink) {
-  if (link.revokedAt) return
+export async function revokeShareLink(actor: Actor, link: ShareLink): Promise<WithdrawOutcomeDTO> {
   const { sequelize, models } = useDb()
-  await sequelize.transaction(async (transaction) => {
-    // In the one lock order (the investigation's row first), and read again under the lock: of
-    // several withdrawals at once, one withdraws and writes the trail, the others find it done.
-    await models.Investigation.findByPk(link.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
-    const current = await models.ShareLink.findByPk(link.id, { transaction, lock: transaction.LOCK.UPDATE })
-    if (!current || current.revokedAt) return
-    await current.update({ revokedAt: new Date(), revokedBy: actor.userId }, { transaction })
-    const stillOpen = await models.ShareLink.count({ where: { investigationId: link.investigationId, revokedAt: null }, transaction })
-    if (!stillOpen) await models.Investigation.update({ status: 'in-review' }, { where: { id: link.investigationId, status: 'published' }, transaction })
-    await recordAudit({ newsroomId: actor.newsroomId, investigationId: link.investigationId, actorId: actor.userId, action: 'investigation.unpublished', subjectType: 'share-link', subjectId: link.id }, transaction)
-  })
+  if (!link.revokedAt) {
+    await sequelize.transaction(async (transaction) => {
+      // In the one lock order (the investigation's row first), and read again under the lock: of
+      // several withdrawals at once, one withdraws and writes the trail, the others find it done.
+      await models.Investigation.findByPk(link.investigationId, { transaction, lock: transaction.LOCK.UPDATE })
+      const current = await models.ShareLink.findByPk(link.id, { transaction, lock: transaction.LOCK.UPDATE })
+      if (!current || current.revokedAt) return
+      await current.update({ revokedAt: new Date(), revokedBy: actor.userId }, { transaction })
+      const stillOpen = await models.ShareLink.count({ where: { investigationId: link.investigationId, revokedAt: null }, transaction })
+      if (!stillOpen) await models.Investigation.update({ status: 'in-review' }, { where: { id: link.investigationId, status: 'published' }, transaction })
+      await recordAudit({ newsroomId: actor.newsroomId, investigationId: link.investigationId, actorId: actor.userId, action: 'investigation.unpublished', subjectType: 'share-link', subjectId: link.id }, transaction)
+    })
+  }
+  // The panel shows the answer as it is: the link withdrawn, and the investigation back in review when it was the last live one.
+  const withdrawn = (await models.ShareLink.findByPk(link.id))!
+  const [publication, investigation] = await Promise.all([models.Publication.findByPk(withdrawn.publicationId), findInvestigation(withdrawn.investigationId)])
+  const names = await userNames([withdrawn.createdBy, publication!.followUpConfirmedBy])
+  return { ok: true, link: shareLinkDTO(withdrawn, publication!, names, true), investigationStatus: investigation.status }
 }
 
 /** A publication with its investigation, for the permission check; 404 when missing. */

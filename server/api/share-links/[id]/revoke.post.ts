@@ -7,6 +7,5 @@ export default defineEventHandler(async (event) => {
   const link = await findShareLink(id)
   const investigation = await findInvestigation(link.investigationId)
   const actor = await requirePermission(event, 'investigation.publish', { newsroomId: investigation.newsroomId })
-  await revokeShareLink(actor, link)
-  return { ok: true }
+  return revokeShareLink(actor, link)
 })
