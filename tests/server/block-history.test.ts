@@ -136,8 +136,13 @@ describe('restoring a version', () => {
     expectStatus(restored, 200)
     expect(restored.body.version).toBe(4)
     expect(JSON.stringify(restored.body.content)).toContain(CLAIM_TEXT)
-    const top = (await history(newsroom.reporter, story.proseBlockId)).versions[0]!
+    const now = await history(newsroom.reporter, story.proseBlockId)
+    const top = now.versions[0]!
     expect(top).toMatchObject({ version: 4, change: 'restored', restoredFrom: 2, savedBy: newsroom.names.reporter })
+    // The answer names the version it added and the block's label as the history reads them, so the page lists them without asking again.
+    expect(restored.body.saved).toEqual(top)
+    expect(restored.body.label).toBe(now.label)
+    expect(restored.body.label).toContain('The ledger lists invented harbour works.')
     const trail = await newsroom.reporter.get(`/api/investigations/${story.id}/audit?kind=block.version-restored`)
     expect(trail.body.events).toHaveLength(1)
     expect(trail.body.events[0].detail).toMatchObject({ restoredFrom: 2, version: 4 })

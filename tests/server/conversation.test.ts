@@ -159,15 +159,22 @@ describe('conversations on blocks, reviews and claims', () => {
 
   it('starts the review\'s thread with the note of a method sent back, and the claim\'s with the note of a dispute', async () => {
     const note = 'Leave out the cancelled invoices before reading the first digits.'
-    expectStatus(await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back', note }), 200)
+    const sentBack = await newsroom['data-editor'].post(`/api/blocks/${story.analysisBlockId}/review`, { decision: 'sent-back', note })
+    expectStatus(sentBack, 200)
     const disputeNote = 'Two of the five rows are refunds.'
-    expectStatus(await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note: disputeNote }), 200)
+    const disputed = await newsroom['fact-checker'].post(`/api/claims/${story.claimId}/dispute`, { note: disputeNote })
+    expectStatus(disputed, 200)
 
     const { threads } = await threadsOf(newsroom.reporter, story)
     const review = threads.find(t => t.subjectType === 'review' && t.subjectId === story.analysisBlockId)
     expect(review.messages.at(-1)).toMatchObject({ kind: 'sent-back', author: newsroom.names['data-editor'], parts: [text(note)] })
     const claim = threads.find(t => t.subjectType === 'claim' && t.subjectId === story.claimId)
     expect(claim.messages.at(-1)).toMatchObject({ kind: 'disputed', author: newsroom.names['fact-checker'], parts: [text(disputeNote)] })
+    // Each decision answers its record with the conversation as it then stood: the page shows it without reading every thread again.
+    expect(sentBack.body).toMatchObject({ id: story.analysisBlockId, review: { status: 'sent-back', note } })
+    expect(sentBack.body.thread).toEqual(review)
+    expect(disputed.body).toMatchObject({ id: story.claimId, status: 'disputed', note: disputeNote })
+    expect(disputed.body.thread).toEqual(claim)
 
     const mine = await notices(newsroom.reporter)
     expect(mine.items.find(n => n.kind === 'sent-back')).toMatchObject({ path: `/investigations/${story.id}#review-${story.analysisBlockId}`, excerpt: note })

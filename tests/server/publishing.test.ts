@@ -105,8 +105,14 @@ describe('the public link', () => {
     await clear(newsroom, story)
     const revoked = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, {})
     expect((await new Client().get(`/api/public/${tokenOf(revoked.body.url)}`)).status).toBe(200)
-    expectStatus(await newsroom['data-editor'].post(`/api/share-links/${revoked.body.link.id}/revoke`), 200)
+    const withdrawn = await newsroom['data-editor'].post(`/api/share-links/${revoked.body.link.id}/revoke`)
+    expectStatus(withdrawn, 200)
     expect((await new Client().get(`/api/public/${tokenOf(revoked.body.url)}`)).status).toBe(410)
+    // The answer is the link as the panel now lists it, and the investigation's status: its only live link gone, it is back in review.
+    const panel = await newsroom['data-editor'].get(`/api/investigations/${story.id}/publishing`)
+    expect(withdrawn.body).toEqual({ ok: true, link: panel.body.links.find((l: { id: string }) => l.id === revoked.body.link.id), investigationStatus: 'in-review' })
+    expect(withdrawn.body.link).toMatchObject({ state: 'withdrawn', url: null })
+    expect((await newsroom['data-editor'].get(`/api/investigations/${story.id}`)).body.status).toBe('in-review')
 
     const expiring = await newsroom['data-editor'].post(`/api/investigations/${story.id}/publish`, { expiresAt: new Date(Date.now() + 3600_000).toISOString() })
     expect((await new Client().get(`/api/public/${tokenOf(expiring.body.url)}`)).status).toBe(200)
