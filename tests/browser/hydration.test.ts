@@ -4,7 +4,7 @@ import { baseUrl } from '../support/api'
 import { launchBrowser, screenshot, signInThroughPage, waitForApp } from '../support/browser'
 import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
 // The server draws a page and the browser takes it over: Vue's hydration expects its first render
@@ -18,6 +18,8 @@ import type { Story } from '../support/stories'
 let browser: Browser
 let newsroom: TestNewsroom
 let story: Story
+let published: Story
+let removedBlockId: string
 
 const text = (value: string) => ({ type: 'text', text: value })
 const paragraph = (value: string) => ({ type: 'doc', content: [{ type: 'paragraph', content: [text(value)] }] })
@@ -34,6 +36,17 @@ beforeAll(async () => {
   expectStatus(await newsroom['data-editor'].post(`/api/investigations/${story.id}/threads`, { subjectType: 'review', subjectId: story.analysisBlockId, parts: [text('Why the first digit and not the first two?')] }), 201)
   expectStatus(await saveBlock(newsroom.reporter, story, story.analysisBlockId, { settings: { ...story.settings, test: 'second-digit' } }), 200)
   expectStatus(await saveBlock(newsroom.reporter, story, story.proseBlockId, { content: paragraph('The ledger lists invented harbour works, twice.') }), 200)
+  // A removed block, whose history offers to bring it back.
+  const spare = await newsroom.reporter.post(`/api/investigations/${story.id}/blocks`, { kind: 'prose', content: paragraph('A paragraph that goes.') })
+  expectStatus(spare, 201)
+  removedBlockId = spare.body.id
+  expectStatus(await newsroom.reporter.delete(`/api/blocks/${removedBlockId}`), 200)
+  // And a published story: its method approved, its claim verified (so its passage and the analysis are locked), a live link.
+  published = await writeStory(newsroom.reporter, newsroom.id, await uploadPayments(newsroom.reporter, newsroom.id))
+  expectStatus(await postClaim(newsroom.reporter, published), 201)
+  expectStatus(await newsroom['data-editor'].post(`/api/blocks/${published.analysisBlockId}/review`, { decision: 'approved' }), 200)
+  expectStatus(await newsroom['fact-checker'].post(`/api/claims/${published.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
+  expectStatus(await newsroom['data-editor'].post(`/api/investigations/${published.id}/publish`, {}), 201)
 })
 afterAll(async () => {
   await browser?.close()
@@ -71,6 +84,10 @@ describe.each([1366, 390])('the first frame at %i px', (width) => {
       'investigation at the claim': `/investigations/${story.id}#claim-${story.claimId}`,
       'text block history': `/investigations/${story.id}/blocks/${story.proseBlockId}/history`,
       'analysis block history': `/investigations/${story.id}/blocks/${story.analysisBlockId}/history`,
+      'removed block history': `/investigations/${story.id}/blocks/${removedBlockId}/history`,
+      'published investigation': `/investigations/${published.id}`,
+      'published investigation at the method': `/investigations/${published.id}#review-${published.analysisBlockId}`,
+      'locked analysis block history': `/investigations/${published.id}/blocks/${published.analysisBlockId}/history`,
     }
     const found: Record<string, string[]> = {}
     for (const [name, path] of Object.entries(pages)) {
