@@ -48,9 +48,19 @@ describe('the datasets of a newsroom', () => {
     await expect.poll(() => page.getByRole('alert').filter({ hasText: 'uses this dataset' }).count()).toBe(1)
     await screenshot(page, 'dataset-actions-refused-delete')
 
+    // One request makes the draft with its first analysis, so no refusal between two can leave an empty draft behind.
+    const writes: string[] = []
+    page.on('request', (request) => {
+      if (request.method() === 'POST' && request.url().includes('/api/investigations')) writes.push(new URL(request.url()).pathname)
+    })
     await page.getByRole('button', { name: 'Start an investigation from it' }).click()
     await page.waitForURL(/\/investigations\//)
     await expect.poll(() => page.title()).toBe('On Ferry subsidies · Mantissa')
+    expect(writes).toEqual(['/api/investigations'])
+    const draft = await desk.reporter.get(`/api/investigations/${new URL(page.url()).pathname.split('/').pop()}`)
+    expect(draft.body.blocks.map((b: { kind: string, settings: unknown }) => [b.kind, b.settings])).toEqual([
+      ['prose', null], ['analysis', { datasetId: used, column: 'amount', test: 'first-digit' }],
+    ])
     await page.close()
   })
 
