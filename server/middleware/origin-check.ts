@@ -18,7 +18,7 @@ export default defineEventHandler((event) => {
 function foreignSource(event: H3Event): string | null {
   // Behind a proxy the Host header may be the app server's own; the configured address is what
   // people open. Hosts are compared, not schemes: a TLS proxy talks plain http to the app.
-  const own = new Set([getRequestHeader(event, 'host'), urlOf(useRuntimeConfig(event).publicUrl)?.host].filter(Boolean))
+  const own = new Set([getRequestHeader(event, 'host'), urlOf(useRuntimeConfig().publicUrl)?.host].filter(Boolean))
   const origin = getRequestHeader(event, 'origin')
   if (origin) {
     if (origin === 'null') return 'a page that hides its origin'

@@ -46,15 +46,12 @@ export function binomialRange(n: number, p: number): { low: number, high: number
   return { low: binomialQuantile(0.025, n, p), high: binomialQuantile(0.975, n, p) }
 }
 
-/**
- * Bins with count, share of n, expectation, 95% range and Z, from counts and expected shares in key order.
- * Without `ranges`, low and high stay null: the two binomial quantiles per bin are most of the work.
- */
-export function buildBins(n: number, keys: readonly string[], counts: readonly number[], expectedShares: readonly number[], ranges = true): Bin[] {
+/** Bins with count, share of n, expectation, 95% range and Z, from counts and expected shares in key order. */
+export function buildBins(n: number, keys: readonly string[], counts: readonly number[], expectedShares: readonly number[]): Bin[] {
   return keys.map((key, i) => {
     const count = counts[i]!
     const p = expectedShares[i]!
-    const { low, high } = ranges ? binomialRange(n, p) : { low: null, high: null }
+    const { low, high } = binomialRange(n, p)
     return {
       key,
       count,

@@ -5,6 +5,15 @@
  * stricter "at least 5 in every bin" is a common simplification of the same rule.)
  */
 export function cochranMinimum(shares: readonly number[]): number {
+  let minimum = minimums.get(shares)
+  if (minimum === undefined) minimums.set(shares, minimum = cochranOf(shares))
+  return minimum
+}
+
+/** Per array of shares (a test's own, read for every group): worked out once. */
+const minimums = new WeakMap<readonly number[], number>()
+
+function cochranOf(shares: readonly number[]): number {
   const ascending = [...shares].sort((a, b) => a - b)
   const allowedUnderFive = Math.floor(0.2 * shares.length)
   return Math.max(Math.ceil(1 / ascending[0]!), Math.ceil(5 / ascending[allowedUnderFive]!))

@@ -43,26 +43,34 @@ export function keyText(test: DistributionTest, key: number | string): string {
   return test === 'last-two-digits' ? String(key).padStart(2, '0') : String(key)
 }
 
-/** Counts keyed by a digit field → bins and every statistic of a distribution test (`ranges`: see buildBins). */
-export function runDistributionTest(test: DistributionTest, counts: DistributionCounts, sign: SignFilter, ranges = true): TestOutcome {
-  const definition = DISTRIBUTIONS[test]
-  const index = new Map(definition.keys.map((key, i) => [key, i]))
-  const binCounts = definition.keys.map(() => 0)
+/** Each test's bin index by key, as a number and as its text ("05"): built once, read for every set of counts. */
+const BIN_INDEX = byDistribution(test => new Map<number | string, number>(DISTRIBUTIONS[test].keys.flatMap((key, i) => [[key, i], [Number(key), i]])))
+
+/** Counts keyed by a digit field → per-bin counts in key order, and how many values have no key. */
+function binCountsOf(test: DistributionTest, counts: DistributionCounts, sign: SignFilter) {
+  const index = BIN_INDEX[test]
+  const binCounts = new Array<number>(DISTRIBUTIONS[test].keys.length).fill(0)
   let belowMinimum = 0
+  let n = 0
   for (const { key, count } of counts.keys) {
     if (key === null) {
       belowMinimum += count
       continue
     }
-    const i = index.get(keyText(test, key))
+    const i = index.get(key) ?? index.get(keyText(test, key))
     if (i === undefined) throw new RangeError(`Key ${key} is not a bin of the ${test} test`)
     binCounts[i]! += count
+    n += count
   }
-  const n = binCounts.reduce((a, b) => a + b, 0)
   assertCountsAddUp(n + belowMinimum, counts.status, sign)
+  return { binCounts, n, excluded: excludedOf(counts.status, sign, belowMinimum) }
+}
 
-  const excluded = excludedOf(counts.status, sign, belowMinimum)
-  const bins = buildBins(n, definition.keys, binCounts, definition.shares, ranges)
+/** Counts keyed by a digit field → bins and every statistic of a distribution test. */
+export function runDistributionTest(test: DistributionTest, counts: DistributionCounts, sign: SignFilter): TestOutcome {
+  const definition = DISTRIBUTIONS[test]
+  const { binCounts, n, excluded } = binCountsOf(test, counts, sign)
+  const bins = buildBins(n, definition.keys, binCounts, definition.shares)
   if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
   const shares = bins.map(bin => bin.share)
   const chi = chiSquare(binCounts, definition.shares)
@@ -77,4 +85,17 @@ export function runDistributionTest(test: DistributionTest, counts: Distribution
     arc: definition.arc && counts.arc ? mantissaArc(counts.arc, n) : null,
     binsOutside: binsOutsideOf(bins, n),
   }
+}
+
+/**
+ * What a group's ranking reads of a distribution test (rankGroups): n, the MAD and chi-square, the
+ * same numbers runDistributionTest gives, without the bins, KS and arc that no ranking shows. A
+ * grouped test asks this of every group, so it is kept to what is read.
+ */
+export function rankingOutcome(test: DistributionTest, counts: DistributionCounts, sign: SignFilter): TestOutcome {
+  const definition = DISTRIBUTIONS[test]
+  const { binCounts, n, excluded } = binCountsOf(test, counts, sign)
+  if (n === 0) return { ...NO_STATISTICS, n, excluded, bins: [] }
+  const chi = chiSquare(binCounts, definition.shares)
+  return { ...NO_STATISTICS, n, excluded, bins: [], chiSquare: chi, mad: madOf(test, n, binCounts.map(count => count / n), definition.shares, chi.p) }
 }

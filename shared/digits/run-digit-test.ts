@@ -1,7 +1,7 @@
 import {
   countDistribution, countDuplicates, countRound, countSummation, countThreshold, profileOf, recordsOf, type Cell,
 } from './count-records'
-import { runDistributionTest } from './distribution-tests'
+import { rankingOutcome, runDistributionTest } from './distribution-tests'
 import { DEFAULT_DUPLICATES_SHOWN, runDuplicatesTest } from './duplicates'
 import { rankGroups } from './groups'
 import { detectNumberStyle } from './number-style'
@@ -46,8 +46,8 @@ export interface DigitTestRequest<T extends TestName = TestName> {
 interface Options {
   threshold?: ThresholdOptions
   duplicatesShown: number
-  /** Whether bins carry their 95% ranges; a group's ranking reads only its MAD and chi-square. */
-  binRanges: boolean
+  /** A group's ranking reads only n, the MAD and chi-square (rankingOutcome). */
+  ranking: boolean
 }
 
 interface TestHandler<C> {
@@ -63,7 +63,7 @@ function requireThreshold(options: Options): ThresholdOptions {
 function distribution(test: DistributionTest): TestHandler<TestCountsMap[DistributionTest]> {
   return {
     count: (records, sign) => countDistribution(test, records, sign),
-    run: (counts, sign, options) => runDistributionTest(test, counts, sign, options.binRanges),
+    run: (counts, sign, options) => (options.ranking ? rankingOutcome(test, counts, sign) : runDistributionTest(test, counts, sign)),
   }
 }
 
@@ -101,7 +101,7 @@ function evaluate<T extends TestName>(test: T, input: TestInput<T>, sign: SignFi
 export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): TestResult {
   const { test, input } = request
   const sign = request.sign ?? 'positive'
-  const options: Options = { threshold: request.threshold, duplicatesShown: request.duplicatesShown ?? DEFAULT_DUPLICATES_SHOWN, binRanges: true }
+  const options: Options = { threshold: request.threshold, duplicatesShown: request.duplicatesShown ?? DEFAULT_DUPLICATES_SHOWN, ranking: false }
   const style = 'values' in input ? input.style ?? detectNumberStyle(input.values) : DOT_STYLE
   const { outcome, profile } = evaluate(test, input, sign, options, style)
   const result: TestResult = {
@@ -115,8 +115,8 @@ export function runDigitTest<T extends TestName>(request: DigitTestRequest<T>): 
   if (request.groups) {
     if (!isGroupable(test)) throw new RangeError(`The ${test} test does not rank groups`)
     const minSize = request.groups.minSize ?? MINIMUM_VALUES[test]!.stop
-    // Ranges would be two binomial quantiles per bin of every group (most of a grouped test's time), unread by the ranking.
-    const ranking = { ...options, binRanges: false }
+    // Bins, their ranges, KS and the arc of every group would be most of a grouped test's time, unread by the ranking.
+    const ranking = { ...options, ranking: true }
     const outcomes = request.groups.items.map(item => ({ key: item.key, outcome: evaluate(test, item.input, sign, ranking, style).outcome }))
     const ranked = rankGroups(test as GroupableTest, outcomes, minSize)
     result.groups = ranked.groups

@@ -2,6 +2,7 @@ import type { H3Event } from 'h3'
 import { Op } from 'sequelize'
 import type { Transaction } from 'sequelize'
 import type { SessionDTO, UserDTO } from '#shared/types/dto'
+import { UnsealedCookies } from './unsealed-cookies'
 
 type SessionRow = InstanceType<ReturnType<typeof useDb>['models']['Session']>
 
@@ -25,7 +26,7 @@ const TOUCH_EVERY_MS = 5 * 60 * 1000
  */
 export async function openSession(event: H3Event, user: UserDTO, secondFactor: boolean) {
   const token = createToken()
-  const maxAgeSeconds = Number(useRuntimeConfig(event).session.maxAge)
+  const maxAgeSeconds = Number(useRuntimeConfig().session.maxAge)
   await useDb().models.Session.create({
     userId: user.id,
     tokenHash: hashToken(token),
@@ -45,7 +46,7 @@ export async function openSession(event: H3Event, user: UserDTO, secondFactor: b
  */
 export async function currentSession(event: H3Event): Promise<SignedIn | null> {
   if (event.context.signedIn !== undefined) return event.context.signedIn
-  const data = await getUserSession(event)
+  const data = await cookieSession(event)
   const token = data.secure?.token
   let found: SignedIn | null = null
   if (data.user && token) {
@@ -59,6 +60,25 @@ export async function currentSession(event: H3Event): Promise<SignedIn | null> {
   }
   event.context.signedIn = found
   return found
+}
+
+let unsealed: UnsealedCookies | undefined
+
+/**
+ * nuxt-auth-utils' getUserSession, with the cookie unsealed once per server (unsealed-cookies.ts):
+ * h3 reads a session it finds in event.context.sessions instead of unsealing the cookie again.
+ */
+async function cookieSession(event: H3Event) {
+  const config = useRuntimeConfig().session
+  const name = String(config.name ?? 'nuxt-session')
+  unsealed ??= new UnsealedCookies(Number(config.maxAge) * 1000)
+  const sealed = getCookie(event, name)
+  const sessions = (event.context.sessions ??= Object.create(null) as NonNullable<H3Event['context']['sessions']>)
+  const known = sealed && !sessions[name] ? unsealed.get(sealed) : undefined
+  if (known) sessions[name] = known
+  const data = await getUserSession(event)
+  if (sealed && !known && sessions[name]) unsealed.remember(sealed, sessions[name])
+  return data
 }
 
 /** Ends the request's own session (sign out) and clears its cookie. */

@@ -1,8 +1,10 @@
+import { DISTRIBUTIONS } from '#shared/digits'
 import type { ColumnProfile, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
 import { NO_KEY, largest } from './column-records'
 import type { ColumnRecords } from './column-records'
 import { signCode, STATUS_CODES } from './digit-columns'
 import type { CodeFilter } from './digit-query'
+import { candidates } from './value-buckets'
 
 /** What to count: a distribution test of one sign, the records the filters keep, by the codes of one column. */
 export interface CountSpec {
@@ -51,20 +53,26 @@ function keptBy(codes: Int32Array, filter: CodeFilter, count: number, from: Uint
   return out.subarray(0, n)
 }
 
-function keptByRange(value: Float64Array, range: ValueRange, count: number, from: Uint32Array | null): Uint32Array {
+/**
+ * The records a range of the tested column keeps, among `from` (all records when null). Without
+ * `from`, a narrow range reads only the value buckets it touches (value-buckets.ts).
+ */
+function keptByRange(records: ColumnRecords, range: ValueRange, from: Uint32Array | null): Uint32Array {
   const min = range.min ?? -Infinity
   const max = range.max ?? Infinity
   const below = range.below ?? Infinity
-  const out = new Uint32Array(from ? from.length : count)
+  const value = records.value
+  const among = from ?? candidates(records.buckets, min, Math.min(max, below), records.count)
+  const out = new Uint32Array(among ? among.length : records.count)
   let n = 0
-  if (from) {
-    for (let j = 0; j < from.length; j++) {
-      const v = value[from[j]!]!
-      if (v >= min && v <= max && v < below) out[n++] = from[j]!
+  if (among) {
+    for (let j = 0; j < among.length; j++) {
+      const v = value[among[j]!]!
+      if (v >= min && v <= max && v < below) out[n++] = among[j]!
     }
   }
   else {
-    for (let i = 0; i < count; i++) {
+    for (let i = 0; i < records.count; i++) {
       const v = value[i]!
       if (v >= min && v <= max && v < below) out[n++] = i
     }
@@ -85,7 +93,7 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
     if (!codes) return null
     kept = keptBy(codes, filter, records.count, kept)
   }
-  if (spec.range) kept = keptByRange(records.value, spec.range, records.count, kept)
+  if (spec.range) kept = keptByRange(records, spec.range, kept)
   const groupCodes = spec.groupBy === null ? null : records.codes.get(spec.groupBy)
   if (groupCodes === undefined) return null
 
@@ -93,27 +101,21 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
   const groupOf = new Int32Array(groupCodes ? records.largestCode.get(spec.groupBy!)! + 2 : 1).fill(-1)
   const groupKeys: number[] = []
   const keyCount = KEY_COUNT[spec.test]
-  let status = new Float64Array(5 * 16)
-  let keyCounts = new Float64Array(keyCount * 16)
-  let sums = new Float64Array(2 * 16)
-  const newGroup = (code: number) => {
-    const g = groupKeys.length
-    groupKeys.push(code - 1)
-    if (status.length < (g + 1) * 5) {
-      const more = (old: Float64Array) => {
-        const next = new Float64Array(old.length * 2)
-        next.set(old)
-        return next
-      }
-      ;[status, keyCounts, sums] = [more(status), more(keyCounts), more(sums)]
-    }
-    return (groupOf[code] = g)
-  }
+  // Room for 16 groups, doubled when full; kept in plain locals (no closure), as the loop reads them for every record.
+  let room = 16
+  let status: Float64Array<ArrayBuffer> = new Float64Array(5 * room)
+  let keyCounts = new Float64Array(keyCount * room)
+  let sums = new Float64Array(2 * room)
 
   const wanted = signCode(spec.sign)
   const keyAt = KEY_AT[spec.test]
-  const { status: statuses, sign: signs, value, keys, firstThree, integerDigits, trailingZeros, fractionDigits, mantissa } = records
+  // The arc's sums only for the tests that read it (the first-digit family).
+  const arc = DISTRIBUTIONS[spec.test].arc
+  const { status: statuses, sign: signs, value, keys, firstThree, integerDigits, trailingZeros, fractionDigits, cos, sin } = records
   const lengths = new Float64Array(LENGTH_SLOTS)
+  // Read once into locals: the loop below runs for every record.
+  const NUMBER = STATUS_CODES.number
+  const NONE = NO_KEY
   let n = 0
   let whole = 0
   let round = 0
@@ -126,9 +128,18 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
     const i = kept ? kept[j]! : j
     const code = groupCodes ? groupCodes[i]! + 1 : 0
     let g = groupOf[code]!
-    if (g < 0) g = newGroup(code)
+    if (g < 0) {
+      g = groupOf[code] = groupKeys.length
+      groupKeys.push(code - 1)
+      if (g === room) {
+        room *= 2
+        status = grown(status, 5 * room)
+        keyCounts = grown(keyCounts, keyCount * room)
+        sums = grown(sums, 2 * room)
+      }
+    }
     const s = statuses[i]!
-    if (s !== STATUS_CODES.number) {
+    if (s !== NUMBER) {
       // blank, unreadable and zero are the first three of a group's five status counts.
       status[g * 5 + s]!++
       continue
@@ -136,16 +147,17 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
     const sg = signs[i]!
     status[g * 5 + (sg > 0 ? 3 : 4)]!++
     if (sg !== wanted) continue
-    const key = keyAt < 0 ? (firstThree[i] || -1) : (keys[i * 4 + keyAt] === NO_KEY ? -1 : keys[i * 4 + keyAt]!)
+    const key = keyAt < 0 ? (firstThree[i] || -1) : (keys[i * 4 + keyAt] === NONE ? -1 : keys[i * 4 + keyAt]!)
     if (key >= 0) {
       keyCounts[g * keyCount + key]!++
-      // As SQL's cos(2 * pi() * mantissa), of the mantissa PostgreSQL keeps as real.
-      const angle = 2 * Math.PI * mantissa[i]!
-      sums[g * 2]! += Math.cos(angle)
-      sums[g * 2 + 1]! += Math.sin(angle)
+      if (arc) {
+        sums[g * 2]! += cos[i]!
+        sums[g * 2 + 1]! += sin[i]!
+      }
     }
     n++
-    lengths[Math.min(integerDigits[i]!, LENGTH_SLOTS - 1)]!++
+    const length = integerDigits[i]!
+    lengths[length < LENGTH_SLOTS ? length : LENGTH_SLOTS - 1]!++
     if (fractionDigits[i] === 0) {
       whole++
       if (trailingZeros[i]! >= 2) round++
@@ -164,7 +176,9 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
     else if (abs === high) atHigh++
   }
 
-  const cells = groupKeys.map((code, g) => ({ code, counts: countsOf(status, keyCounts, sums, g, keyCount, spec.sign) }))
+  // A plain loop: a closure over status, keyCounts or sums would move them out of registers for the whole pass above.
+  const cells: { code: number, counts: DistributionCounts }[] = []
+  for (let g = 0; g < groupKeys.length; g++) cells.push({ code: groupKeys[g]!, counts: countsOf(status, keyCounts, arc ? sums : null, g, keyCount, spec.sign) })
   // A double's shortest text is the plain decimal for the values ColumnRecords holds.
   const profile: Omit<ColumnProfile, 'topValue'> | null = n
     ? { n, min: String(low), max: String(high), atMin: atLow, atMax: atHigh, whole, roundHundreds: round, commonLength: Math.max(...lengths) }
@@ -175,8 +189,17 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
   return { cells, profile, lengths: byLength }
 }
 
-/** One group's counts in the engine's shape, as SQL's GROUP BY gives them (a null key for values the test has none for). */
-function countsOf(status: Float64Array, keyCounts: Float64Array, sums: Float64Array, g: number, keyCount: number, sign: SignFilter): DistributionCounts {
+function grown(old: Float64Array, length: number): Float64Array<ArrayBuffer> {
+  const next = new Float64Array(length)
+  next.set(old)
+  return next
+}
+
+/**
+ * One group's counts in the engine's shape, as SQL's GROUP BY gives them (a null key for values the
+ * test has none for); the arc's sums only when they were counted.
+ */
+function countsOf(status: Float64Array, keyCounts: Float64Array, sums: Float64Array | null, g: number, keyCount: number, sign: SignFilter): DistributionCounts {
   const at = g * 5
   const counted: StatusCounts = { blank: status[at]!, unreadable: status[at + 1]!, zero: status[at + 2]!, positive: status[at + 3]!, negative: status[at + 4]! }
   const keys: DistributionCounts['keys'] = []
@@ -188,5 +211,5 @@ function countsOf(status: Float64Array, keyCounts: Float64Array, sums: Float64Ar
     withKey += count
   }
   if (counted[sign] > withKey) keys.push({ key: null, count: counted[sign] - withKey })
-  return { status: counted, keys, arc: { cos: sums[g * 2]!, sin: sums[g * 2 + 1]! } }
+  return { status: counted, keys, ...(sums && { arc: { cos: sums[g * 2]!, sin: sums[g * 2 + 1]! } }) }
 }

@@ -13,8 +13,12 @@ export function bucketOf<T>(map: Grouped<T>, key: string | null, make: () => T):
 
 export const emptyStatus = (): StatusCounts => ({ blank: 0, unreadable: 0, zero: 0, positive: 0, negative: 0 })
 
-/** The sum of several sets of counts: a group's cells, or the whole as the sum of its groups. */
+/**
+ * The sum of several sets of counts: a group's cells, or the whole as the sum of its groups. One set
+ * is its own sum (counts are never changed once made; the cube's are frozen).
+ */
 export function mergeGroups(groups: Iterable<DistributionCounts>): DistributionCounts {
+  if (Array.isArray(groups) && groups.length === 1) return groups[0] as DistributionCounts
   const status = emptyStatus()
   const keys = new Map<number | string | null, number>()
   const arc = { cos: 0, sin: 0 }

@@ -9,9 +9,10 @@ import type { DigitTestRequestBody } from '#shared/schemas/dataset'
 import type { ColumnDTO } from '#shared/types/dataset'
 import type { Dataset, DatasetColumn } from '../../models'
 import { datasetColumns } from './catalog'
-import { cubeFactSlices, cubeKeyIndex, cubeSlices, countsFromCube, profileFromCells } from './digit-cube'
+import { cubeKeyIndex, profileFromCells } from './digit-cube'
+import { cellsPassing, cubeCells } from './cube-cells'
 import { FIELD_COLUMNS, numbersOfSign as ofSign, signCode, STATUS_CODES, statusCountOf } from './digit-columns'
-import { buildDigitQuery, codeCondition, columnByName, decodeGroups, rawSelect, selectRows } from './digit-query'
+import { buildDigitQuery, columnByName, decodeGroups, rawSelect, selectRows } from './digit-query'
 import type { CodeFilter, DigitQuery } from './digit-query'
 import { bucketOf, emptyStatus, groupCells, mergeGroups } from './count-merge'
 import type { Grouped } from './count-merge'
@@ -134,17 +135,9 @@ interface CubeCut {
  * (first -1), by one text column, or by a pair of them; each cell with the codes it stands for, and
  * the suitability facts of the values the cells hold.
  */
-async function cubeCells(test: DistributionTest, datasetId: string, columnPos: number, cut: CubeCut, sign: SignFilter, filters: CodeFilter[]) {
-  const slices = cubeSlices(test, sign)
-  const facts = cubeFactSlices(sign)
-  const kept = filters.map(filter => ` AND ${codeCondition(filter.position === cut.first ? 'group_code' : 'pair_code', filter)}`).join('')
-  const rows = await rawSelect<{ first: number, second: number, status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }>(
-    `SELECT group_code AS first, pair_code AS second, ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
-     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = :first AND pair_pos = :second${kept}`,
-    { datasetId, columnPos, ...cut },
-  )
-  const cells = rows.map(row => ({ codes: [row.first, row.second] as const, counts: countsFromCube(test, sign, row) }))
-  return { cells, profile: profileFromCells(rows.map((row, i) => ({ n: cells[i]!.counts.status[sign], facts: row.facts, ends: row.ends }))) }
+async function cutCells(test: DistributionTest, datasetId: string, columnPos: number, cut: CubeCut, sign: SignFilter, filters: CodeFilter[]) {
+  const cells = cellsPassing(await cubeCells(test, sign, datasetId, columnPos, cut.first, cut.second), filters, cut.first)
+  return { cells, profile: profileFromCells(cells) }
 }
 
 /** The cells a question needs, when the cube holds them: its filters and grouping touch at most two coded text columns counted together. */
@@ -168,10 +161,10 @@ function cubeCut(query: DigitQuery, stored: NonNullable<Awaited<ReturnType<typeo
 async function cubeDistribution(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter): Promise<{ groups: Grouped<DistributionCounts>, profile: CellProfile | null } | null> {
   const cut = stored && cubeCut(query, stored)
   if (!cut) return null
-  const { cells, profile } = await cubeCells(test, datasetId, columnPos, cut, sign, query.codeFilters!)
+  const { cells, profile } = await cutCells(test, datasetId, columnPos, cut, sign, query.codeFilters!)
   // Each cell counts toward the group of its code in the grouping column.
-  const side = query.decoding?.position === cut.first ? 0 : 1
-  return { groups: await groupCells(datasetId, query.decoding, cells.map(c => ({ code: c.codes[side], counts: c.counts }))), profile }
+  const first = query.decoding?.position === cut.first
+  return { groups: await groupCells(datasetId, query.decoding, cells.map(c => ({ code: first ? c.first : c.second, counts: c.counts }))), profile }
 }
 
 /**
@@ -181,7 +174,7 @@ async function cubeDistribution(test: DistributionTest, datasetId: string, store
 async function cellsOf(test: DistributionTest, datasetId: string, stored: Awaited<ReturnType<typeof storedColumn>>, columnPos: number, query: DigitQuery, sign: SignFilter, scan = (q: DigitQuery) => statusAndDistribution(test, q, sign, Boolean(q.group)).then(g => decodeGroups(q, g))) {
   const cells = await cubeDistribution(test, datasetId, stored, columnPos, query, sign)
     ?? await ladderDistribution(test, datasetId, stored?.ladder ?? null, columnPos, query, sign, scan)
-  if (cells && 'edgesInMemory' in cells && cells.edgesInMemory && columnScanMode() === 'verify') await verifyInMemory(cells, query, sign, scan)
+  if (cells && 'edgesInMemory' in cells && cells.edgesInMemory && columnScanMode() === 'verify') await verifyInMemory(test, cells, query, sign, scan)
   if (cells) return { ...cells, countedFrom: 'import counts' as const }
   const memory = await inMemory(test, datasetId, columnPos, query, sign, scan)
   return memory && { ...memory, countedFrom: 'records in memory' as const }
@@ -193,13 +186,13 @@ export type CountedFrom = 'import counts' | 'records in memory' | 'records in SQ
 /** The counts from the column's records in memory (column-scan.ts); in "verify" mode checked against SQL's. */
 async function inMemory(test: DistributionTest, datasetId: string, columnPos: number, query: DigitQuery, sign: SignFilter, scan: (q: DigitQuery) => Promise<Grouped<DistributionCounts>>) {
   const answer = await scanDistribution(test, datasetId, columnPos, query, sign)
-  if (answer && columnScanMode() === 'verify') await verifyInMemory(answer, query, sign, scan)
+  if (answer && columnScanMode() === 'verify') await verifyInMemory(test, answer, query, sign, scan)
   return answer
 }
 
 /** "verify" mode: an answer counted (in part) in memory is checked against SQL's count of the same records. */
-async function verifyInMemory(answer: Parameters<typeof assertSameCounts>[0], query: DigitQuery, sign: SignFilter, scan: (q: DigitQuery) => Promise<Grouped<DistributionCounts>>) {
-  assertSameCounts(answer, { groups: await scan(query), profile: await profileCounts(query, sign) })
+async function verifyInMemory(test: DistributionTest, answer: Parameters<typeof assertSameCounts>[0], query: DigitQuery, sign: SignFilter, scan: (q: DigitQuery) => Promise<Grouped<DistributionCounts>>) {
+  assertSameCounts(answer, { groups: await scan(query), profile: await profileCounts(query, sign) }, DISTRIBUTIONS[test].arc)
 }
 
 /**
@@ -316,7 +309,7 @@ export async function runDatasetTest(dataset: Dataset, body: DigitTestRequestBod
   }
   else {
     // The status counts and the suitability facts, from the import's cells where they hold them.
-    const cells = filtered ? await cellsOf('first-digit', dataset.id, stored, tested.position, whole, sign) : null
+    const cells = await cellsOf('first-digit', dataset.id, stored, tested.position, whole, sign)
     profile = suitabilityProfile(stored, whole, sign, filtered, cells?.profile ?? undefined)
     const repeats = body.test !== 'duplicates' ? null : filtered ? await codeRepeats(dataset.id, tested.position, whole.codeFilters, sign) : stored?.repeats?.[sign]
     report?.(repeats ? 'import counts' : 'records in SQL')

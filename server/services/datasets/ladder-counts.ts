@@ -3,14 +3,13 @@ import type { ValueLadder } from '#shared/types/dataset'
 import { mergeGroups } from './count-merge'
 import type { Grouped } from './count-merge'
 import { numbersOfSign } from './digit-columns'
-import { cubeFactSlices, cubeSlices, countsFromCube, factsCell, profileFromCells } from './digit-cube'
-import { intArray, rawSelect } from './digit-query'
+import { factsCell, profileFromCells } from './digit-cube'
+import { cellsPassing, cubeCells } from './cube-cells'
+import { rawSelect } from './digit-query'
 import type { DigitQuery } from './digit-query'
 import { countRecords } from './column-count'
 import { recordsInMemory } from './column-scan'
 import { LADDER_FINE, rangeOnRungs, rungsOf } from './value-ladder'
-
-type CellRow = { status: number[], keys: number[], arc: number[], facts: number[] | null, ends: string[] | null }
 
 /**
  * A distribution test's counts when its only filters are ranges of the tested column and it has no
@@ -27,14 +26,8 @@ export async function ladderDistribution(
   const cut = rangeOnRungs(rungsOf(ladder.bounds), range)
   if (!cut) return null
 
-  const slices = cubeSlices(test, sign)
-  const facts = cubeFactSlices(sign)
-  const cellRows = rawSelect<CellRow>(
-    `SELECT ${slices.status} AS status, ${slices.keys} AS keys, ${slices.arc} AS arc, ${facts.facts} AS facts, ${facts.ends} AS ends
-     FROM digit_cube WHERE dataset_id = :datasetId AND column_pos = :columnPos AND group_pos = ${LADDER_FINE}
-       AND pair_pos = -1 AND group_code = ANY(${intArray(cut.codes)})`,
-    { datasetId, columnPos },
-  )
+  const rungs = cubeCells(test, sign, datasetId, columnPos, LADDER_FINE, -1)
+    .then(cells => cellsPassing(cells, [{ position: LADDER_FINE, codes: cut.codes, negate: false }], LADDER_FINE))
   // The records in the parts of the rungs beside: [min, low) and [high, max], each an index range.
   const parts = [
     cut.below && '(d.value >= :partMin AND d.value < CAST(:partBelow AS numeric))',
@@ -53,16 +46,15 @@ export async function ladderDistribution(
     cut.below && { min: cut.below.min, below: Number(cut.below.below) },
     cut.above && { min: Number(cut.above.from), max: cut.above.max },
   ].flatMap(range => (range ? [countRecords(records, { test, sign, filters: [], range, groupBy: null })!] : []))
-  const [rows, edgeCounts, edgeFacts] = await Promise.all([
-    cellRows,
+  const [cells, edgeCounts, edgeFacts] = await Promise.all([
+    rungs,
     inMemory ? inMemory.flatMap(part => part.cells.map(c => c.counts)) : edge ? scan(edge).then(groups => [...groups.values()]) : [],
     inMemory
       ? inMemory.flatMap(({ profile, lengths }) => (profile ? [factsCell({ ...profile, round: profile.roundHundreds, lengths })] : []))
       : edge ? factsOf(edge, sign).then(facts => [facts]) : [],
   ])
-  const counts = [...rows.map(row => countsFromCube(test, sign, row)), ...edgeCounts]
-  const cellFacts = rows.map(row => ({ n: countsFromCube(test, sign, row).status[sign], facts: row.facts, ends: row.ends }))
-  return { groups: new Map([[null, mergeGroups(counts)]]), profile: profileFromCells([...cellFacts, ...edgeFacts]), edgesInMemory: Boolean(inMemory) }
+  const counts = [...cells.map(cell => cell.counts), ...edgeCounts]
+  return { groups: new Map([[null, mergeGroups(counts)]]), profile: profileFromCells([...cells, ...edgeFacts]), edgesInMemory: Boolean(inMemory) }
 }
 
 /** The suitability facts of the records a query keeps, of one sign, in a cell's layout (factsCell), in one pass over them. */
