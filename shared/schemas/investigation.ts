@@ -3,7 +3,6 @@ import { TEST_NAMES } from '../digits'
 import { filterSchema, periodSchema } from './dataset'
 import { oneLine } from './text'
 
-
 export const investigationUpdateSchema = z.object({
   // One line: a title is shown in headings, lists and the published methodology.
   title: z.string().transform(oneLine).pipe(z.string().min(1, 'The title cannot be empty').max(300)).optional(),
