@@ -1,10 +1,11 @@
+import { randomUUID } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { baseUrl } from '../support/api'
 import { launchBrowser, screenshot, signInThroughPage, waitForApp } from '../support/browser'
 import { createTestNewsroom, PASSWORD } from '../support/newsroom'
 import type { TestNewsroom } from '../support/newsroom'
-import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { AFTER_CLAIM, BEFORE_CLAIM, CLAIM_TEXT, expectStatus, postClaim, proseDoc, saveBlock, uploadPayments, writeStory } from '../support/stories'
 import type { Story } from '../support/stories'
 
 // The server draws a page and the browser takes it over: Vue's hydration expects its first render
@@ -13,13 +14,15 @@ import type { Story } from '../support/stories'
 // mismatch) and leaves what the server drew in place, so a reader sees a conversation with two
 // messages offered as "Write the first message" until something redraws it. These pages draw
 // conversations, claims and compared versions from data the server has too, so none may differ.
-// Walked as every role at desktop (1366 px) and phone (390 px) width, as the team's rules ask.
+// The public page draws a published copy's text node by node, where two neighbouring texts must stay
+// two. Walked as every role at desktop (1366 px) and phone (390 px) width, as the team's rules ask.
 
 let browser: Browser
 let newsroom: TestNewsroom
 let story: Story
 let published: Story
 let removedBlockId: string
+let publicPath: string
 
 const text = (value: string) => ({ type: 'text', text: value })
 const paragraph = (value: string) => ({ type: 'doc', content: [{ type: 'paragraph', content: [text(value)] }] })
@@ -42,11 +45,18 @@ beforeAll(async () => {
   removedBlockId = spare.body.id
   expectStatus(await newsroom.reporter.delete(`/api/blocks/${removedBlockId}`), 200)
   // And a published story: its method approved, its claim verified (so its passage and the analysis are locked), a live link.
+  // Its text holds two neighbouring runs that the public page draws as plain text: the second carries
+  // the mark of a claim never made, which a published copy leaves off.
   published = await writeStory(newsroom.reporter, newsroom.id, await uploadPayments(newsroom.reporter, newsroom.id))
+  const withNeighbours = proseDoc(BEFORE_CLAIM, { text: CLAIM_TEXT, claimId: published.claimId }, AFTER_CLAIM)
+  withNeighbours.content.push(proseDoc('Invented figures, all of them. ', { text: 'Nothing here was checked.', claimId: randomUUID() }).content[0]!)
+  expectStatus(await saveBlock(newsroom.reporter, published, published.proseBlockId, { content: withNeighbours }), 200)
   expectStatus(await postClaim(newsroom.reporter, published), 201)
   expectStatus(await newsroom['data-editor'].post(`/api/blocks/${published.analysisBlockId}/review`, { decision: 'approved' }), 200)
   expectStatus(await newsroom['fact-checker'].post(`/api/claims/${published.claimId}/verify`, { quote: CLAIM_TEXT }), 200)
-  expectStatus(await newsroom['data-editor'].post(`/api/investigations/${published.id}/publish`, {}), 201)
+  const publication = await newsroom['data-editor'].post(`/api/investigations/${published.id}/publish`, {})
+  expectStatus(publication, 201)
+  publicPath = new URL(publication.body.url).pathname
 })
 afterAll(async () => {
   await browser?.close()
@@ -88,6 +98,7 @@ describe.each([1366, 390])('the first frame at %i px', (width) => {
       'published investigation': `/investigations/${published.id}`,
       'published investigation at the method': `/investigations/${published.id}#review-${published.analysisBlockId}`,
       'locked analysis block history': `/investigations/${published.id}/blocks/${published.analysisBlockId}/history`,
+      'public page': publicPath,
     }
     const found: Record<string, string[]> = {}
     for (const [name, path] of Object.entries(pages)) {
