@@ -1,5 +1,5 @@
 import { DISTRIBUTIONS, compareDecimal, toDecimal } from '#shared/digits'
-import type { ColumnProfile as SuitabilityProfile, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
+import type { ColumnProfile as SuitabilityProfile, Decimal, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
 import type { CopyEncoder } from './copy-encoder'
 import { compareValues } from './sign-profile'
 import { LADDER_FINE } from './value-ladder'
@@ -473,13 +473,13 @@ export function cubeFactSlices(sign: SignFilter) {
  * when they were counted before cells kept these facts, or when values with 32 or more integer
  * digits share the last length slot (their commonest length is then not known).
  */
-export function profileFromCells(cells: Iterable<{ n: number, facts: number[] | null, ends: string[] | null }>): Omit<SuitabilityProfile, 'topValue'> | null {
+export function profileFromCells(cells: Iterable<{ n: number, facts: readonly number[] | null, ends: readonly string[] | null }>): Omit<SuitabilityProfile, 'topValue'> | null {
   let n = 0
   let whole = 0
   let roundHundreds = 0
   const lengths = new Array<number>(LENGTHS).fill(0)
-  let min: { text: string, count: number } | null = null
-  let max: { text: string, count: number } | null = null
+  let min: { text: string, value: Decimal, count: number } | null = null
+  let max: { text: string, value: Decimal, count: number } | null = null
   for (const cell of cells) {
     if (!cell.n) continue
     if (!cell.facts || !cell.ends || cell.facts.length !== FACTS_PER_SIGN) return null
@@ -488,16 +488,25 @@ export function profileFromCells(cells: Iterable<{ n: number, facts: number[] | 
     roundHundreds += cell.facts[FACT.round]!
     for (let i = 0; i < LENGTHS; i++) lengths[i]! += cell.facts[FACT.lengths + i]!
     const [low, high] = cell.ends as [string, string]
-    const toMin = min ? compareDecimal(toDecimal(low), toDecimal(min.text)) : -1
-    if (toMin < 0) min = { text: low, count: cell.facts[FACT.atMin]! }
+    const [lowValue, highValue] = endValues(cell.ends)
+    const toMin = min ? compareDecimal(lowValue, min.value) : -1
+    if (toMin < 0) min = { text: low, value: lowValue, count: cell.facts[FACT.atMin]! }
     else if (toMin === 0) min!.count += cell.facts[FACT.atMin]!
-    const toMax = max ? compareDecimal(toDecimal(high), toDecimal(max.text)) : 1
-    if (toMax > 0) max = { text: high, count: cell.facts[FACT.atMax]! }
+    const toMax = max ? compareDecimal(highValue, max.value) : 1
+    if (toMax > 0) max = { text: high, value: highValue, count: cell.facts[FACT.atMax]! }
     else if (toMax === 0) max!.count += cell.facts[FACT.atMax]!
   }
   if (!n || lengths[LENGTHS - 1]) return null
   return { n, min: min!.text, max: max!.text, atMin: min!.count, atMax: max!.count, whole, roundHundreds, commonLength: Math.max(...lengths) }
 }
+
+/** A cell's two ends as decimals, worked out once per ends array (the cells kept per server are frozen: cube-cells.ts). */
+function endValues(ends: readonly string[]): readonly [Decimal, Decimal] {
+  let values = parsedEnds.get(ends)
+  if (!values) parsedEnds.set(ends, values = [toDecimal(ends[0]!), toDecimal(ends[1]!)])
+  return values
+}
+const parsedEnds = new WeakMap<readonly string[], readonly [Decimal, Decimal]>()
 
 /**
  * Suitability facts counted from records (one sign, absolute values) in the layout of a cell's, so
