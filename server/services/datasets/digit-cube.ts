@@ -106,7 +106,8 @@ class Slots {
     const side = r.sign > 0 ? 0 : 1
     this.side = side
     this.text = side ? r.value!.slice(1) : r.value!
-    this.abs = Number(this.text)
+    // The same double as Number(text): a minus sign only flips the sign bit.
+    this.abs = Math.abs(this.value)
     const facts = FACTS + side * FACTS_PER_SIGN
     this.facts[this.factCount++] = facts + FACT.lengths + Math.min(r.integerDigits, LENGTHS - 1)
     if (r.fractionDigits === 0) {
