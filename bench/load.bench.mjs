@@ -10,7 +10,10 @@ import { rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
-import { memoryOf, signIn, startBench, uploadAndWait, waitForAfterImport, writeLedger } from './support.mjs'
+import { cpuSecondsOf, memoryOf, percentile, signIn, startBench, uploadAndWait, waitForAfterImport, writeLedger } from './support.mjs'
+
+/** A question's settings in a few words, for the table by request. */
+const describe = body => [body.test, body.groupBy && `by ${body.groupBy}${body.period ? ` (${body.period})` : ''}`, ...(body.filters ?? []).map(f => `${f.column} ${f.op} ${f.value ?? f.values ?? [f.min, f.max, f.from, f.to].filter(v => v !== undefined).join('–')}`)].filter(Boolean).join(', ')
 
 const [rows = 1_000_000, connections = 50, seconds = 60] = process.argv.slice(2, 5).map(Number)
 // A fourth argument runs only the mixes whose name holds it ("filtered").
@@ -31,6 +34,22 @@ try {
   await request('POST', `/api/blocks/${block.id}/run`)
 
   const json = body => ({ method: 'POST', path: `/api/datasets/${dataset.id}/digit-tests`, headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) })
+  // Each request's own latencies, from its sending to its answer (one request at a time per connection).
+  const latencies = new Map()
+  const timed = requests => requests.map((request, i) => {
+    const label = request.body ? describe(JSON.parse(request.body)) : `${request.method} ${request.path.replace(/[0-9a-f-]{36}/g, ':id')}`
+    return {
+      ...request,
+      setupRequest: (req, context) => {
+        context[`sent${i}`] = performance.now()
+        return req
+      },
+      onResponse: (_status, _body, context) => {
+        const list = latencies.get(label) ?? latencies.set(label, []).get(label)
+        list.push(performance.now() - context[`sent${i}`])
+      },
+    }
+  })
   // What a newsroom does all day: open a story and its blocks, run tests, read the rows behind a bin.
   const mix = {
     'analysis: digit tests': [
@@ -60,15 +79,21 @@ try {
   }
   for (const [name, requests] of Object.entries(mix).filter(([name]) => !only || name.includes(only))) {
     const before = memoryOf(bench.server.pid)
-    const result = await autocannon({ url: bench.url, connections, duration: seconds, headers: { cookie }, requests })
+    const cpuBefore = cpuSecondsOf(bench.server.pid)
+    latencies.clear()
+    const result = await autocannon({ url: bench.url, connections, duration: seconds, headers: { cookie }, requests: timed(requests) })
     const after = memoryOf(bench.server.pid)
+    const cpu = cpuSecondsOf(bench.server.pid) - cpuBefore
     const errors = result.errors + result.timeouts + result.non2xx
     console.log(`
 ${name} (${connections} connections, ${seconds} s, ${rows.toLocaleString('en-GB')} rows)
   requests:    ${result.requests.total.toLocaleString('en-GB')} (${result.requests.average.toFixed(0)} per second)
   latency:     p50 ${result.latency.p50} ms, p99 ${result.latency.p99} ms, max ${result.latency.max} ms
   errors:      ${errors} (socket ${result.errors}, timeouts ${result.timeouts}, non-2xx ${result.non2xx})
-  server RSS:  ${before.rssMb.toFixed(0)} → ${after.rssMb.toFixed(0)} MB (peak ${after.peakMb.toFixed(0)} MB)`)
+  server CPU:  ${cpu.toFixed(1)} s over ${seconds} s (${(1000 * cpu / result.requests.total).toFixed(1)} ms a request, all its threads)
+  server RSS:  ${before.rssMb.toFixed(0)} → ${after.rssMb.toFixed(0)} MB (peak ${after.peakMb.toFixed(0)} MB)
+  by request (p50 / p99 / count):
+${[...latencies].map(([label, list]) => `    ${percentile(list, 0.5).toFixed(0).padStart(6)} / ${percentile(list, 0.99).toFixed(0).padStart(6)} ms  ${String(list.length).padStart(6)}  ${label}`).join('\n')}`)
   }
 }
 finally {

@@ -42,7 +42,16 @@ export function memoryOf(pid) {
   return { rssMb: kb('VmRSS') / 1024, peakMb: kb('VmHWM') / 1024 }
 }
 
+/** CPU time a process has used, all its threads, user and system (from /proc; clock ticks of 1/100 s). */
+export function cpuSecondsOf(pid) {
+  const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ')
+  return (Number(fields[11]) + Number(fields[12])) / 100
+}
+
 export const median = list => [...list].sort((a, b) => a - b)[Math.floor(list.length / 2)]
+
+/** The value below which a share `q` of the list lies (nearest rank). */
+export const percentile = (list, q) => [...list].sort((a, b) => a - b)[Math.min(list.length - 1, Math.max(0, Math.ceil(q * list.length) - 1))] ?? Number.NaN
 
 /**
  * A fresh PostgreSQL of the benchmarks' own and the built app on it, with the demo newsroom. Its

@@ -6,6 +6,7 @@ export { runDigitTest, CAUTION, type DigitTestRequest, type TestInput } from './
 export { DISTRIBUTIONS, byDistribution, keyText } from './distribution-tests'
 export { thresholdBand, thresholdBucket, type ThresholdBand } from './threshold'
 export { compareDecimal, decimalToText, toDecimal } from './decimal'
+export type { Decimal } from './decimal'
 export { checkSuitability, MINIMUM_VALUES, RULES, type SuitabilityInput } from './suitability'
 export { MAD_RANGES, MAD_RANGES_FROM, conformityOf, expectedMad, meanAbsoluteDeviation } from './mad'
 export { benjaminiHochberg } from './false-discovery'

@@ -2,7 +2,8 @@ import { Readable } from 'node:stream'
 import type { PoolClient } from 'pg'
 import { describe, expect, it } from 'vitest'
 import { CopyEncoder } from '../../server/services/datasets/copy-encoder'
-import { NO_KEY, readColumnRecords } from '../../server/services/datasets/column-records'
+import { NO_KEY } from '../../server/services/datasets/column-layout'
+import { readColumnRecords } from '../../server/services/datasets/column-records'
 
 // The column scan reads a column's digit records in PostgreSQL's binary COPY format (the tuple layout
 // of the PostgreSQL 15 manual, "COPY", section "Binary Format"): a field count, then per field its

@@ -1,7 +1,7 @@
 import { DISTRIBUTIONS } from '#shared/digits'
 import type { ColumnProfile, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
-import { NO_KEY, largest } from './column-records'
-import type { ColumnRecords } from './column-records'
+import { NO_KEY, largest } from './column-layout'
+import type { ColumnRecords } from './column-layout'
 import { signCode, STATUS_CODES } from './digit-columns'
 import type { CodeFilter } from './digit-query'
 import { candidates } from './value-buckets'
@@ -54,28 +54,21 @@ function keptBy(codes: Int32Array, filter: CodeFilter, count: number, from: Uint
 }
 
 /**
- * The records a range of the tested column keeps, among `from` (all records when null). Without
- * `from`, a narrow range reads only the value buckets it touches (value-buckets.ts).
+ * The records of a narrow range of the tested column, from the value buckets it touches
+ * (value-buckets.ts); null when the range is wide, and is then tested record by record.
  */
-function keptByRange(records: ColumnRecords, range: ValueRange, from: Uint32Array | null): Uint32Array {
+function narrowRange(records: ColumnRecords, range: ValueRange): Uint32Array | null {
   const min = range.min ?? -Infinity
   const max = range.max ?? Infinity
   const below = range.below ?? Infinity
+  const among = candidates(records.buckets, min, Math.min(max, below), records.count)
+  if (!among) return null
   const value = records.value
-  const among = from ?? candidates(records.buckets, min, Math.min(max, below), records.count)
-  const out = new Uint32Array(among ? among.length : records.count)
+  const out = new Uint32Array(among.length)
   let n = 0
-  if (among) {
-    for (let j = 0; j < among.length; j++) {
-      const v = value[among[j]!]!
-      if (v >= min && v <= max && v < below) out[n++] = among[j]!
-    }
-  }
-  else {
-    for (let i = 0; i < records.count; i++) {
-      const v = value[i]!
-      if (v >= min && v <= max && v < below) out[n++] = i
-    }
+  for (let j = 0; j < among.length; j++) {
+    const v = value[among[j]!]!
+    if (v >= min && v <= max && v < below) out[n++] = among[j]!
   }
   return out.subarray(0, n)
 }
@@ -93,7 +86,16 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
     if (!codes) return null
     kept = keptBy(codes, filter, records.count, kept)
   }
-  if (spec.range) kept = keptByRange(records, spec.range, kept)
+  // A narrow range alone reads its value buckets; any other range is tested in the pass itself.
+  let range: ValueRange | null = spec.range
+  if (range && !kept) {
+    kept = narrowRange(records, range)
+    if (kept) range = null
+  }
+  const ranged = range !== null
+  const min = range?.min ?? -Infinity
+  const max = range?.max ?? Infinity
+  const below = range?.below ?? Infinity
   const groupCodes = spec.groupBy === null ? null : records.codes.get(spec.groupBy)
   if (groupCodes === undefined) return null
 
@@ -126,6 +128,9 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
   const total = kept ? kept.length : records.count
   for (let j = 0; j < total; j++) {
     const i = kept ? kept[j]! : j
+    const v = value[i]!
+    // NaN (no value) passes no range, as SQL's NULL passes no comparison.
+    if (ranged && !(v >= min && v <= max && v < below)) continue
     const code = groupCodes ? groupCodes[i]! + 1 : 0
     let g = groupOf[code]!
     if (g < 0) {
@@ -162,7 +167,6 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
       whole++
       if (trailingZeros[i]! >= 2) round++
     }
-    const v = value[i]!
     const abs = v < 0 ? -v : v
     if (abs < low) {
       low = abs

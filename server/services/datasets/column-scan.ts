@@ -7,8 +7,9 @@ import type { DigitQuery } from './digit-query'
 import { mergeGroups } from './count-merge'
 import type { Grouped } from './count-merge'
 import { readColumnRecords } from './column-records'
-import { countRecords } from './column-count'
-import type { ColumnRecords } from './column-records'
+import type { CountSpec } from './column-count'
+import { countElsewhere, forgetElsewhere } from './counting-thread'
+import type { ColumnRecords } from './column-layout'
 
 /**
  * Distribution tests whose filters and grouping no cell of the import holds (two text columns and a
@@ -38,6 +39,7 @@ function keptColumns() {
   kept ??= new LRUCache<string, Entry>({
     maxSize: Number(useRuntimeConfig().columnScan?.budgetMb ?? 512) * 1024 * 1024,
     sizeCalculation: entry => (entry === 'sql' ? 1 : Math.max(1, entry.bytes)),
+    dispose: (_entry, key) => forgetElsewhere(key),
   })
   return kept
 }
@@ -75,6 +77,24 @@ function startReading(datasetId: string, columnPos: number): Promise<void> {
   return pending
 }
 
+/**
+ * Reads a new dataset's number columns into memory ahead of the first questions, one after another,
+ * as long as they fill at most half the budget: the questions a reporter asks first of a new dataset
+ * then need not wait for the read. Another app server reads a column on its first question instead.
+ */
+export async function readAhead(datasetId: string, rowCount: number) {
+  if (columnScanMode() === 'off') return
+  const columns = await datasetColumns(datasetId)
+  // About a record's bytes in memory (column-records.ts), for the estimate.
+  const perRecord = 32 + 4 * columns.filter(c => c.coded).length
+  let room = keptColumns().maxSize / 2
+  for (const column of columns.filter(c => c.numeric)) {
+    room -= rowCount * perRecord
+    if (room < 0) return
+    if (!keptColumns().has(`${datasetId}:${column.position}`)) void startReading(datasetId, column.position)
+  }
+}
+
 /** How long a question waits for its column to be read (a million rows take a second or two) before SQL counts it. */
 const WAIT_FOR_READ_MS = 5000
 
@@ -102,6 +122,11 @@ export async function recordsInMemory(datasetId: string, columnPos: number): Pro
   return null
 }
 
+/** countRecords over a column's records in memory, on the counting thread (counting-thread.ts). */
+export function countInMemory(datasetId: string, columnPos: number, records: ColumnRecords, spec: CountSpec) {
+  return countElsewhere(`${datasetId}:${columnPos}`, records, spec)
+}
+
 /**
  * A distribution test's counts by group, and the selection's suitability facts, from the column's
  * records in memory; null when the question has filters or a grouping they cannot answer (a range
@@ -113,7 +138,7 @@ export async function scanDistribution(test: DistributionTest, datasetId: string
   if (!filters || (query.group && !query.decoding)) return null
   const records = await recordsOf(datasetId, columnPos)
   if (!records) return null
-  const counted = countRecords(records, {
+  const counted = await countInMemory(datasetId, columnPos, records, {
     test, sign, filters, range: query.testedRange, groupBy: query.decoding?.position ?? null,
   })
   if (!counted) return null

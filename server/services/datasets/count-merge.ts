@@ -13,22 +13,44 @@ export function bucketOf<T>(map: Grouped<T>, key: string | null, make: () => T):
 
 export const emptyStatus = (): StatusCounts => ({ blank: 0, unreadable: 0, zero: 0, positive: 0, negative: 0 })
 
+/** Digit keys run from 0 to 999 (first three digits); they are added up in a dense array. */
+const KEY_SLOTS = 1000
+
 /**
  * The sum of several sets of counts: a group's cells, or the whole as the sum of its groups. One set
- * is its own sum (counts are never changed once made; the cube's are frozen).
+ * is its own sum (counts are never changed once made; the cube's are frozen). Keys come out in
+ * ascending order, the values without a key (null) last.
  */
 export function mergeGroups(groups: Iterable<DistributionCounts>): DistributionCounts {
   if (Array.isArray(groups) && groups.length === 1) return groups[0] as DistributionCounts
   const status = emptyStatus()
-  const keys = new Map<number | string | null, number>()
+  const sums = new Float64Array(KEY_SLOTS)
+  const seen = new Uint8Array(KEY_SLOTS)
+  const others = new Map<number | string | null, number>()
   const arc = { cos: 0, sin: 0 }
   for (const group of groups) {
-    for (const name of Object.keys(status) as (keyof StatusCounts)[]) status[name] += group.status[name]
-    for (const { key, count } of group.keys) keys.set(key, (keys.get(key) ?? 0) + count)
+    status.blank += group.status.blank
+    status.unreadable += group.status.unreadable
+    status.zero += group.status.zero
+    status.positive += group.status.positive
+    status.negative += group.status.negative
+    for (const { key, count } of group.keys) {
+      if (typeof key === 'number' && Number.isInteger(key) && key >= 0 && key < KEY_SLOTS) {
+        sums[key]! += count
+        seen[key] = 1
+      }
+      else others.set(key, (others.get(key) ?? 0) + count)
+    }
     arc.cos += group.arc?.cos ?? 0
     arc.sin += group.arc?.sin ?? 0
   }
-  return { status, keys: [...keys].map(([key, count]) => ({ key, count })), arc }
+  const keys: DistributionCounts['keys'] = []
+  for (let key = 0; key < KEY_SLOTS; key++) if (seen[key]) keys.push({ key, count: sums[key]! })
+  const withoutKey = others.get(null)
+  others.delete(null)
+  for (const [key, count] of others) keys.push({ key, count })
+  if (withoutKey !== undefined) keys.push({ key: null, count: withoutKey })
+  return { status, keys, arc }
 }
 
 /**

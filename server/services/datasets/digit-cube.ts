@@ -1,5 +1,5 @@
 import { DISTRIBUTIONS, compareDecimal, toDecimal } from '#shared/digits'
-import type { ColumnProfile as SuitabilityProfile, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
+import type { ColumnProfile as SuitabilityProfile, Decimal, DigitRecord, DistributionCounts, DistributionTest, SignFilter, StatusCounts } from '#shared/digits'
 import type { CopyEncoder } from './copy-encoder'
 import { compareValues } from './sign-profile'
 import { LADDER_FINE } from './value-ladder'
@@ -106,7 +106,8 @@ class Slots {
     const side = r.sign > 0 ? 0 : 1
     this.side = side
     this.text = side ? r.value!.slice(1) : r.value!
-    this.abs = Number(this.text)
+    // The same double as Number(text): a minus sign only flips the sign bit.
+    this.abs = Math.abs(this.value)
     const facts = FACTS + side * FACTS_PER_SIGN
     this.facts[this.factCount++] = facts + FACT.lengths + Math.min(r.integerDigits, LENGTHS - 1)
     if (r.fractionDigits === 0) {
@@ -174,6 +175,33 @@ class Cell {
     else if (toMax === 0) this.counts[facts + FACT.atMax]!++
   }
 
+  /**
+   * Adds another cell's values: counts and sums add up; per sign the smaller of the two smallest
+   * values (and the larger largest) stays, with its count, or both counts when they are equal.
+   */
+  merge(other: Cell) {
+    const ends = [0, 1].map(side => FACTS + side * FACTS_PER_SIGN)
+    const before = ends.map(f => [this.counts[f + FACT.atMin]!, this.counts[f + FACT.atMax]!] as const)
+    for (let i = 0; i < CUBE_LENGTH; i++) this.counts[i]! += other.counts[i]!
+    for (let i = 0; i < this.sums.length; i++) this.sums[i]! += other.sums[i]!
+    for (let side = 0; side < 2; side++) {
+      const theirs = other.ends[side]
+      if (!theirs) continue
+      const mine = this.ends[side]
+      if (!mine) {
+        this.ends[side] = { ...theirs }
+        continue
+      }
+      const [f, [atMin, atMax]] = [ends[side]!, before[side]!]
+      const toMin = compareValues(theirs.minAbs, theirs.min, mine.minAbs, mine.min)
+      if (toMin < 0) [mine.minAbs, mine.min, this.counts[f + FACT.atMin]] = [theirs.minAbs, theirs.min, other.counts[f + FACT.atMin]!]
+      else if (toMin > 0) this.counts[f + FACT.atMin] = atMin
+      const toMax = compareValues(theirs.maxAbs, theirs.max, mine.maxAbs, mine.max)
+      if (toMax > 0) [mine.maxAbs, mine.max, this.counts[f + FACT.atMax]] = [theirs.maxAbs, theirs.max, other.counts[f + FACT.atMax]!]
+      else if (toMax < 0) this.counts[f + FACT.atMax] = atMax
+    }
+  }
+
   /** The smallest and largest absolute value per sign: positive min, max, then negative ('' for none). */
   extremeTexts(): string[] {
     return this.ends.flatMap(ends => (ends ? [ends.min, ends.max] : ['', '']))
@@ -197,10 +225,19 @@ class Cell {
   }
 }
 
-/** Counts for one number column by one text column: a cell per group code (codes start at 1). */
+/**
+ * Counts for one number column by one text column: a cell per group code (codes start at 1). While
+ * a pair of text columns is counted (`derived`), a grouping of either column is the sum of the pair's
+ * cells: its records are not counted a second time, only which codes it has seen (`seen`), and its
+ * cells are made from the pair's when they are written or when the pair stops being counted.
+ */
 interface Grouping {
   position: number
   cells: (Cell | undefined)[]
+  derived: boolean
+  seen: Uint8Array | null
+  /** How many cells it has, made or still derived. */
+  size: number
 }
 
 /** Counts for one number column by two text columns together: a cell per pair of codes that occurs. */
@@ -220,17 +257,41 @@ interface Ladder {
   fine: (Cell | undefined)[]
 }
 
-/** Counts for one number column: the whole column, and per code of each text column (and pair of them) still counted. */
+/**
+ * Counts for one number column: the whole column, and per code of each text column (and pair of them)
+ * still counted. The first pair stands in for the whole and for the groupings of its two columns
+ * while it is counted (Grouping): each record then touches three fewer cells, most of the counting's
+ * time being the cells' memory.
+ */
 class ColumnCube {
   readonly whole = new Cell()
   readonly groupings: Grouping[]
   readonly pairings: Pairing[]
   readonly ladder: Ladder | null
+  standIn: Pairing | null
 
   constructor(textPositions: number[], pairs: [number, number][], bounds: LadderBounds | null) {
-    this.groupings = textPositions.map(position => ({ position, cells: [] }))
     this.pairings = pairs.map(([first, second]) => ({ first, second, cells: new Map<number, Cell>() }))
+    this.standIn = this.pairings[0] ?? null
+    const derived = (position: number) => this.standIn !== null && (position === this.standIn.first || position === this.standIn.second)
+    this.groupings = textPositions.map(position => ({
+      position, cells: [], derived: derived(position), seen: derived(position) ? new Uint8Array(MAX_GROUPS + 1) : null, size: 0,
+    }))
     this.ladder = bounds && { bounds, fine: [] }
+  }
+
+  /** The pair stops standing in: the whole and its groupings get their cells from its cells so far. */
+  settle() {
+    const pairing = this.standIn
+    if (!pairing) return
+    this.standIn = null
+    for (const grouping of this.groupings.filter(g => g.derived)) {
+      const first = grouping.position === pairing.first
+      for (const [key, cell] of pairing.cells) (grouping.cells[first ? Math.floor(key / PAIR_KEY) : key % PAIR_KEY] ??= new Cell()).merge(cell)
+      grouping.derived = false
+      grouping.seen = null
+    }
+    for (const cell of pairing.cells.values()) this.whole.merge(cell)
   }
 }
 
@@ -250,25 +311,7 @@ export class DigitCubeCounter {
   add(columnPos: number, r: DigitRecord, codes: Int32Array) {
     const cube = this.columns[columnPos]!
     const slots = this.slots.of(r)
-    cube.whole.add(slots)
-    const groupings = cube.groupings
-    for (let g = 0; g < groupings.length; g++) {
-      const { position, cells } = groupings[g]!
-      const code = codes[position]!
-      let cell = cells[code]
-      if (!cell) {
-        // A column that stopped being coded (code 0: too many values) or has too many groups for
-        // the memory kept here is dropped: grouping by it counts the records instead.
-        if (code === 0 || code > MAX_GROUPS || this.cells >= MAX_CELLS) {
-          this.drop(cube, g)
-          g--
-          continue
-        }
-        cell = cells[code] = new Cell()
-        this.cells++
-      }
-      cell.add(slots)
-    }
+    // Pairs first: when the pair standing in stops here, the whole and its groupings count this record themselves.
     const pairings = cube.pairings
     for (let p = 0; p < pairings.length; p++) {
       const pairing = pairings[p]!
@@ -277,6 +320,7 @@ export class DigitCubeCounter {
       let cell = pairing.cells.get(key)
       if (!cell) {
         if (a === 0 || b === 0 || a > MAX_GROUPS || b > MAX_GROUPS || pairing.cells.size >= MAX_PAIR_CELLS || this.pairCells >= PAIR_CELLS) {
+          if (pairing === cube.standIn) cube.settle()
           pairings.splice(p--, 1)
           this.pairCells -= pairing.cells.size
           continue
@@ -285,6 +329,27 @@ export class DigitCubeCounter {
         this.pairCells++
       }
       cell.add(slots)
+    }
+    if (!cube.standIn) cube.whole.add(slots)
+    const groupings = cube.groupings
+    for (let g = 0; g < groupings.length; g++) {
+      const grouping = groupings[g]!
+      const code = codes[grouping.position]!
+      let cell = grouping.cells[code]
+      if (!cell && !grouping.seen?.[code]) {
+        // A column that stopped being coded (code 0: too many values) or has too many groups for
+        // the memory kept here is dropped: grouping by it counts the records instead.
+        if (code === 0 || code > MAX_GROUPS || this.cells >= MAX_CELLS) {
+          this.drop(cube, g)
+          g--
+          continue
+        }
+        this.cells++
+        grouping.size++
+        if (grouping.derived) grouping.seen![code] = 1
+        else cell = grouping.cells[code] = new Cell()
+      }
+      cell?.add(slots)
     }
     if (cube.ladder && !Number.isNaN(slots.value)) this.climb(cube.ladder, slots)
   }
@@ -302,7 +367,7 @@ export class DigitCubeCounter {
 
   private drop(cube: ColumnCube, index: number) {
     const [dropped] = cube.groupings.splice(index, 1)
-    this.cells -= dropped!.cells.filter(Boolean).length
+    this.cells -= dropped!.size
   }
 
   /** The text columns each number column was counted by; -1 stands for the whole column. */
@@ -319,6 +384,7 @@ export class DigitCubeCounter {
   write(out: CopyEncoder, dataset: Buffer) {
     this.columns.forEach((cube, columnPos) => {
       if (!cube) return
+      cube.settle()
       writeCell(out, dataset, columnPos, { position: -1, code: 0 }, null, cube.whole)
       for (const { position, cells } of cube.groupings) {
         cells.forEach((cell, code) => {
@@ -408,13 +474,13 @@ export function cubeFactSlices(sign: SignFilter) {
  * when they were counted before cells kept these facts, or when values with 32 or more integer
  * digits share the last length slot (their commonest length is then not known).
  */
-export function profileFromCells(cells: Iterable<{ n: number, facts: number[] | null, ends: string[] | null }>): Omit<SuitabilityProfile, 'topValue'> | null {
+export function profileFromCells(cells: Iterable<{ n: number, facts: readonly number[] | null, ends: readonly string[] | null }>): Omit<SuitabilityProfile, 'topValue'> | null {
   let n = 0
   let whole = 0
   let roundHundreds = 0
   const lengths = new Array<number>(LENGTHS).fill(0)
-  let min: { text: string, count: number } | null = null
-  let max: { text: string, count: number } | null = null
+  let min: { text: string, value: Decimal, count: number } | null = null
+  let max: { text: string, value: Decimal, count: number } | null = null
   for (const cell of cells) {
     if (!cell.n) continue
     if (!cell.facts || !cell.ends || cell.facts.length !== FACTS_PER_SIGN) return null
@@ -423,16 +489,25 @@ export function profileFromCells(cells: Iterable<{ n: number, facts: number[] | 
     roundHundreds += cell.facts[FACT.round]!
     for (let i = 0; i < LENGTHS; i++) lengths[i]! += cell.facts[FACT.lengths + i]!
     const [low, high] = cell.ends as [string, string]
-    const toMin = min ? compareDecimal(toDecimal(low), toDecimal(min.text)) : -1
-    if (toMin < 0) min = { text: low, count: cell.facts[FACT.atMin]! }
+    const [lowValue, highValue] = endValues(cell.ends)
+    const toMin = min ? compareDecimal(lowValue, min.value) : -1
+    if (toMin < 0) min = { text: low, value: lowValue, count: cell.facts[FACT.atMin]! }
     else if (toMin === 0) min!.count += cell.facts[FACT.atMin]!
-    const toMax = max ? compareDecimal(toDecimal(high), toDecimal(max.text)) : 1
-    if (toMax > 0) max = { text: high, count: cell.facts[FACT.atMax]! }
+    const toMax = max ? compareDecimal(highValue, max.value) : 1
+    if (toMax > 0) max = { text: high, value: highValue, count: cell.facts[FACT.atMax]! }
     else if (toMax === 0) max!.count += cell.facts[FACT.atMax]!
   }
   if (!n || lengths[LENGTHS - 1]) return null
   return { n, min: min!.text, max: max!.text, atMin: min!.count, atMax: max!.count, whole, roundHundreds, commonLength: Math.max(...lengths) }
 }
+
+/** A cell's two ends as decimals, worked out once per ends array (the cells kept per server are frozen: cube-cells.ts). */
+function endValues(ends: readonly string[]): readonly [Decimal, Decimal] {
+  let values = parsedEnds.get(ends)
+  if (!values) parsedEnds.set(ends, values = [toDecimal(ends[0]!), toDecimal(ends[1]!)])
+  return values
+}
+const parsedEnds = new WeakMap<readonly string[], readonly [Decimal, Decimal]>()
 
 /**
  * Suitability facts counted from records (one sign, absolute values) in the layout of a cell's, so

@@ -16,6 +16,7 @@ import { RowEncoderWorker } from './row-encoder-worker'
 import type { Encoded } from './row-encoder-worker'
 import { UnreadableFile, detectEncoding, detectFileEncoding } from './sniff'
 import type { DatasetFormat, TextEncoding } from './sniff'
+import { readAhead } from './column-scan'
 import { dropPartitionsSql, partitionNames } from './partitions'
 import { duplicateCounts } from './digit-tests'
 import { countCodeRepeats } from './code-repeats'
@@ -131,6 +132,7 @@ export async function importDataset(datasetId: string): Promise<void> {
         throw error
       }
       await speedUp(job, db)
+      void readAhead(datasetId, dataset.rowCount ?? 0).catch(error => console.warn(`[column scan] ${datasetId} not read ahead: ${(error as Error).message}`))
       await countRepeats(job, columns)
     })
   }

@@ -7,8 +7,7 @@ import { factsCell, profileFromCells } from './digit-cube'
 import { cellsPassing, cubeCells } from './cube-cells'
 import { rawSelect } from './digit-query'
 import type { DigitQuery } from './digit-query'
-import { countRecords } from './column-count'
-import { recordsInMemory } from './column-scan'
+import { countInMemory, recordsInMemory } from './column-scan'
 import { LADDER_FINE, rangeOnRungs, rungsOf } from './value-ladder'
 
 /**
@@ -42,10 +41,10 @@ export async function ladderDistribution(
     : null
   // The parts' records are counted in memory when the column is there (column-scan.ts), else by SQL.
   const records = edge ? await recordsInMemory(datasetId, columnPos) : null
-  const inMemory = records && [
+  const inMemory = records && await Promise.all([
     cut.below && { min: cut.below.min, below: Number(cut.below.below) },
     cut.above && { min: Number(cut.above.from), max: cut.above.max },
-  ].flatMap(range => (range ? [countRecords(records, { test, sign, filters: [], range, groupBy: null })!] : []))
+  ].flatMap(range => (range ? [countInMemory(datasetId, columnPos, records, { test, sign, filters: [], range, groupBy: null }).then(counted => counted!)] : [])))
   const [cells, edgeCounts, edgeFacts] = await Promise.all([
     rungs,
     inMemory ? inMemory.flatMap(part => part.cells.map(c => c.counts)) : edge ? scan(edge).then(groups => [...groups.values()]) : [],

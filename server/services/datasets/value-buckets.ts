@@ -1,3 +1,5 @@
+import { sharedArray } from './column-layout'
+
 /**
  * A column's records in memory sorted coarsely by value: about a thousand buckets cut at quantiles
  * of a sample, each holding its records' indices in file order. A narrow range (the part of a value
@@ -56,7 +58,7 @@ export function bucketValues(value: Float64Array, count: number): ValueBuckets {
   const starts = new Uint32Array(bounds.length + 2)
   for (let b = 1; b < starts.length; b++) starts[b] = starts[b - 1]! + sizes[b]!
   const next = starts.slice(0, -1)
-  const order = new Uint32Array(finite)
+  const order = sharedArray(Uint32Array, finite)
   for (let i = 0; i < count; i++) if (value[i] === value[i]) order[next[of[i]!]!++] = i
   return { bounds, starts, order }
 }
