@@ -47,8 +47,8 @@ describe('a value ladder', () => {
   it('makes one rung more than it has bounds, open below the first and from the last', () => {
     const rungs = rungsOf(BOUNDS)
     expect(rungs).toHaveLength(BOUNDS.length + 1)
-    expect(rungs[0]).toEqual({ code: 0, low: null, high: BOUNDS[0] })
-    expect(rungs.at(-1)).toEqual({ code: BOUNDS.length, low: BOUNDS.at(-1), high: null })
+    expect(rungs[0]).toMatchObject({ code: 0, low: null, high: BOUNDS[0], lowValue: null })
+    expect(rungs.at(-1)).toMatchObject({ code: BOUNDS.length, low: BOUNDS.at(-1), high: null, highValue: null })
     rungs.slice(1, -1).forEach((r, i) => expect([r.low, r.high]).toEqual([BOUNDS[i], BOUNDS[i + 1]]))
   })
 

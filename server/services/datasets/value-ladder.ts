@@ -1,4 +1,5 @@
 import { compareDecimal, toDecimal } from '#shared/digits'
+import type { Decimal } from '#shared/digits'
 import { compareValues } from './sign-profile'
 
 /**
@@ -49,35 +50,50 @@ export function chooseBounds(values: string[]): LadderBounds | null {
   return new LadderBounds(bounds)
 }
 
-/** One rung of a ladder, with its bounds (null: open below or above). */
+/** One rung of a ladder, with its bounds (null: open below or above), as texts and as decimals. */
 export interface Rung {
   code: number
   low: string | null
   high: string | null
+  lowValue: Decimal | null
+  highValue: Decimal | null
 }
 
-/** The rungs of a ladder with these bounds. */
-export function rungsOf(bounds: string[]): Rung[] {
-  return Array.from({ length: bounds.length + 1 }, (_, code) => ({ code, low: code === 0 ? null : bounds[code - 1]!, high: code >= bounds.length ? null : bounds[code]! }))
+/** The rungs of a ladder with these bounds, worked out once per bounds array (a column's stored facts are kept per server). */
+export function rungsOf(bounds: readonly string[]): readonly Rung[] {
+  let rungs = rungsKept.get(bounds)
+  if (!rungs) {
+    const values = bounds.map(toDecimal)
+    rungs = Array.from({ length: bounds.length + 1 }, (_, code) => ({
+      code,
+      low: code === 0 ? null : bounds[code - 1]!,
+      high: code >= bounds.length ? null : bounds[code]!,
+      lowValue: code === 0 ? null : values[code - 1]!,
+      highValue: code >= bounds.length ? null : values[code]!,
+    }))
+    rungsKept.set(bounds, rungs)
+  }
+  return rungs
 }
+const rungsKept = new WeakMap<readonly string[], readonly Rung[]>()
 
 /**
  * How a range [min, max] (inclusive, either open) falls on the rungs: the rungs it holds whole, one
  * after the other, and the parts it cuts from the rungs beside them, as value intervals to count
  * from the records: [min, low) below and [high, max] above. Null when it holds no rung whole.
  */
-export function rangeOnRungs(rungs: Rung[], range: { min?: number, max?: number }) {
+export function rangeOnRungs(rungs: readonly Rung[], range: { min?: number, max?: number }) {
   const min = range.min === undefined ? null : toDecimal(range.min)
   const max = range.max === undefined ? null : toDecimal(range.max)
   const whole = rungs.filter(r =>
-    (min === null || (r.low !== null && compareDecimal(toDecimal(r.low), min) >= 0))
-    && (max === null || (r.high !== null && compareDecimal(toDecimal(r.high), max) <= 0)))
+    (min === null || (r.lowValue !== null && compareDecimal(r.lowValue, min) >= 0))
+    && (max === null || (r.highValue !== null && compareDecimal(r.highValue, max) <= 0)))
   if (!whole.length) return null
-  const low = whole[0]!.low
+  const { low, lowValue } = whole[0]!
   const high = whole.at(-1)!.high
   return {
     codes: whole.map(r => r.code),
-    below: min !== null && low !== null && compareDecimal(toDecimal(low), min) > 0 ? { min: range.min!, below: low } : null,
+    below: min !== null && low !== null && compareDecimal(lowValue!, min) > 0 ? { min: range.min!, below: low } : null,
     above: max !== null && high !== null ? { from: high, max: range.max! } : null,
   }
 }
