@@ -1,10 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { baseUrl } from '../support/api'
-import { launchBrowser, openInvestigationAs, screenshot, waitForApp } from '../support/browser'
-import { createTestNewsroom } from '../support/newsroom'
+import { openDesk, openInvestigationAs, screenshot, waitForApp } from '../support/browser'
 import type { TestNewsroom } from '../support/newsroom'
-import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, writeStory } from '../support/stories'
 
 // DEVELOPERS.md ("Client data"): after a change the page shows what the server answered, and reads
 // again only when a change reaches further than its answer says. Withdrawing a link, restoring a
@@ -16,14 +15,8 @@ import { CLAIM_TEXT, expectStatus, postClaim, saveBlock, uploadPayments, writeSt
 let browser: Browser
 let newsroom: TestNewsroom
 let datasetId: string
-beforeAll(async () => {
-  browser = await launchBrowser()
-  newsroom = await createTestNewsroom('Browser answers')
-  datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
-})
-afterAll(async () => {
-  await browser?.close()
-})
+beforeAll(async () => ({ browser, newsroom, datasetId } = await openDesk('Browser answers')))
+afterAll(() => browser?.close())
 
 /** The paths of the GET requests the page sends from now on. */
 function watchReads(page: Page): string[] {

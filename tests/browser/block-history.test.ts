@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Locator, Page } from 'playwright-core'
-import { launchBrowser, openInvestigationAs, screenshot, waitForApp, watchCspViolations } from '../support/browser'
-import { createTestNewsroom } from '../support/newsroom'
+import { openDesk, openInvestigationAs, screenshot, waitForApp, watchCspViolations } from '../support/browser'
 import type { TestNewsroom } from '../support/newsroom'
-import { blockOf, expectStatus, saveBlock, uploadPayments, writeStory } from '../support/stories'
+import { blockOf, expectStatus, saveBlock, writeStory } from '../support/stories'
 
 // Issue 20: a history view per block lists its versions by time and person, shows the difference
 // between any two (words inline; settings side by side) and restores one as a new change. Walked at
@@ -14,14 +13,8 @@ let browser: Browser
 let newsroom: TestNewsroom
 let datasetId: string
 
-beforeAll(async () => {
-  browser = await launchBrowser()
-  newsroom = await createTestNewsroom('Browser history')
-  datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
-})
-afterAll(async () => {
-  await browser?.close()
-})
+beforeAll(async () => ({ browser, newsroom, datasetId } = await openDesk('Browser history')))
+afterAll(() => browser?.close())
 
 const paragraphs = (...texts: string[]) => ({ type: 'doc', content: texts.map(text => ({ type: 'paragraph', content: [{ type: 'text', text }] })) })
 

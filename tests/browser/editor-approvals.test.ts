@@ -1,21 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, openStory, watchSaves, screenshot } from '../support/browser'
-import { createTestNewsroom } from '../support/newsroom'
+import { openDesk, openStory, screenshot, watchSaves } from '../support/browser'
 import type { TestNewsroom } from '../support/newsroom'
-import { blockOf, expectStatus, uploadPayments, writeStory } from '../support/stories'
+import { blockOf, expectStatus, writeStory } from '../support/stories'
 
 let browser: Browser
 let newsroom: TestNewsroom
 let datasetId: string
-beforeAll(async () => {
-  browser = await launchBrowser()
-  newsroom = await createTestNewsroom('Approval desk')
-  datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
-})
-afterAll(async () => {
-  await browser?.close()
-})
+beforeAll(async () => ({ browser, newsroom, datasetId } = await openDesk('Approval desk')))
+afterAll(() => browser?.close())
 
 async function approvedStory() {
   const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)

@@ -1,21 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, openStory, selectTextOf, screenshot } from '../support/browser'
-import { createTestNewsroom } from '../support/newsroom'
+import { openDesk, openStory, screenshot, selectTextOf } from '../support/browser'
 import type { TestNewsroom } from '../support/newsroom'
-import { BEFORE_CLAIM, CLAIM_TEXT, AFTER_CLAIM, blockOf, expectStatus, postClaim, uploadPayments, writeStory } from '../support/stories'
+import { BEFORE_CLAIM, CLAIM_TEXT, AFTER_CLAIM, blockOf, expectStatus, postClaim, writeStory } from '../support/stories'
 
 let browser: Browser
 let newsroom: TestNewsroom
 let datasetId: string
-beforeAll(async () => {
-  browser = await launchBrowser()
-  newsroom = await createTestNewsroom('Focus desk')
-  datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
-})
-afterAll(async () => {
-  await browser?.close()
-})
+beforeAll(async () => ({ browser, newsroom, datasetId } = await openDesk('Focus desk')))
+afterAll(() => browser?.close())
 
 describe('where typing lands in the editor', () => {
   it('puts the caret in the block "+ Text" makes, and composed input lands there, never over the claim selected before', async () => {

@@ -1,22 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import { formatDateTime } from '#shared/format/dates'
-import { launchBrowser, openStory, screenshot } from '../support/browser'
-import { createTestNewsroom } from '../support/newsroom'
+import { openDesk, openStory, screenshot } from '../support/browser'
 import type { TestNewsroom } from '../support/newsroom'
-import { CLAIM_TEXT, expectStatus, postClaim, readStory, uploadPayments, writeStory } from '../support/stories'
+import { CLAIM_TEXT, expectStatus, postClaim, readStory, writeStory } from '../support/stories'
 
 let browser: Browser
 let newsroom: TestNewsroom
 let datasetId: string
-beforeAll(async () => {
-  browser = await launchBrowser()
-  newsroom = await createTestNewsroom('Lock desk')
-  datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
-})
-afterAll(async () => {
-  await browser?.close()
-})
+beforeAll(async () => ({ browser, newsroom, datasetId } = await openDesk('Lock desk')))
+afterAll(() => browser?.close())
 
 async function verifiedStory() {
   const story = await writeStory(newsroom.reporter, newsroom.id, datasetId)

@@ -1,21 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { launchBrowser, openStory, screenshot } from '../support/browser'
-import { createTestNewsroom } from '../support/newsroom'
+import { openDesk, openStory, screenshot } from '../support/browser'
 import type { TestNewsroom } from '../support/newsroom'
-import { blockOf, uploadPayments, writeStory } from '../support/stories'
+import { blockOf, writeStory } from '../support/stories'
 
 let browser: Browser
 let newsroom: TestNewsroom
 let datasetId: string
-beforeAll(async () => {
-  browser = await launchBrowser()
-  newsroom = await createTestNewsroom('Unsaved desk')
-  datasetId = await uploadPayments(newsroom.reporter, newsroom.id)
-})
-afterAll(async () => {
-  await browser?.close()
-})
+beforeAll(async () => ({ browser, newsroom, datasetId } = await openDesk('Unsaved desk')))
+afterAll(() => browser?.close())
 
 const proseOf = async (story: Awaited<ReturnType<typeof writeStory>>) => JSON.stringify((await blockOf(newsroom.reporter, story, story.proseBlockId)).content)
 

@@ -4,8 +4,9 @@ import { chromium } from 'playwright-core'
 import type { Browser, Page } from 'playwright-core'
 import type { Role } from '#shared/auth/roles'
 import { baseUrl } from './api'
-import { PASSWORD } from './newsroom'
+import { createTestNewsroom, PASSWORD } from './newsroom'
 import type { TestNewsroom } from './newsroom'
+import { uploadPayments } from './stories'
 import type { Story } from './stories'
 
 // Flags that keep Debian's Chromium quiet on a closed network (../shared/STACK.md).
@@ -96,4 +97,11 @@ export async function selectTextOf(page: Page, selector: string) {
     selection.removeAllRanges()
     selection.addRange(range)
   }, selector)
+}
+
+/** What most browser test files start from: a browser, a newsroom of their own and its payments dataset. */
+export async function openDesk(name: string): Promise<{ browser: Browser, newsroom: TestNewsroom, datasetId: string }> {
+  const browser = await launchBrowser()
+  const newsroom = await createTestNewsroom(name)
+  return { browser, newsroom, datasetId: await uploadPayments(newsroom.reporter, newsroom.id) }
 }
