@@ -1,4 +1,4 @@
-import { binsOutsideOf, buildBins } from './bin-statistics'
+import { buildBins } from './bin-statistics'
 import { chiSquare } from './chi-square'
 import { leadingShares, lastTwoShares, secondDigitShares } from './expected-shares'
 import { kolmogorovSmirnov } from './kolmogorov-smirnov'
@@ -70,7 +70,7 @@ function binCountsOf(test: DistributionTest, counts: DistributionCounts, sign: S
 export function runDistributionTest(test: DistributionTest, counts: DistributionCounts, sign: SignFilter): TestOutcome {
   const definition = DISTRIBUTIONS[test]
   const { binCounts, n, excluded } = binCountsOf(test, counts, sign)
-  const bins = buildBins(n, definition.keys, binCounts, definition.shares)
+  const { bins, binsOutside } = buildBins(n, definition.keys, binCounts, definition.shares)
   if (n === 0) return { ...NO_STATISTICS, n, excluded, bins }
   const shares = bins.map(bin => bin.share)
   const chi = chiSquare(binCounts, definition.shares)
@@ -83,7 +83,7 @@ export function runDistributionTest(test: DistributionTest, counts: Distribution
     mad: madOf(test, n, shares, definition.shares, chi.p),
     ks: definition.ks ? kolmogorovSmirnov(shares, definition.shares, n) : null,
     arc: definition.arc && counts.arc ? mantissaArc(counts.arc, n) : null,
-    binsOutside: binsOutsideOf(bins, n),
+    binsOutside,
   }
 }
 

@@ -1,4 +1,4 @@
-import { binsOutsideOf, buildBins } from './bin-statistics'
+import { buildBins } from './bin-statistics'
 import { roundShare } from './expected-shares'
 import { assertCountsAddUp, excludedOf, NO_STATISTICS, type TestOutcome } from './outcome'
 import type { RoundCounts, SignFilter } from './types'
@@ -31,8 +31,8 @@ export function runRoundNumbersTest(counts: RoundCounts, sign: SignFilter): Test
     const expected = eligible.reduce((sum, cell) => sum + cell.count * roundShare(cell.integerDigits, zeros, precision), 0)
     return expected / n
   })
-  const bins = buildBins(n, KEYS, observed, expectedShares)
-  return { ...NO_STATISTICS, n, excluded: excludedOf(counts.status, sign, total - n), bins, binsOutside: binsOutsideOf(bins, n) }
+  const { bins, binsOutside } = buildBins(n, KEYS, observed, expectedShares)
+  return { ...NO_STATISTICS, n, excluded: excludedOf(counts.status, sign, total - n), bins, binsOutside }
 }
 
 function recordedPrecision(counts: RoundCounts, total: number): number {

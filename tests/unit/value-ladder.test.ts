@@ -61,4 +61,22 @@ describe('a value ladder', () => {
     expect(bounds.texts.length).toBeGreaterThan(50)
     expect(chooseBounds(['5'])).toBeNull()
   })
+
+  it('adds the round numbers in the sample\'s span, so ranges between them need no records', () => {
+    // Amounts from 3.17 to 48,210.5: 5, 10, 20, 50 … 20,000 are bounds whatever the quantiles are.
+    const sample = Array.from({ length: 640 }, (_, i) => (3.17 * 1.0135 ** i).toFixed(2)).concat('48210.5')
+    const texts = chooseBounds(sample)!.texts
+    for (const round of ['5', '10', '20', '50', '100', '200', '500', '1000', '2000', '5000', '10000', '20000']) expect(texts).toContain(round)
+    for (const outside of ['1', '2', '50000']) expect(texts).not.toContain(outside)
+    expect(rangeOnRungs(rungsOf(texts), { min: 100, max: 5000 })).toMatchObject({ below: null, above: { from: '5000', max: 5000 } })
+    expect(rangeOnRungs(rungsOf(texts), { min: 100 })).toMatchObject({ below: null, above: null })
+  })
+
+  it('gives round bounds of both signs, and one bound for a round number the sample also holds', () => {
+    const texts = chooseBounds(['-250', '-0.5', '0', '0.20', '3', '75'])!.texts
+    for (const round of ['-200', '-100', '-50', '-1', '-0.5', '0.5', '1', '2', '5', '10', '20', '50']) expect(texts.map(Number)).toContain(Number(round))
+    // The sample's "0.20" and the round 0.2 are one bound.
+    expect(texts.filter(t => Number(t) === 0.2)).toHaveLength(1)
+    expect(texts.map(Number)).toEqual([...texts.map(Number)].sort((a, b) => a - b))
+  })
 })

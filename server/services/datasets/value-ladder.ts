@@ -6,9 +6,10 @@ import { compareValues } from './sign-profile'
  * A number column's value ladder: its values cut at fixed bounds into rungs, each rung's digit
  * counts kept by the cube (digit-cube.ts) like a text column's value. A range filter on the tested
  * column then adds up the rungs it holds whole, and counts only the records of the one or two rungs
- * it cuts through (by the index on column and value). The bounds are the sample's quantiles, so the
- * rungs hold about equal shares of a column whose first rows are like the rest; a file sorted by the
- * column gives lopsided rungs, which stay right and only make its range questions slower.
+ * it cuts through (from the records in memory, or by the index on column and value). The bounds are
+ * the sample's quantiles, so the rungs hold about equal shares of a column whose first rows are like
+ * the rest (a file sorted by the column gives lopsided rungs, which stay right and only make its range
+ * questions slower), and the round numbers in the sample's span, where ranges usually start and end.
  *
  * Rung r holds the values v with bounds[r-1] <= v < bounds[r] (below the first bound: rung 0; from
  * the last one up: rung bounds.length). Zero is a value like any other; blank and unreadable cells
@@ -38,16 +39,51 @@ export class LadderBounds {
   }
 }
 
-/** Bounds at the sample values' quantiles (exact decimal texts, signed), without repeats; null for too few values. */
+/**
+ * Bounds at the sample values' quantiles (exact decimal texts, signed), and at the round numbers in
+ * their span, without repeats; null for too few values. The round numbers (1, 2 and 5 times a power of
+ * ten) are there because they are the floors and ceilings a reporter types ("amount ≥ 100", "under
+ * 5,000"): a range between round numbers is then answered from the rungs alone.
+ */
 export function chooseBounds(values: string[]): LadderBounds | null {
   const sorted = values.map(text => ({ text, n: Number(text) })).sort((a, b) => compareValues(a.n, a.text, b.n, b.text))
   if (sorted.length < 2) return null
+  const quantiles = Array.from({ length: LADDER_RUNGS - 1 }, (_, i) => sorted[Math.floor(((i + 1) * sorted.length) / LADDER_RUNGS)]!)
+  const all = [...quantiles, ...roundNumbersWithin(sorted).map(text => ({ text, n: Number(text) }))]
+    .sort((a, b) => compareValues(a.n, a.text, b.n, b.text))
   const bounds: string[] = []
-  for (let i = 1; i < LADDER_RUNGS; i++) {
-    const text = sorted[Math.floor((i * sorted.length) / LADDER_RUNGS)]!.text
-    if (bounds.at(-1) !== text) bounds.push(text)
+  for (let i = 0; i < all.length; i++) {
+    if (i === 0 || compareValues(all[i - 1]!.n, all[i - 1]!.text, all[i]!.n, all[i]!.text) !== 0) bounds.push(all[i]!.text)
   }
   return new LadderBounds(bounds)
+}
+
+/** Powers of ten a ladder's round bounds span at most, down from the largest value's. */
+const ROUND_DECADES = 12
+
+/** 1, 2 and 5 times each power of ten, of either sign, above the smallest value and up to the largest, as decimal texts. */
+function roundNumbersWithin(sorted: readonly { n: number }[]): string[] {
+  const low = sorted[0]!.n
+  const high = sorted.at(-1)!.n
+  let smallest = Infinity
+  let largest = 0
+  for (const { n } of sorted) {
+    const size = Math.abs(n)
+    if (size > 0 && size < smallest) smallest = size
+    if (size > largest && Number.isFinite(size)) largest = size
+  }
+  if (!(largest > 0)) return []
+  const top = Math.floor(Math.log10(largest))
+  const out: string[] = []
+  for (let power = Math.max(Math.floor(Math.log10(smallest)), top - ROUND_DECADES + 1); power <= top; power++) {
+    for (const digit of ['1', '2', '5']) {
+      const text = power >= 0 ? digit + '0'.repeat(power) : `0.${'0'.repeat(-power - 1)}${digit}`
+      const value = Number(text)
+      if (value > low && value <= high) out.push(text)
+      if (-value > low && -value <= high) out.push(`-${text}`)
+    }
+  }
+  return out
 }
 
 /** One rung of a ladder, with its bounds (null: open below or above), as texts and as decimals. */
