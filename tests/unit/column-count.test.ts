@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { DISTRIBUTIONS, DOT_STYLE, countDistribution, profileOf, recordsOf } from '#shared/digits'
 import type { DigitRecord, DistributionCounts, DistributionTest, SignFilter } from '#shared/digits'
-import { countRecords } from '../../server/services/datasets/column-count'
+import { countRecords, countsOfTally, tallyBuffers, tallyRecords } from '../../server/services/datasets/column-count'
 import type { CountSpec } from '../../server/services/datasets/column-count'
 import { NO_KEY, largest } from '../../server/services/datasets/column-layout'
 import type { ColumnRecords } from '../../server/services/datasets/column-layout'
@@ -161,4 +161,21 @@ describe('counts over a column\'s records in memory equal the engine\'s counts o
       }
     }
   }
+})
+
+describe('a count sent back from the counting thread', () => {
+  it('moves its arrays between threads (no shared memory among them) and makes the same cells', () => {
+    for (const c of CASES) {
+      const spec = { ...c.spec, test: 'first-digit' as DistributionTest, sign: 'positive' as SignFilter }
+      const tally = tallyRecords(HELD, spec)!
+      // As postMessage does it (column-count-thread.ts): a shared buffer in the list would throw here.
+      const moved = structuredClone(tally, { transfer: tallyBuffers(tally) })
+      expect(tally.status.length, c.label).toBe(0)
+      const sent = countsOfTally(moved, spec)
+      const here = countRecords(HELD, spec)!
+      expect(sent.cells, c.label).toEqual(here.cells)
+      expect(sent.profile, c.label).toEqual(here.profile)
+      expect([...sent.lengths], c.label).toEqual([...here.lengths])
+    }
+  })
 })

@@ -5,7 +5,7 @@
  * answers everything else, so a long count holds up no other request.
  */
 import { parentPort } from 'node:worker_threads'
-import { countRecords } from './column-count'
+import { tallyBuffers, tallyRecords } from './column-count'
 import type { ColumnRecords } from './column-layout'
 import type { FromCounter, ToCounter } from './column-count-messages'
 
@@ -19,11 +19,11 @@ port.on('message', (message: ToCounter) => {
     let reply: FromCounter
     try {
       const records = held.get(message.key)
-      reply = records ? { id: message.id, counted: countRecords(records, message.spec) } : { id: message.id, error: `records ${message.key} not held` }
+      reply = records ? { id: message.id, tally: tallyRecords(records, message.spec) } : { id: message.id, error: `records ${message.key} not held` }
     }
     catch (error) {
       reply = { id: message.id, error: (error as Error).message }
     }
-    port.postMessage(reply)
+    port.postMessage(reply, 'tally' in reply && reply.tally ? tallyBuffers(reply.tally) : [])
   }
 })

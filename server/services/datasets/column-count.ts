@@ -74,12 +74,37 @@ function narrowRange(records: ColumnRecords, range: ValueRange): Uint32Array | n
 }
 
 /**
+ * A pass's counts as flat arrays, per group in order of first appearance: the counting thread sends
+ * them back as they are (moved, not copied), where a cell per group, each with its list of keys,
+ * took longer to pass between threads than to count. countsOfTally makes the cells.
+ */
+export interface Tally {
+  /** Each group's code (-1: records with none). */
+  groupKeys: Int32Array
+  /** Five status counts per group (blank, unreadable, zero, positive, negative). */
+  status: Float64Array
+  /** The test's key counts per group, KEY_COUNT of them. */
+  keyCounts: Float64Array
+  /** The mantissa arc's cos and sin sums per group, for the tests that read it. */
+  sums: Float64Array | null
+  /** Counted values by number of integer digits. */
+  lengths: Float64Array
+  profile: Omit<ColumnProfile, 'topValue'> | null
+}
+
+/**
  * Counts what SQL's GROUP BY would over the records a question keeps (statusAndDistribution and
  * profileCounts in digit-tests.ts): per group, the status counts, the test's key counts and the
  * mantissa arc's sums; for the whole selection, the suitability facts but the commonest value.
  * Null when a filter or the grouping names a column the records hold no codes of.
  */
 export function countRecords(records: ColumnRecords, spec: CountSpec) {
+  const tally = tallyRecords(records, spec)
+  return tally && countsOfTally(tally, spec)
+}
+
+/** countRecords' pass, its counts kept flat (Tally). */
+export function tallyRecords(records: ColumnRecords, spec: CountSpec): Tally | null {
   let kept: Uint32Array | null = null
   for (const filter of spec.filters) {
     const codes = records.codes.get(filter.position)
@@ -180,17 +205,29 @@ export function countRecords(records: ColumnRecords, spec: CountSpec) {
     else if (abs === high) atHigh++
   }
 
-  // A plain loop: a closure over status, keyCounts or sums would move them out of registers for the whole pass above.
-  const cells: { code: number, counts: DistributionCounts }[] = []
-  for (let g = 0; g < groupKeys.length; g++) cells.push({ code: groupKeys[g]!, counts: countsOf(status, keyCounts, arc ? sums : null, g, keyCount, spec.sign) })
   // A double's shortest text is the plain decimal for the values ColumnRecords holds.
   const profile: Omit<ColumnProfile, 'topValue'> | null = n
     ? { n, min: String(low), max: String(high), atMin: atLow, atMax: atHigh, whole, roundHundreds: round, commonLength: Math.max(...lengths) }
     : null
+  return { groupKeys: Int32Array.from(groupKeys), status, keyCounts, sums: arc ? sums : null, lengths, profile }
+}
+
+/** A tally's cells in the engine's shape, its suitability facts, and its counts by number of integer digits. */
+export function countsOfTally(tally: Tally, spec: CountSpec) {
+  const keyCount = KEY_COUNT[spec.test]
+  const cells: { code: number, counts: DistributionCounts }[] = []
+  for (let g = 0; g < tally.groupKeys.length; g++) {
+    cells.push({ code: tally.groupKeys[g]!, counts: countsOf(tally.status, tally.keyCounts, tally.sums, g, keyCount, spec.sign) })
+  }
   // The counts by number of integer digits, for joining these facts to cells' (factsCell in digit-cube.ts).
   const byLength = new Map<number, number>()
-  lengths.forEach((count, length) => count && byLength.set(length, count))
-  return { cells, profile, lengths: byLength }
+  tally.lengths.forEach((count, length) => count && byLength.set(length, count))
+  return { cells, profile: tally.profile, lengths: byLength }
+}
+
+/** A tally's arrays' memory, to move it to another thread rather than copy it (the pass keeps none of it). */
+export function tallyBuffers(tally: Tally): ArrayBuffer[] {
+  return [tally.groupKeys, tally.status, tally.keyCounts, tally.sums, tally.lengths].flatMap(array => (array ? [array.buffer as ArrayBuffer] : []))
 }
 
 function grown(old: Float64Array, length: number): Float64Array<ArrayBuffer> {

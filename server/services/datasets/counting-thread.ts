@@ -1,7 +1,7 @@
 import { Worker } from 'node:worker_threads'
 import threadScript from 'thread-script:./column-count-thread'
-import { countRecords } from './column-count'
-import type { CountSpec } from './column-count'
+import { countRecords, countsOfTally } from './column-count'
+import type { CountSpec, Tally } from './column-count'
 import type { ColumnRecords } from './column-layout'
 import type { FromCounter, ToCounter } from './column-count-messages'
 
@@ -11,13 +11,14 @@ type Counted = ReturnType<typeof countRecords>
  * The counting thread seen from the main thread: counts over a column's records in memory run there
  * (a pass over a million records is some 20 ms, time every other request would otherwise wait), on the
  * second core. The records are shared, not copied: the thread is told once which records a key
- * stands for, and to forget them when the column leaves memory. Should the thread fail, counts run
+ * stands for, and to forget them when the column leaves memory. The counts come back as flat arrays
+ * whose memory is moved, not copied (Tally in column-count.ts), and are made into cells here. Should the thread fail, counts run
  * here again, with the same answers, and the next count starts a new thread.
  */
 class CountingThread {
   private worker: Worker | null = null
   private readonly held = new Set<string>()
-  private readonly waiting = new Map<number, { resolve: (counted: Counted) => void, reject: (error: Error) => void }>()
+  private readonly waiting = new Map<number, { resolve: (tally: Tally | null) => void, reject: (error: Error) => void }>()
   private next = 0
 
   private start(): Worker {
@@ -26,7 +27,7 @@ class CountingThread {
       const waiter = this.waiting.get(reply.id)
       this.waiting.delete(reply.id)
       if ('error' in reply) waiter?.reject(new Error(reply.error))
-      else waiter?.resolve(reply.counted)
+      else waiter?.resolve(reply.tally)
     })
     const stopped = (error: Error) => {
       if (this.worker !== worker) return
@@ -47,7 +48,7 @@ class CountingThread {
     this.worker.postMessage(message)
   }
 
-  count(key: string, records: ColumnRecords, spec: CountSpec): Promise<Counted> {
+  count(key: string, records: ColumnRecords, spec: CountSpec): Promise<Tally | null> {
     if (!this.held.has(key)) {
       this.post({ type: 'hold', key, records })
       this.held.add(key)
@@ -68,7 +69,8 @@ const thread = new CountingThread()
 /** countRecords over a column's records, on the counting thread; here when the thread fails. */
 export async function countElsewhere(key: string, records: ColumnRecords, spec: CountSpec): Promise<Counted> {
   try {
-    return await thread.count(key, records, spec)
+    const tally = await thread.count(key, records, spec)
+    return tally && countsOfTally(tally, spec)
   }
   catch (error) {
     console.warn(`[column scan] counting thread: ${(error as Error).message}; counting on the main thread`)
