@@ -34,8 +34,13 @@ describe('archive, replace and delete', () => {
     const two = await uploadReady(newsroom.reporter, 'shared-again.csv', bytes)
     expect(two.sha256).toBe(sha256)
 
+    // Asked once before the delete: the server then knows its newsroom (findPermittedDataset in catalog.ts).
+    const question = { column: 'amount', test: 'first-digit' }
+    expect((await newsroom.reporter.post(`/api/datasets/${one.id}/digit-tests`, question)).status).toBe(200)
     expect((await newsroom.reporter.delete(`/api/datasets/${one.id}`)).status).toBe(200)
     expect((await newsroom.reporter.get(`/api/datasets/${one.id}`)).status).toBe(404)
+    expect((await newsroom.reporter.post(`/api/datasets/${one.id}/digit-tests`, question)).status).toBe(404)
+    expect((await newsroom.reporter.get(`/api/datasets/${one.id}/rows?column=amount&key=1`)).status).toBe(404)
     expect(await partitionTablesOf(one.id)).toEqual([])
     expect(storedFileExists(sha256), 'the second dataset still holds these bytes').toBe(true)
 

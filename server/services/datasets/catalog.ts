@@ -46,7 +46,29 @@ export async function listDatasets(newsroomId: string, search?: string): Promise
 export async function findDataset(id: string): Promise<Dataset> {
   const dataset = await useDb().models.Dataset.findByPk(id)
   if (!dataset) throw fail(404)
+  newsroomOf.set(id, dataset.newsroomId)
   return dataset
+}
+
+/** A dataset never moves to another newsroom: each server keeps the newsroom of the datasets it has read. */
+const newsroomOf = new LRUCache<string, string>({ max: 20_000 })
+
+/**
+ * The dataset behind an id, and what `permitted` answers for its newsroom (the route's permission
+ * check). When this server has read the dataset before, both are asked at once: a question's two
+ * lookups then cost one wait for the database, not two. The answer is as if asked one after the
+ * other: 404 when the dataset is gone, else whatever the check throws.
+ */
+export async function findPermittedDataset<T>(id: string, permitted: (newsroomId: string) => Promise<T>): Promise<{ dataset: Dataset, actor: T }> {
+  const known = newsroomOf.get(id)
+  if (!known) {
+    const dataset = await findDataset(id)
+    return { dataset, actor: await permitted(dataset.newsroomId) }
+  }
+  const [row, check] = await Promise.allSettled([findDataset(id), permitted(known)])
+  if (row.status === 'rejected') throw row.reason
+  if (check.status === 'rejected') throw check.reason
+  return { dataset: row.value, actor: check.value }
 }
 
 /** The dataset's columns, in file order. */

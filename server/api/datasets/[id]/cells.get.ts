@@ -1,6 +1,6 @@
 import { idParamsSchema } from '#shared/schemas/auth'
 import { cellListQuerySchema } from '#shared/schemas/dataset'
-import { findDataset } from '#server/services/datasets/catalog'
+import { findPermittedDataset } from '#server/services/datasets/catalog'
 import { cellsCsv, listCells } from '#server/services/datasets/cells'
 
 // ?column=&status=blank|unreadable|zero|negative|outside[&test=][&sign=]&page= → a page of { rowNo, text };
@@ -8,8 +8,7 @@ import { cellsCsv, listCells } from '#server/services/datasets/cells'
 export default defineEventHandler(async (event) => {
   const { id } = readParams(event, idParamsSchema)
   const query = readQuery(event, cellListQuerySchema)
-  const dataset = await findDataset(id)
-  await requirePermission(event, 'dataset.read', { newsroomId: dataset.newsroomId })
+  const { dataset } = await findPermittedDataset(id, newsroomId => requirePermission(event, 'dataset.read', { newsroomId }))
   if (query.format === 'json') return listCells(dataset, query)
   const { fileName, body } = await cellsCsv(dataset, query)
   setResponseHeaders(event, {
