@@ -1,11 +1,9 @@
-import type { DistributionCounts, DistributionTest, SignFilter } from '#shared/digits'
+import type { DistributionTest, SignFilter } from '#shared/digits'
 import { LRUCache } from 'lru-cache'
 import type { PoolClient } from 'pg'
 import { datasetColumns } from './catalog'
-import { groupNames } from './digit-query'
 import type { DigitQuery } from './digit-query'
-import { mergeGroups } from './count-merge'
-import type { Grouped } from './count-merge'
+import { groupCells } from './count-merge'
 import { readColumnRecords } from './column-records'
 import type { CountSpec } from './column-count'
 import { countElsewhere, forgetElsewhere } from './counting-thread'
@@ -142,26 +140,5 @@ export async function scanDistribution(test: DistributionTest, datasetId: string
     test, sign, filters, range: query.testedRange, groupBy: query.decoding?.position ?? null,
   })
   if (!counted) return null
-  return { groups: await groupsOf(datasetId, query, counted.cells), profile: counted.profile }
-}
-
-/** The counts by the group text of each code (or the period of its date); one whole without a grouping. */
-async function groupsOf(datasetId: string, query: DigitQuery, cells: { code: number, counts: DistributionCounts }[]): Promise<Grouped<DistributionCounts>> {
-  const decoding = query.decoding
-  if (!decoding) return new Map([[null, mergeGroups(cells.map(c => c.counts))]])
-  const labelOf = new Map<number, string>()
-  if (decoding.periods) {
-    for (const [label, codes] of decoding.periods) for (const code of codes) labelOf.set(code, label)
-  }
-  else {
-    for (const [code, name] of await groupNames(datasetId, decoding)) labelOf.set(Number(code), name)
-  }
-  const byLabel = new Map<string, DistributionCounts[]>()
-  for (const { code, counts } of cells) {
-    const label = labelOf.get(code) ?? ''
-    const list = byLabel.get(label)
-    if (list) list.push(counts)
-    else byLabel.set(label, [counts])
-  }
-  return new Map([...byLabel].map(([label, lists]) => [label, mergeGroups(lists)]))
+  return { groups: await groupCells(datasetId, query.decoding, counted.cells), profile: counted.profile }
 }

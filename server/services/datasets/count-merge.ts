@@ -54,25 +54,26 @@ export function mergeGroups(groups: Iterable<DistributionCounts>): DistributionC
 }
 
 /**
- * Cells of the import's counts added up by group: all together without a grouping, else by the
- * group text of each cell's code in the grouping column, or by the period of its date.
+ * Cells (of the import's counts, or of a pass over the records in memory) added up by group: all
+ * together without a grouping, else by the group text of each cell's code in the grouping column, or
+ * by the period of its date. As SQL's GROUP BY has them, a code whose text reads as no date, and a
+ * record with no code, fall in the group ''.
  */
 export async function groupCells(datasetId: string, decoding: GroupDecoding | null, cells: { code: number, counts: DistributionCounts }[]): Promise<Grouped<DistributionCounts>> {
   if (!decoding) return new Map([[null, mergeGroups(cells.map(c => c.counts))]])
-  const byCode = new Map<number, DistributionCounts[]>()
+  const labelOf = new Map<number, string>()
+  if (decoding.periods) {
+    for (const [label, codes] of decoding.periods) for (const code of codes) labelOf.set(code, label)
+  }
+  else {
+    for (const [code, name] of await groupNames(datasetId, decoding)) labelOf.set(Number(code), name)
+  }
+  const byLabel = new Map<string, DistributionCounts[]>()
   for (const { code, counts } of cells) {
-    const list = byCode.get(code)
+    const label = labelOf.get(code) ?? ''
+    const list = byLabel.get(label)
     if (list) list.push(counts)
-    else byCode.set(code, [counts])
+    else byLabel.set(label, [counts])
   }
-  if (!decoding.periods) {
-    const names = await groupNames(datasetId, decoding)
-    return new Map([...byCode].map(([code, lists]) => [names.get(String(code)) ?? '', mergeGroups(lists)]))
-  }
-  const byPeriod: Grouped<DistributionCounts> = new Map()
-  for (const [label, codes] of decoding.periods) {
-    const lists = codes.flatMap(code => byCode.get(code) ?? [])
-    if (lists.length) byPeriod.set(label, mergeGroups(lists))
-  }
-  return byPeriod
+  return new Map([...byLabel].map(([label, lists]) => [label, mergeGroups(lists)]))
 }
